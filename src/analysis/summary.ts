@@ -1,0 +1,125 @@
+/**
+ * The per-point result a user reads: error per state with intervals, the mean error, SNR
+ * (simulated from clean shots, and analytic), and the budget compared cause by cause.
+ */
+import { CAUSES, CAUSE_NONE } from './causes.ts';
+import { wilsonInterval, type RateInterval } from './intervals.ts';
+import { variance } from './moments.ts';
+import { shotsOf, type Tally } from './tally.ts';
+import type { Budget } from './budget.ts';
+
+/** Confidence of the intervals shown to the user. */
+export const REPORT_CONFIDENCE = 0.95;
+/** Confidence of the interval the analytic value must fall in to count as agreeing. */
+export const AGREEMENT_CONFIDENCE = 0.999;
+
+export interface CauseComparison {
+  cause: string;
+  analytic: number;
+  /** Analytic error of this cause taken alone (for the linear sum). */
+  alone: number;
+  simulated: RateInterval;
+  /** 99.9 % interval used for the agreement test. */
+  wide: RateInterval;
+  errors: number;
+  agrees: boolean;
+}
+
+export interface StateResult {
+  state: string;
+  shots: number;
+  errors: number;
+  error: RateInterval;
+  /** assignment[o]: fraction of this state's shots reported as outcome o. */
+  assignment: number[];
+  causes: CauseComparison[];
+  analyticTotal: number;
+  linearSum: number;
+  agrees: boolean;
+}
+
+export interface PointSummary {
+  pipeline: string;
+  shots: number;
+  states: StateResult[];
+  meanError: RateInterval;
+  meanErrors: number;
+  meanCauses: CauseComparison[];
+  analyticMean: number;
+  analyticLinearSum: number;
+  /** separation/σ from clean simulated shots. */
+  snr: number;
+  sigma: number;
+  analyticSnr: number;
+  analyticSigma: number;
+  threshold: number;
+  highIsOne: boolean;
+  discardFraction: number;
+  agreement: boolean;
+}
+
+function compare(cause: string, errors: number, shots: number, analytic: number, alone: number): CauseComparison {
+  const wide = wilsonInterval(errors, shots, AGREEMENT_CONFIDENCE);
+  return {
+    cause, analytic, alone, errors, wide,
+    simulated: wilsonInterval(errors, shots, REPORT_CONFIDENCE),
+    agrees: shots === 0 || (analytic >= wide.low && analytic <= wide.high),
+  };
+}
+
+/** Builds the summary of one pipeline at one point. */
+export function summarise(
+  pipeline: string, stateNames: readonly string[], outcomeOf: readonly number[], prepare: readonly number[],
+  tally: Tally, budget: Budget, threshold: number, highIsOne: boolean,
+): PointSummary {
+  const C = CAUSES.length;
+  const causeNames = CAUSES.filter((_, c) => c !== CAUSE_NONE && CAUSES[c] !== 'discarded');
+  const states: StateResult[] = [];
+  let totalShots = 0, totalErrors = 0;
+  const meanCounts = new Float64Array(C);
+  stateNames.forEach((name, s) => {
+    const shots = shotsOf(tally, s);
+    const right = tally.assignments[s * tally.outcomes + outcomeOf[s]!]!;
+    const errors = shots - right;
+    totalShots += shots;
+    totalErrors += errors;
+    const causes = causeNames.map((cause) => {
+      const c = CAUSES.indexOf(cause);
+      meanCounts[c] += tally.causes[s * C + c]!;
+      return compare(cause, tally.causes[s * C + c]!, shots, budget.perState[s]!.causes[c]!, budget.perState[s]!.alone[c]!);
+    });
+    const total = compare('total', errors, shots, budget.perState[s]!.total, budget.perState[s]!.linearSum);
+    states.push({
+      state: name, shots, errors, error: total.simulated,
+      assignment: Array.from({ length: tally.outcomes }, (_, o) => (shots > 0 ? tally.assignments[s * tally.outcomes + o]! / shots : NaN)),
+      causes, analyticTotal: budget.perState[s]!.total, linearSum: budget.perState[s]!.linearSum,
+      agrees: total.agrees && causes.every((c) => c.agrees),
+    });
+  });
+  const meanCauses = causeNames.map((cause) => {
+    const c = CAUSES.indexOf(cause);
+    return compare(cause, meanCounts[c]!, totalShots, budget.mean.causes[c]!, budget.mean.alone[c]!);
+  });
+  const meanTotal = compare('total', totalErrors, totalShots, budget.mean.total, budget.mean.linearSum);
+  // simulated SNR from clean shots: separation of the outcome groups over the pooled σ
+  let pooledM2 = 0, pooledDof = 0;
+  const groupMean = [0, 0], groupWeight = [0, 0];
+  tally.clean.forEach((m, s) => {
+    if (m.n < 2) return;
+    pooledM2 += m.m2;
+    pooledDof += m.n - 1;
+    const w = prepare[s]! || 1e-300;
+    groupMean[outcomeOf[s]!]! += w * m.mean;
+    groupWeight[outcomeOf[s]!]! += w;
+  });
+  const sigma = pooledDof > 0 ? Math.sqrt(pooledM2 / pooledDof) : NaN;
+  const separation = Math.abs(groupMean[1]! / groupWeight[1]! - groupMean[0]! / groupWeight[0]!);
+  return {
+    pipeline, shots: totalShots, states,
+    meanError: meanTotal.simulated, meanErrors: totalErrors, meanCauses,
+    analyticMean: budget.mean.total, analyticLinearSum: budget.mean.linearSum,
+    snr: separation / sigma, sigma, analyticSnr: budget.snr, analyticSigma: budget.sigma,
+    threshold, highIsOne, discardFraction: 0,
+    agreement: meanTotal.agrees && meanCauses.every((c) => c.agrees) && states.every((s) => s.agrees),
+  };
+}

@@ -1,0 +1,77 @@
+/**
+ * Running tallies of a sweep point, one per pipeline: the assignment matrix, wrong shots by
+ * cause, and moments of the projected value per intended state (all shots, and "clean" shots
+ * whose history had no preparation, mapping or in-window jump, which give the noise σ).
+ * Integer counts and batch-ordered merges keep the result independent of batching.
+ */
+import { CAUSES } from './causes.ts';
+import { emptyMoments, mergeMoments, type Moments } from './moments.ts';
+
+export interface Tally {
+  states: number;
+  outcomes: number;
+  /** assignments[state·outcomes + outcome]: shots of each intended state by reported outcome. */
+  assignments: Float64Array;
+  /** causes[state·C + cause]: shots of each intended state by cause (cause 0 = correct). */
+  causes: Float64Array;
+  clean: Moments[];
+}
+
+export function emptyTally(states: number, outcomes: number): Tally {
+  return {
+    states, outcomes,
+    assignments: new Float64Array(states * outcomes),
+    causes: new Float64Array(states * CAUSES.length),
+    clean: Array.from({ length: states }, () => emptyMoments()),
+  };
+}
+
+/** Shot data needed to tally one pipeline of a batch. */
+export interface TallyInput {
+  count: number;
+  intended: Uint8Array;
+  prepared: Uint8Array;
+  initial: Uint8Array;
+  jumpCause: Uint8Array;
+  projected: Float64Array;
+  outcome: Uint8Array;
+  cause: Uint8Array;
+}
+
+/** Returns a new tally with one batch added (the batch's own moments merged in order). */
+export function addToTally(tally: Tally, b: TallyInput): Tally {
+  const { outcomes } = tally;
+  const c = CAUSES.length;
+  // this batch's moments by Welford's update, then merged in batch order
+  const n = new Float64Array(tally.states), mean = new Float64Array(tally.states), m2 = new Float64Array(tally.states);
+  for (let i = 0; i < b.count; i++) {
+    const s = b.intended[i]!;
+    tally.assignments[s * outcomes + b.outcome[i]!]!++;
+    tally.causes[s * c + b.cause[i]!]!++;
+    if (b.prepared[i] === s && b.initial[i] === s && b.jumpCause[i] === 0) {
+      const x = b.projected[i]!;
+      n[s]!++;
+      const delta = x - mean[s]!;
+      mean[s]! += delta / n[s]!;
+      m2[s]! += delta * (x - mean[s]!);
+    }
+  }
+  tally.clean = tally.clean.map((m, s) => mergeMoments(m, { n: n[s]!, mean: mean[s]!, m2: m2[s]! }));
+  return tally;
+}
+
+/** Merges two tallies (a first, then b). */
+export function mergeTallies(a: Tally, b: Tally): Tally {
+  const out = emptyTally(a.states, a.outcomes);
+  out.assignments.set(a.assignments.map((x, i) => x + b.assignments[i]!));
+  out.causes.set(a.causes.map((x, i) => x + b.causes[i]!));
+  out.clean = a.clean.map((m, s) => mergeMoments(m, b.clean[s]!));
+  return out;
+}
+
+/** Shots of intended state s. */
+export function shotsOf(t: Tally, s: number): number {
+  let n = 0;
+  for (let o = 0; o < t.outcomes; o++) n += t.assignments[s * t.outcomes + o]!;
+  return n;
+}

@@ -1,0 +1,75 @@
+/**
+ * Welch power spectral density estimate (Welch, IEEE Trans. Audio Electroacoust. 15, 70 (1967)):
+ * the record is cut into segments of length L overlapping by 50 %, each segment has its mean
+ * removed (optional), is multiplied by a periodic Hann window w and transformed; the averaged
+ * periodograms are normalised to a one-sided density in unit²/Hz:
+ *
+ *   S(f_k) = c_k · |X_k|² / (fs · Σ w²),   c_k = 2 for 0 < k < L/2, c_k = 1 at k = 0 and L/2,
+ *
+ * so that Σ_k S(f_k)·fs/L equals the mean square of the (windowed) record (Parseval), and white
+ * noise of variance σ² gives S = 2σ²/fs. Same normalisation as scipy.signal.welch with
+ * window='hann', noverlap=L/2, scaling='density', return_onesided=True.
+ */
+import { makeFft } from '../signal/fft.ts';
+
+/** Options of {@link welchDensity}. */
+export interface WelchOptions {
+  /** Segment length L: a power of two ≥ 4, not longer than the record. */
+  segmentLength: number;
+  /** Remove each segment's mean before windowing (default true, like scipy's detrend='constant'). */
+  removeMean?: boolean;
+}
+
+/** A one-sided PSD estimate on the grid f_k = k·fs/L, k = 0 … L/2. */
+export interface WelchEstimate {
+  /** Frequencies in Hz (length L/2 + 1). */
+  frequencies: Float64Array;
+  /** One-sided density in unit²/Hz (length L/2 + 1). */
+  density: Float64Array;
+  /** Number of segments averaged. */
+  segments: number;
+}
+
+/** Welch PSD estimate of `x` sampled at `sampleRate` (Hann window, 50 % overlap, one-sided density). */
+export function welchDensity(x: Float64Array, sampleRate: number, options: WelchOptions): WelchEstimate {
+  const length = options.segmentLength;
+  const removeMean = options.removeMean ?? true;
+  if (length > x.length) throw new RangeError(`segment length ${length} exceeds record length ${x.length}`);
+  const fft = makeFft(length);
+  const hop = length / 2;
+  const half = length / 2;
+  const window = new Float64Array(length);
+  let windowPower = 0;
+  for (let n = 0; n < length; n++) {
+    const w = 0.5 - 0.5 * Math.cos((2 * Math.PI * n) / length);
+    window[n] = w;
+    windowPower += w * w;
+  }
+  const segment = new Float64Array(length);
+  const spectrum = new Float64Array(length + 2);
+  const density = new Float64Array(half + 1);
+  const segments = Math.floor((x.length - length) / hop) + 1;
+  for (let s = 0; s < segments; s++) {
+    const offset = s * hop;
+    let mean = 0;
+    if (removeMean) {
+      for (let n = 0; n < length; n++) mean += x[offset + n]!;
+      mean /= length;
+    }
+    for (let n = 0; n < length; n++) segment[n] = (x[offset + n]! - mean) * window[n]!;
+    fft.realForward(segment, spectrum);
+    for (let k = 0; k <= half; k++) {
+      const re = spectrum[2 * k]!;
+      const im = spectrum[2 * k + 1]!;
+      density[k] = density[k]! + re * re + im * im;
+    }
+  }
+  const scale = 1 / (segments * sampleRate * windowPower);
+  const frequencies = new Float64Array(half + 1);
+  for (let k = 0; k <= half; k++) {
+    const sided = k === 0 || k === half ? 1 : 2;
+    density[k] = density[k]! * scale * sided;
+    frequencies[k] = (k * sampleRate) / length;
+  }
+  return { frequencies, density, segments };
+}

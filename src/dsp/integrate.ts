@@ -1,0 +1,45 @@
+/**
+ * Integration of a record against weights. A linear processing chain (demodulation, linear
+ * filters, integration weights) reduces to one kernel per output (I and Q): the integrated
+ * value is Σ_k kernel[k]·record[k]. That identity is what lets the exact-statistic engine skip
+ * the samples; the trace engine still computes every product.
+ */
+
+/** Σ_{k=lo}^{hi−1} a[k]·b[k]. */
+export function dotRange(a: Float64Array, b: Float64Array, lo: number, hi: number): number {
+  let s0 = 0, s1 = 0;
+  let k = lo;
+  // two accumulators break the dependency chain of the additions
+  for (; k + 1 < hi; k += 2) {
+    s0 += a[k]! * b[k]!;
+    s1 += a[k + 1]! * b[k + 1]!;
+  }
+  if (k < hi) s0 += a[k]! * b[k]!;
+  return s0 + s1;
+}
+
+/** Kernels of a linear chain on the record grid, nonzero only on [lo, hi). */
+export interface LinearKernels {
+  inPhase: Float64Array;
+  /** null at baseband (Q is identically zero). */
+  quadrature: Float64Array | null;
+  lo: number;
+  hi: number;
+}
+
+/**
+ * Kernels of "demodulate, then average over the window (boxcar)": weight 1/L on the L window
+ * samples times the demodulation reference.
+ */
+export function boxcarKernels(
+  n: number, lo: number, hi: number, reference: { inPhase: Float64Array; quadrature: Float64Array } | null,
+): LinearKernels {
+  const inPhase = new Float64Array(n);
+  const quadrature = reference ? new Float64Array(n) : null;
+  const w = 1 / (hi - lo);
+  for (let k = lo; k < hi; k++) {
+    inPhase[k] = reference ? w * reference.inPhase[k]! : w;
+    if (quadrature && reference) quadrature[k] = w * reference.quadrature[k]!;
+  }
+  return { inPhase, quadrature, lo, hi };
+}

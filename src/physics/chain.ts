@@ -1,0 +1,94 @@
+/**
+ * The hidden-state path of one shot during the record: a continuous-time Markov chain with the
+ * scenario's rates, sampled exactly (exponential holding times, jump chain; Norris, "Markov
+ * Chains", Cambridge 1997, §2.6).
+ */
+import type { RandomStream } from '../random/stream.ts';
+import type { TransitionSpec } from '../scenario/types.ts';
+
+/** Precomputed jump tables of the chain. */
+export interface Chain {
+  states: number;
+  /** Total exit rate of each state (1/s). */
+  exitRate: Float64Array;
+  /** Row-wise cumulative jump probabilities: cumulative[from·N + to]. */
+  cumulative: Float64Array;
+  /** Rate matrix: rate[from·N + to] (1/s), zero on the diagonal. */
+  rate: Float64Array;
+}
+
+/** Builds the jump tables from the scenario's transitions (rates between the same pair add). */
+export function makeChain(states: number, transitions: readonly TransitionSpec[]): Chain {
+  const rate = new Float64Array(states * states);
+  for (const t of transitions) rate[t.from * states + t.to]! += t.rate;
+  const exitRate = new Float64Array(states);
+  const cumulative = new Float64Array(states * states);
+  for (let a = 0; a < states; a++) {
+    let total = 0;
+    for (let b = 0; b < states; b++) total += rate[a * states + b]!;
+    exitRate[a] = total;
+    let run = 0;
+    for (let b = 0; b < states; b++) {
+      run += total > 0 ? rate[a * states + b]! / total : 0;
+      cumulative[a * states + b] = run;
+    }
+  }
+  return { states, exitRate, cumulative, rate };
+}
+
+/** A path: jump times (s from the record start) and the state entered at each jump. */
+export interface PathBuffer {
+  /** times[0 … jumps): jump times in increasing order. */
+  times: Float64Array;
+  /** entered[0 … jumps): the state entered at each jump. */
+  entered: Uint8Array;
+  /** Number of jumps in [0, duration). */
+  jumps: number;
+}
+
+/** A path buffer with room for `capacity` jumps (grown on demand). */
+export function makePathBuffer(capacity = 16): PathBuffer {
+  return { times: new Float64Array(capacity), entered: new Uint8Array(capacity), jumps: 0 };
+}
+
+/**
+ * Samples the jumps of the chain on [0, duration) starting in `start`, into `path`.
+ * Returns the state at `duration`.
+ */
+export function samplePath(chain: Chain, start: number, duration: number, stream: RandomStream, path: PathBuffer): number {
+  const n = chain.states;
+  let state = start;
+  let t = 0;
+  path.jumps = 0;
+  for (;;) {
+    const exit = chain.exitRate[state]!;
+    if (exit <= 0) return state;
+    t += stream.nextExponential(exit);
+    if (t >= duration) return state;
+    const u = stream.nextDouble();
+    let next = 0;
+    const row = state * n;
+    while (next < n - 1 && u > chain.cumulative[row + next]!) next++;
+    if (path.jumps === path.times.length) growPath(path);
+    path.times[path.jumps] = t;
+    path.entered[path.jumps] = next;
+    path.jumps++;
+    state = next;
+  }
+}
+
+function growPath(path: PathBuffer): void {
+  const times = new Float64Array(path.times.length * 2);
+  times.set(path.times);
+  const entered = new Uint8Array(path.entered.length * 2);
+  entered.set(path.entered);
+  path.times = times;
+  path.entered = entered;
+}
+
+/** The state of `path` (started in `start`) at time t. */
+export function stateAt(path: PathBuffer, start: number, t: number): number {
+  let s = start;
+  for (let j = 0; j < path.jumps && path.times[j]! <= t; j++) s = path.entered[j]!;
+  return s;
+}

@@ -1,0 +1,95 @@
+/**
+ * Jumps of the xoshiro128 linear engine by large powers of two, computed here rather than
+ * copied: the engine is linear over GF(2), so one step is a 128×128 bit matrix M, and a jump of
+ * 2^k steps is M^(2^k), obtained by k squarings. Applying such a matrix costs 128 word-vector
+ * products, so reaching stream g (g·2^64 steps from the base) costs one matrix product per set
+ * bit of g. Streams therefore occupy disjoint stretches of the single period 2^128 − 1 by
+ * construction (see streams.ts).
+ */
+import { stepLinear, type XoshiroState } from './xoshiro.ts';
+
+/** A 128×128 matrix over GF(2): column j (the image of basis bit j) as four words. */
+type BitMatrix = Uint32Array; // length 128 * 4
+
+function stepMatrix(): BitMatrix {
+  const m = new Uint32Array(512);
+  const v = new Uint32Array(4);
+  for (let j = 0; j < 128; j++) {
+    v.fill(0);
+    v[j >>> 5] = 1 << (j & 31);
+    stepLinear(v);
+    m.set(v, j * 4);
+  }
+  return m;
+}
+
+/** out = m · v (v a 128-bit column vector); out may not alias v. */
+function applyMatrix(m: BitMatrix, v: Uint32Array, out: Uint32Array): void {
+  let o0 = 0, o1 = 0, o2 = 0, o3 = 0;
+  for (let j = 0; j < 128; j++) {
+    if ((v[j >>> 5]! >>> (j & 31)) & 1) {
+      const b = j * 4;
+      o0 ^= m[b]!; o1 ^= m[b + 1]!; o2 ^= m[b + 2]!; o3 ^= m[b + 3]!;
+    }
+  }
+  out[0] = o0; out[1] = o1; out[2] = o2; out[3] = o3;
+}
+
+/** Matrix product a·b (apply b first, then a). */
+function multiply(a: BitMatrix, b: BitMatrix): BitMatrix {
+  const out = new Uint32Array(512);
+  const col = new Uint32Array(4);
+  for (let j = 0; j < 128; j++) {
+    applyMatrix(a, b.subarray(j * 4, j * 4 + 4), col);
+    out.set(col, j * 4);
+  }
+  return out;
+}
+
+/** How many stream-index bits the table covers: 2^40 streams of 2^64 steps each. */
+export const STREAM_INDEX_BITS = 40;
+/** Each stream's stretch of the sequence: 2^64 steps. */
+export const STREAM_LENGTH_LOG2 = 64;
+
+let table: BitMatrix[] | null = null;
+
+/** M^(2^(64+i)) for i = 0 … STREAM_INDEX_BITS−1, built once (about 10 ms). */
+function jumpTable(): BitMatrix[] {
+  if (table) return table;
+  let m = stepMatrix();
+  for (let k = 0; k < STREAM_LENGTH_LOG2; k++) m = multiply(m, m);
+  const t: BitMatrix[] = [m];
+  for (let i = 1; i < STREAM_INDEX_BITS; i++) {
+    m = multiply(m, m);
+    t.push(m);
+  }
+  table = t;
+  return t;
+}
+
+/** Advances `s` by index·2^64 steps in place (index < 2^40) and returns it. */
+export function jumpStreams(s: XoshiroState, index: number): XoshiroState {
+  if (!Number.isInteger(index) || index < 0 || index >= 2 ** STREAM_INDEX_BITS) {
+    throw new RangeError(`stream index ${index} outside [0, 2^${STREAM_INDEX_BITS})`);
+  }
+  const t = jumpTable();
+  const tmp = new Uint32Array(4);
+  let rest = index;
+  for (let i = 0; rest > 0; i++, rest = Math.floor(rest / 2)) {
+    if (rest % 2 === 1) {
+      applyMatrix(t[i]!, s, tmp);
+      s.set(tmp);
+    }
+  }
+  return s;
+}
+
+/** Advances `s` by 2^k steps using matrix squaring (for tests of the jump machinery). */
+export function jumpPowerOfTwo(s: XoshiroState, k: number): XoshiroState {
+  let m = stepMatrix();
+  for (let i = 0; i < k; i++) m = multiply(m, m);
+  const tmp = new Uint32Array(4);
+  applyMatrix(m, s, tmp);
+  s.set(tmp);
+  return s;
+}

@@ -1,0 +1,178 @@
+/**
+ * Building blocks of the scenario schema (zod v4): quantities with units, integers,
+ * probabilities, names and strict sections. Each carries its own one-line "expected …" text,
+ * which `issues.ts` turns into an `InputError`.
+ */
+import { z } from 'zod';
+import { describeFound } from '../errors.ts';
+import { DIMENSIONS, matchDimension, parseQuantity, UnitSyntaxError, type DimensionName } from './units.ts';
+import { didYouMean } from './suggest.ts';
+
+/** Bounds on a number; exclusive bounds are strict. */
+export interface Range {
+  min?: number;
+  minExclusive?: boolean;
+  max?: number;
+  maxExclusive?: boolean;
+}
+
+/** " > 0", " between 0 and 1", … (empty when unbounded). */
+export function rangeText(range: Range): string {
+  const { min, max } = range;
+  if (min !== undefined && max !== undefined) return ` between ${min} and ${max}`;
+  if (min !== undefined) return ` ${range.minExclusive ? '>' : '≥'} ${min}`;
+  if (max !== undefined) return ` ${range.maxExclusive ? '<' : '≤'} ${max}`;
+  return '';
+}
+
+/** Whether `x` lies within `range`. */
+export function inRange(x: number, range: Range): boolean {
+  if (range.min !== undefined && (range.minExclusive ? !(x > range.min) : !(x >= range.min))) return false;
+  if (range.max !== undefined && (range.maxExclusive ? !(x < range.max) : !(x <= range.max))) return false;
+  return true;
+}
+
+/** A user-facing problem found inside a field: the expected text and what was found. */
+function report(ctx: z.RefinementCtx, expected: string, found: string): void {
+  ctx.addIssue({ code: 'custom', message: expected, params: { found } });
+}
+
+/** A value of a signal quantity: SI value and which signal unit was written (null: plain number). */
+export interface SignalValue {
+  value: number;
+  unit: 'A' | 'V' | null;
+}
+
+function expectedQuantity(kind: DimensionName, range: Range, alternative?: string): string {
+  const d = DIMENSIONS[kind];
+  const main = `${d.label}${rangeText(range)} (e.g. "${d.example}")`;
+  return alternative ? `${alternative} or ${main}` : main;
+}
+
+function readQuantity(
+  input: number | string,
+  kind: DimensionName,
+  range: Range,
+  expected: string,
+  ctx: z.RefinementCtx,
+): { value: number; index: number } | undefined {
+  let q;
+  try {
+    q = parseQuantity(input);
+  } catch (e) {
+    if (!(e instanceof UnitSyntaxError)) throw e;
+    report(ctx, expected, `${describeFound(input)} (${e.message})`);
+    return undefined;
+  }
+  const index = matchDimension(q, kind);
+  if (index < 0 || !inRange(q.value, range)) {
+    report(ctx, expected, describeFound(input));
+    return undefined;
+  }
+  return { value: q.value, index };
+}
+
+function quantityInput(expected: string, kind: DimensionName, description?: string) {
+  const d = DIMENSIONS[kind];
+  const form = `${d.label}: a number in SI units or a string with a unit, e.g. "${d.example}"`;
+  return z
+    .union([z.number(), z.string()], { error: () => expected })
+    .meta({ description: description ? `${description} (${form})` : form });
+}
+
+/**
+ * A quantity of the given dimension, written as a plain number (SI) or "number unit";
+ * parses to the SI value. `description` is for the JSON Schema; `alternative` names other
+ * accepted forms in the error message.
+ */
+export function quantity(kind: DimensionName, range: Range = {}, description?: string, alternative?: string) {
+  const expected = expectedQuantity(kind, range, alternative);
+  return quantityInput(expected, kind, description).transform((input, ctx) => {
+    const q = readQuantity(input, kind, range, expected, ctx);
+    return q === undefined ? z.NEVER : q.value;
+  });
+}
+
+/** A signal quantity (a level or a noise density in A or V, or a plain number). */
+export function signalQuantity(kind: 'signal' | 'noiseDensity', range: Range = {}, description?: string) {
+  const expected = expectedQuantity(kind, range);
+  return quantityInput(expected, kind, description).transform((input, ctx): SignalValue => {
+    const q = readQuantity(input, kind, range, expected, ctx);
+    if (q === undefined) return z.NEVER;
+    const plain = typeof input === 'number' || parseQuantity(input).plain;
+    return { value: q.value, unit: plain ? null : q.index === 0 ? 'A' : 'V' };
+  });
+}
+
+/** An integer in [min, max]. */
+export function integer(min: number, max: number = Number.MAX_SAFE_INTEGER) {
+  const expected =
+    max === Number.MAX_SAFE_INTEGER ? `an integer ≥ ${min}` : `an integer from ${min} to ${max}`;
+  const error = () => expected;
+  return z.number({ error }).int({ error }).min(min, { error }).max(max, { error });
+}
+
+/** A plain number within `range`. */
+export function number(range: Range = {}) {
+  const expected = `a number${rangeText(range)}`;
+  const error = () => expected;
+  let schema = z.number({ error });
+  if (range.min !== undefined) schema = range.minExclusive ? schema.gt(range.min, { error }) : schema.min(range.min, { error });
+  if (range.max !== undefined) schema = range.maxExclusive ? schema.lt(range.max, { error }) : schema.max(range.max, { error });
+  return schema;
+}
+
+/** A probability, a plain number in [0, 1]. */
+export function probability() {
+  return number({ min: 0, max: 1 }).meta({ description: 'a probability between 0 and 1' });
+}
+
+/** Pattern of state and pipeline names. */
+export const NAME_PATTERN = /^[A-Za-z_][A-Za-z0-9_-]*$/;
+
+/** A name: letters, digits, '_' and '-', starting with a letter or '_'. */
+export function name() {
+  const expected = 'a name of letters, digits, "_" or "-" starting with a letter or "_"';
+  const error = () => expected;
+  return z.string({ error }).regex(NAME_PATTERN, { error });
+}
+
+/** A non-empty string. */
+export function text() {
+  const error = () => 'a non-empty string';
+  return z.string({ error }).min(1, { error });
+}
+
+/** An outcome label: a string or a number (stringified later). */
+export function label() {
+  const error = () => 'an outcome label (a string or a number)';
+  return z.union([z.string().min(1), z.number()], { error });
+}
+
+/** One of the given words. */
+export function oneOf<const T extends readonly [string, ...string[]]>(words: T) {
+  const expected = `one of ${words.map((w) => `"${w}"`).join(', ')}`;
+  return z.enum(words, { error: () => expected });
+}
+
+/**
+ * A strict mapping: unknown keys are errors, with a "did you mean" suggestion. The message is
+ * for the first unknown key; `issues.ts` appends that key to the path.
+ */
+export function section<S extends z.ZodRawShape>(shape: S) {
+  const keys = Object.keys(shape);
+  return z.strictObject(shape, {
+    error: (iss) => {
+      if (iss.code === 'unrecognized_keys') {
+        const key = iss.keys[0] ?? '';
+        const hint = didYouMean(key, keys);
+        return hint ? `a known key${hint}` : `one of the keys ${keys.join(', ')}`;
+      }
+      if (iss.code === 'invalid_type') return `a mapping with keys ${keys.join(', ')}`;
+      return undefined;
+    },
+  });
+}
+
+/** The validated type of a group of top-level keys (optional keys stay optional). */
+export type ShapeOutput<S extends z.ZodRawShape> = z.output<z.ZodObject<S>>;

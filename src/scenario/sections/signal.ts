@@ -1,0 +1,122 @@
+/**
+ * Signal section: the signal unit, carrier, gain and white noise; also checks that every
+ * level, noise figure and threshold is written in the same unit.
+ */
+import { z } from 'zod';
+import type { CarrierSpec, SignalSpec, StateSpec, TimingSpec } from '../types.ts';
+import { number, oneOf, quantity, section, signalQuantity } from '../fields.ts';
+import type { ResolveContext } from '../context.ts';
+import type { SignalUse } from './states.ts';
+import { formatQuantity } from '../units.ts';
+
+const positive = { min: 0, minExclusive: true } as const;
+
+const carrierSchema = z
+  .union(
+    [
+      z.literal('none'),
+      section({
+        shape: oneOf(['sine', 'square']),
+        frequency: quantity('frequency', positive, 'Carrier frequency'),
+        phase: quantity('angle', {}, 'Carrier phase (default 0)').optional(),
+      }),
+    ],
+    { error: () => '"none" or a mapping {shape, frequency, phase}' },
+  )
+  .meta({ description: '"none" (baseband) or a sine or square carrier' });
+
+const whiteSchema = z
+  .union(
+    [
+      section({ density: signalQuantity('noiseDensity', { min: 0 }) }),
+      section({ perSample: signalQuantity('signal', { min: 0 }) }),
+    ],
+    { error: () => 'a mapping {density} or {perSample}' },
+  )
+  .meta({ description: 'White noise: one-sided density (e.g. "2 fA/rtHz") or σ per sample' });
+
+const signalSchema = section({
+  unit: oneOf(['A', 'V', 'none']).optional().meta({ description: 'Signal unit (default: inferred from the levels)' }),
+  carrier: carrierSchema.optional(),
+  gain: number(positive).optional().meta({ description: 'Gain applied before digitisation (default 1)' }),
+  noise: section({ white: whiteSchema.optional() }).optional().meta({ description: 'Additive noise' }),
+})
+  .optional()
+  .meta({ description: 'Signal chain: unit, carrier, gain, noise' });
+
+/** Top-level keys of the signal section. */
+export const signalShape = { signal: signalSchema };
+
+/** Validated signal keys. */
+export type SignalDoc = z.output<typeof signalSchema>;
+
+/** What the signal resolver reads from other sections. */
+export interface SignalInputs {
+  states: StateSpec[];
+  /** Where levels (and thresholds) were written, with their units. */
+  uses: SignalUse[];
+  timing: TimingSpec;
+}
+
+/** Resolves the carrier, noise and unit; makes levels real at baseband; warns on aliasing. */
+export function resolveSignal(doc: SignalDoc, ctx: ResolveContext, inputs: SignalInputs): SignalSpec {
+  const s = doc ?? {};
+  const at = ['signal'];
+  const carrier: CarrierSpec =
+    s.carrier === undefined || s.carrier === 'none'
+      ? { shape: 'none', frequency: 0, phase: 0 }
+      : { shape: s.carrier.shape, frequency: s.carrier.frequency, phase: s.carrier.phase ?? 0 };
+
+  const uses = [...inputs.uses];
+  let density: number | null = null;
+  const white = s.noise?.white;
+  if (white !== undefined) {
+    if ('density' in white) {
+      density = white.density.value;
+      uses.push({ path: [...at, 'noise', 'white', 'density'], unit: white.density.unit });
+    } else {
+      density = white.perSample.value / Math.sqrt(inputs.timing.sampleRate / 2);
+      uses.push({ path: [...at, 'noise', 'white', 'perSample'], unit: white.perSample.unit });
+    }
+  }
+  const unit = agreeUnit(s.unit, uses, ctx);
+
+  if (carrier.shape === 'none') {
+    inputs.states.forEach((st, i) => {
+      const scale = Math.max(Math.abs(st.level.re), Math.abs(st.level.im));
+      if (Math.abs(st.level.im) > 1e-12 * scale) {
+        ctx.fail(['states', i, 'level'], 'a real level (complex levels need a carrier)');
+      }
+      st.level.im = 0;
+    });
+  } else {
+    const { sampleRate, windowLength } = inputs.timing;
+    const f = carrier.frequency;
+    const key = [...at, 'carrier', 'frequency'];
+    if (sampleRate < 2 * f) {
+      ctx.warn(key, `${formatQuantity(f, 'Hz')} is above half the sample rate (${formatQuantity(sampleRate, 'Hz')}): the carrier aliases`);
+    }
+    if (1 / f > windowLength) {
+      ctx.warn(key, `one carrier period (${formatQuantity(1 / f, 's')}) is longer than the window (${formatQuantity(windowLength, 's')})`);
+    }
+  }
+  return { carrier, gain: s.gain ?? 1, white: density === null ? null : { density }, unit };
+}
+
+/** The one signal unit: the declared one, else the first written; every written unit must agree. */
+function agreeUnit(declared: 'A' | 'V' | 'none' | undefined, uses: SignalUse[], ctx: ResolveContext): string {
+  const written = uses.filter((u) => u.unit !== null);
+  if (declared === 'none') {
+    const bad = written[0];
+    if (bad) ctx.fail(bad.path, 'a plain number (signal.unit is none)');
+    return '';
+  }
+  const unit = declared ?? written[0]?.unit;
+  if (unit === undefined || unit === null) return '';
+  const bad = written.find((u) => u.unit !== unit);
+  if (bad) {
+    const why = declared ? `signal.unit is ${unit}` : `as in the first level written with a unit`;
+    ctx.fail(bad.path, `a value in ${unit === 'A' ? 'amperes (A)' : 'volts (V)'} (${why})`);
+  }
+  return unit;
+}

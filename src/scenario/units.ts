@@ -1,0 +1,262 @@
+/**
+ * Quantities with units, as written in scenario files: "100 MHz", "2 fA/rtHz", "2 meV/ns".
+ *
+ * A small dimension algebra: every unit is a factor to SI and a dimension vector over the base
+ * dimensions below; a unit expression multiplies, divides, raises to powers and takes square
+ * roots of units. Each scenario key then asks for a named dimension (`DIMENSIONS`).
+ */
+import { ELEMENTARY_CHARGE } from '../physics/constants.ts';
+
+/** Base dimensions, in this order: time, current, energy, temperature, angle. */
+export const BASE_DIMENSIONS = ['time', 'current', 'energy', 'temperature', 'angle'] as const;
+
+/** Exponents of the base dimensions (halves allowed, for 1/√Hz). */
+export type Dimension = readonly [number, number, number, number, number];
+
+const NONE: Dimension = [0, 0, 0, 0, 0];
+
+interface UnitDef {
+  factor: number;
+  dim: Dimension;
+  /** Whether SI prefixes may be put in front. */
+  prefixable: boolean;
+}
+
+/** The unit table: symbol → factor to SI and dimension. */
+const UNITS: Record<string, UnitDef> = {
+  s: { factor: 1, dim: [1, 0, 0, 0, 0], prefixable: true },
+  Hz: { factor: 1, dim: [-1, 0, 0, 0, 0], prefixable: true },
+  A: { factor: 1, dim: [0, 1, 0, 0, 0], prefixable: true },
+  // V = J/C = J/(A·s)
+  V: { factor: 1, dim: [-1, -1, 1, 0, 0], prefixable: true },
+  J: { factor: 1, dim: [0, 0, 1, 0, 0], prefixable: true },
+  eV: { factor: ELEMENTARY_CHARGE, dim: [0, 0, 1, 0, 0], prefixable: true },
+  K: { factor: 1, dim: [0, 0, 0, 1, 0], prefixable: true },
+  // Ω = V/A
+  Ohm: { factor: 1, dim: [-1, -2, 1, 0, 0], prefixable: true },
+  ohm: { factor: 1, dim: [-1, -2, 1, 0, 0], prefixable: true },
+  'Ω': { factor: 1, dim: [-1, -2, 1, 0, 0], prefixable: true },
+  rad: { factor: 1, dim: [0, 0, 0, 0, 1], prefixable: true },
+  deg: { factor: Math.PI / 180, dim: [0, 0, 0, 0, 1], prefixable: false },
+  '°': { factor: Math.PI / 180, dim: [0, 0, 0, 0, 1], prefixable: false },
+  // √Hz, written the way spectrum analysers label it.
+  rtHz: { factor: 1, dim: [-0.5, 0, 0, 0, 0], prefixable: false },
+};
+
+/** SI prefixes accepted in front of a unit (both micro signs and "u"). */
+const PREFIXES: Record<string, number> = {
+  f: 1e-15, p: 1e-12, n: 1e-9, u: 1e-6, 'µ': 1e-6, 'μ': 1e-6, m: 1e-3, k: 1e3, M: 1e6, G: 1e9, T: 1e12,
+};
+
+/** A parsed quantity: value in SI and its dimension; `plain` when no unit was written. */
+export interface Quantity {
+  value: number;
+  dim: Dimension;
+  plain: boolean;
+}
+
+/** A named dimension that a scenario key can ask for. */
+export interface DimensionKind {
+  /** Accepted dimensions (a signal may be a current or a voltage). */
+  dims: Dimension[];
+  /** Noun phrase for messages: "a frequency". */
+  label: string;
+  /** Example written in the file format: "100 MHz". */
+  example: string;
+}
+
+/** The named dimensions used by scenario keys. */
+export const DIMENSIONS = {
+  time: { dims: [[1, 0, 0, 0, 0]], label: 'a time', example: '20 us' },
+  frequency: { dims: [[-1, 0, 0, 0, 0]], label: 'a frequency', example: '100 MHz' },
+  rate: { dims: [[-1, 0, 0, 0, 0]], label: 'a rate', example: '5 kHz' },
+  energy: { dims: [[0, 0, 1, 0, 0]], label: 'an energy', example: '150 ueV' },
+  temperature: { dims: [[0, 0, 0, 1, 0]], label: 'a temperature', example: '120 mK' },
+  angle: { dims: [[0, 0, 0, 0, 1]], label: 'an angle', example: '30 deg' },
+  resistance: { dims: [[-1, -2, 1, 0, 0]], label: 'a resistance', example: '1 MOhm' },
+  sweepRate: { dims: [[-1, 0, 1, 0, 0]], label: 'an energy sweep rate', example: '2 meV/ns' },
+  signal: { dims: [[0, 1, 0, 0, 0], [-1, -1, 1, 0, 0]], label: 'a signal level', example: '120 pA' },
+  noiseDensity: {
+    dims: [[0.5, 1, 0, 0, 0], [-0.5, -1, 1, 0, 0]],
+    label: 'a noise density',
+    example: '2 fA/rtHz',
+  },
+} satisfies Record<string, DimensionKind>;
+
+/** Name of a dimension a key can ask for. */
+export type DimensionName = keyof typeof DIMENSIONS;
+
+/** A unit text that could not be read; `reason` is a short phrase. */
+export class UnitSyntaxError extends Error {}
+
+/** Whether two dimension vectors are equal. */
+export function sameDimension(a: Dimension, b: Dimension): boolean {
+  return a.every((x, i) => x === b[i]);
+}
+
+function combine(a: Dimension, b: Dimension, power: number): Dimension {
+  return a.map((x, i) => x + power * b[i]!) as unknown as Dimension;
+}
+
+/** Looks up one unit symbol, with an optional SI prefix. */
+function lookupSymbol(symbol: string): { factor: number; dim: Dimension } {
+  const exact = UNITS[symbol];
+  if (exact) return exact;
+  for (const [prefix, scale] of Object.entries(PREFIXES)) {
+    if (!symbol.startsWith(prefix)) continue;
+    const unit = UNITS[symbol.slice(prefix.length)];
+    if (unit && unit.prefixable) return { factor: scale * unit.factor, dim: unit.dim };
+  }
+  throw new UnitSyntaxError(`unknown unit "${symbol}"`);
+}
+
+/** Recursive-descent reader of a unit expression: factors joined by '/', '*' or '·'. */
+class UnitReader {
+  private pos = 0;
+  constructor(private readonly text: string) {}
+
+  read(): { factor: number; dim: Dimension } {
+    const result = this.expression();
+    if (this.pos < this.text.length) throw new UnitSyntaxError(`unexpected "${this.text.slice(this.pos)}"`);
+    return result;
+  }
+
+  private expression(): { factor: number; dim: Dimension } {
+    let factor = 1;
+    let dim: Dimension = NONE;
+    let sign = 1;
+    this.space();
+    // A leading '/' means "1/…" ("5 /s").
+    if (this.peek() === '/') {
+      this.pos++;
+      sign = -1;
+    }
+    for (;;) {
+      const f = this.factor();
+      factor *= f.factor ** sign;
+      dim = combine(dim, f.dim, sign);
+      this.space();
+      const op = this.peek();
+      if (op === '/') sign = -1;
+      else if (op === '*' || op === '·') sign = 1;
+      else return { factor, dim };
+      this.pos++;
+      this.space();
+    }
+  }
+
+  private factor(): { factor: number; dim: Dimension } {
+    let base: { factor: number; dim: Dimension };
+    if (this.text.startsWith('sqrt(', this.pos) || this.peek() === '√') {
+      const bracketed = this.peek() !== '√' || this.text[this.pos + 1] === '(';
+      this.pos += this.peek() === '√' ? 1 : 4;
+      if (bracketed) {
+        this.pos++; // '('
+        const inner = this.expression();
+        if (this.peek() !== ')') throw new UnitSyntaxError('missing ")"');
+        this.pos++;
+        base = { factor: Math.sqrt(inner.factor), dim: combine(NONE, inner.dim, 0.5) };
+      } else {
+        const inner = this.atom();
+        base = { factor: Math.sqrt(inner.factor), dim: combine(NONE, inner.dim, 0.5) };
+      }
+    } else if (this.peek() === '(') {
+      this.pos++;
+      base = this.expression();
+      if (this.peek() !== ')') throw new UnitSyntaxError('missing ")"');
+      this.pos++;
+    } else {
+      base = this.atom();
+    }
+    const power = /^\^(-?\d+)/.exec(this.text.slice(this.pos));
+    if (power) {
+      this.pos += power[0].length;
+      const p = Number(power[1]);
+      return { factor: base.factor ** p, dim: combine(NONE, base.dim, p) };
+    }
+    return base;
+  }
+
+  private atom(): { factor: number; dim: Dimension } {
+    const m = /^(?:1(?![0-9])|[A-Za-zµμΩ°]+)/.exec(this.text.slice(this.pos));
+    if (!m) throw new UnitSyntaxError(this.pos < this.text.length ? `unexpected "${this.text.slice(this.pos)}"` : 'missing unit');
+    this.pos += m[0].length;
+    if (m[0] === '1') return { factor: 1, dim: NONE };
+    return lookupSymbol(m[0]);
+  }
+
+  private peek(): string | undefined {
+    return this.text[this.pos];
+  }
+
+  private space(): void {
+    while (this.text[this.pos] === ' ') this.pos++;
+  }
+}
+
+/** Reads a unit expression ("meV/ns", "A/sqrt(Hz)") into its SI factor and dimension. */
+export function parseUnit(text: string): { factor: number; dim: Dimension } {
+  return new UnitReader(text.trim()).read();
+}
+
+const NUMBER = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$/;
+
+/**
+ * Reads a quantity: a plain number (taken as SI) or a string "number [space] unit".
+ * Throws `UnitSyntaxError` when the text is not a number followed by a known unit.
+ */
+export function parseQuantity(input: number | string): Quantity {
+  if (typeof input === 'number') {
+    if (!Number.isFinite(input)) throw new UnitSyntaxError('not a finite number');
+    return { value: input, dim: NONE, plain: true };
+  }
+  const m = NUMBER.exec(input);
+  if (!m) throw new UnitSyntaxError('not a number followed by a unit');
+  const number = Number(m[1]);
+  if (!Number.isFinite(number)) throw new UnitSyntaxError('not a finite number');
+  const unitText = m[2]!;
+  if (unitText === '') return { value: number, dim: NONE, plain: true };
+  const unit = parseUnit(unitText);
+  return { value: number * unit.factor, dim: unit.dim, plain: false };
+}
+
+/**
+ * Index of the accepted dimension of `kind` that `q` has (0 for a plain number, which is
+ * taken as SI in whatever the key expects), or -1 when it has none of them.
+ */
+export function matchDimension(q: Quantity, kind: DimensionName): number {
+  if (q.plain) return 0;
+  return DIMENSIONS[kind].dims.findIndex((d) => sameDimension(q.dim, d as Dimension));
+}
+
+/** "a frequency (e.g. "100 MHz")", for messages. */
+export function describeDimension(kind: DimensionName): string {
+  const d = DIMENSIONS[kind];
+  return `${d.label} (e.g. "${d.example}")`;
+}
+
+const FORMAT_PREFIXES: [number, string][] = [
+  [1e12, 'T'], [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''],
+  [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'],
+];
+
+/** Units that are never given a prefix in reports. */
+const UNPREFIXED = new Set(['', 'deg', '°', '%']);
+
+/**
+ * Formats a value expressed in `unit` with an SI prefix and `digits` significant digits,
+ * trailing zeros dropped: formatQuantity(2e-5, 's') → "20 µs"; formatQuantity(0.5, '') → "0.5".
+ */
+export function formatQuantity(value: number, unit: string, digits = 4): string {
+  const join = (text: string, u: string): string => (u ? `${text} ${u}` : text);
+  if (!Number.isFinite(value)) return join(String(value), unit);
+  const trim = (x: number): string => String(Number(x.toPrecision(digits)));
+  if (value === 0 || UNPREFIXED.has(unit)) return join(trim(value), unit);
+  const size = Math.abs(value);
+  for (const [scale, prefix] of FORMAT_PREFIXES) {
+    const mantissa = Number((value / scale).toPrecision(digits));
+    if (Math.abs(mantissa) >= 1 && Math.abs(mantissa) < 1000) return join(String(mantissa), prefix + unit);
+  }
+  // Outside the prefix range: scientific notation in the plain unit.
+  return join(Number(size.toPrecision(digits)) === 0 ? '0' : value.toExponential(digits - 1).replace(/\.?0+e/, 'e'), unit);
+}
