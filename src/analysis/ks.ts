@@ -46,7 +46,7 @@ export function kolmogorovTail(lambda: number): number {
   return Math.min(1, Math.max(0, 2 * sum));
 }
 
-/** Two-sample KS statistic D of two samples (inputs are not modified; sorted copies are used). */
+/** Two-sample KS statistic D (inputs are not modified; sorted copies are used; no NaN allowed). */
 export function ksStatistic(first: Float64Array, second: Float64Array): number {
   const x = Float64Array.from(first).sort();
   const y = Float64Array.from(second).sort();

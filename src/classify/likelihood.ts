@@ -59,7 +59,7 @@ export interface HmmClassifier {
   readonly states: number;
   /** Longest window (bins) the means cover. */
   readonly maxLength: number;
-  /** Writes log P(y | x_start = s) for each state s (a true log density) into `out` (length N). */
+  /** Writes log P(y | x_start = s) for each state s (a true log density; 0 for length 0) into `out` (length N). */
   stateLogLikelihoods(record: Float64Array, start: number, length: number, out: Float64Array): Float64Array;
   /** Writes log P(y | outcome o) for o = 0, 1 into `out` (length ≥ 2). */
   outcomeLogLikelihoods(record: Float64Array, start: number, length: number, out: Float64Array): Float64Array;

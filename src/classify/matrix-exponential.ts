@@ -114,8 +114,8 @@ export function matrixExponential(a: Float64Array, n: number, out: Float64Array 
   }
   solveInPlace(denominator, numerator, n);
 
-  let current = numerator;
-  let spare = x; // reuse as scratch for squaring
+  let current: Float64Array = numerator;
+  let spare: Float64Array = x; // reuse as scratch for squaring
   for (let s = 0; s < squarings; s++) {
     multiply(current, current, spare, n);
     const t = current;

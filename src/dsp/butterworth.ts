@@ -4,7 +4,7 @@
  * Method: the analog Butterworth prototype (poles evenly spaced on the left half of the unit
  * circle, Butterworth, *Wireless Engineer* 7, 536, 1930), scaled to the pre-warped cutoff
  * Ωc = 2·fs·tan(π·fc/fs), mapped to the z-plane by the bilinear transform s = 2·fs·(z − 1)/(z + 1)
- * (Oppenheim & Schafer, *Discrete-Time Signal Processing*, 3rd ed., 2010, §7.2.2), which puts all
+ * (Oppenheim & Schafer, *Discrete-Time Signal Processing*, 3rd ed., 2010, ch. 7), which puts all
  * N zeros at z = −1. The poles are then grouped into sections exactly as scipy.signal's
  * `zpk2sos(..., pairing='nearest')` does, so `butterworthSections(N, fc, fs).sos` equals
  * `scipy.signal.butter(N, fc, output='sos', fs=fs)` to rounding.
@@ -36,7 +36,7 @@ interface Root {
   im: number;
 }
 
-/** Relative tolerance for "real" and for conjugate matching (scipy's `_cplxreal` default). */
+/** Relative tolerance below which a pole counts as real (scipy's `_cplxreal` default). */
 const REAL_TOLERANCE = 100 * Number.EPSILON;
 
 /**

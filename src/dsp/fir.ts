@@ -2,7 +2,7 @@
  * Windowed-sinc low-pass FIR: design, streaming application, and response.
  *
  * Design (the window method, Oppenheim & Schafer, *Discrete-Time Signal Processing*, 3rd ed.,
- * 2010, §7.5): the ideal low-pass impulse response h[n] = c·sinc(c·(n − (N−1)/2)), c = 2·fc/fs,
+ * 2010, ch. 7): the ideal low-pass impulse response h[n] = c·sinc(c·(n − (N−1)/2)), c = 2·fc/fs,
  * sinc(x) = sin(πx)/(πx), times a symmetric window of length N, scaled so that Σh = 1 (unit DC
  * gain). Windows are the symmetric generalised cosines of Harris, *Proc. IEEE* 66, 51 (1978):
  * Hann (0.5, 0.5), Hamming (0.54, 0.46), Blackman (0.42, 0.5, 0.08), or all ones. This is the

@@ -4,10 +4,11 @@
  *
  * Design: α = 1 − e^(−T/τ) with T = 1/fs, i.e. α = 1 − e^(−2π·fc/fs). This is the impulse-invariant
  * discretisation of the RC low-pass (Oppenheim & Schafer, *Discrete-Time Signal Processing*,
- * 3rd ed., 2010, §7.2.1): the pole e^(−T/τ) is the analog pole s = −1/τ mapped by z = e^(sT), so
+ * 3rd ed., 2010, ch. 7): the pole e^(−T/τ) is the analog pole s = −1/τ mapped by z = e^(sT), so
  * the sampled impulse response decays exactly like the analog one, y[n+1]/y[n] = e^(−T/τ); the
  * gain is then scaled for unit DC gain. `fc` is the analog −3 dB frequency; the digital −3 dB
- * point lies slightly above it as fc approaches fs/2 (see `singlePoleResponse`).
+ * point lies above it, by O(fc/fs) for fc ≪ fs and increasingly so towards fs/2, where the gain
+ * α/(2 − α) at Nyquist may even stay above 1/√2 (see `singlePoleResponse`).
  */
 
 import { type ComplexSeries, makeComplexSeries } from './complex-response.ts';

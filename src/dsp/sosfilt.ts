@@ -1,7 +1,7 @@
 /**
  * Filtering by a cascade of second-order sections, Direct Form II transposed per section (the
  * structure and state layout of scipy.signal's `sosfilt`; Oppenheim & Schafer, *Discrete-Time
- * Signal Processing*, 3rd ed., 2010, §6.5.1).
+ * Signal Processing*, 3rd ed., 2010, ch. 6).
  *
  * Inner kernel: assumes a valid `sos` (rows b0 b1 b2 a0 a1 a2 with a0 = 1, as the designs in
  * this folder produce) and a state of length 2 × sections; no checks in the loop.

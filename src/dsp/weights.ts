@@ -6,7 +6,8 @@
  * Normalisation (so that v stays in signal units and the designs compare on one scale):
  * boxcar: Σ w = 1, v is the window mean; matched and optimal linear: scaled so that
  * Σ w·Δμ = Δμ̄ = (1/n)·Σ Δμ, i.e. the separation of the two states' integrated values equals the
- * separation a boxcar over the same n samples gives. Only the direction of w matters for the
+ * separation a boxcar over the same n samples gives (when mean(Δμ) = 0, e.g. an oscillating
+ * difference, Σ w·Δμ = 1 instead). Only the direction of w matters for the
  * decision; the scale only fixes the units of the value and of the threshold.
  *
  * Optimal linear filter: Gambetta, Braff, Wallraff, Girvin, Schoelkopf, Phys. Rev. A 76, 012325

@@ -43,12 +43,13 @@ export interface SignalValue {
   unit: 'A' | 'V' | null;
 }
 
-function expectedQuantity(kind: DimensionName, range: Range, alternative?: string): string {
+function expectedQuantity(kind: DimensionName, alternative?: string): string {
   const d = DIMENSIONS[kind];
-  const main = `${d.label}${rangeText(range)} (e.g. "${d.example}")`;
+  const main = `${d.label} (e.g. "${d.example}")`;
   return alternative ? `${alternative} or ${main}` : main;
 }
 
+/** Reads a quantity; reports a wrong form or dimension, then a value out of range. */
 function readQuantity(
   input: number | string,
   kind: DimensionName,
@@ -65,8 +66,12 @@ function readQuantity(
     return undefined;
   }
   const index = matchDimension(q, kind);
-  if (index < 0 || !inRange(q.value, range)) {
+  if (index < 0) {
     report(ctx, expected, describeFound(input));
+    return undefined;
+  }
+  if (!inRange(q.value, range)) {
+    report(ctx, `${DIMENSIONS[kind].label}${rangeText(range)}`, describeFound(input));
     return undefined;
   }
   return { value: q.value, index };
@@ -86,7 +91,7 @@ function quantityInput(expected: string, kind: DimensionName, description?: stri
  * accepted forms in the error message.
  */
 export function quantity(kind: DimensionName, range: Range = {}, description?: string, alternative?: string) {
-  const expected = expectedQuantity(kind, range, alternative);
+  const expected = expectedQuantity(kind, alternative);
   return quantityInput(expected, kind, description).transform((input, ctx) => {
     const q = readQuantity(input, kind, range, expected, ctx);
     return q === undefined ? z.NEVER : q.value;
@@ -95,7 +100,7 @@ export function quantity(kind: DimensionName, range: Range = {}, description?: s
 
 /** A signal quantity (a level or a noise density in A or V, or a plain number). */
 export function signalQuantity(kind: 'signal' | 'noiseDensity', range: Range = {}, description?: string) {
-  const expected = expectedQuantity(kind, range);
+  const expected = expectedQuantity(kind);
   return quantityInput(expected, kind, description).transform((input, ctx): SignalValue => {
     const q = readQuantity(input, kind, range, expected, ctx);
     if (q === undefined) return z.NEVER;
@@ -104,10 +109,9 @@ export function signalQuantity(kind: 'signal' | 'noiseDensity', range: Range = {
   });
 }
 
-/** An integer in [min, max]. */
-export function integer(min: number, max: number = Number.MAX_SAFE_INTEGER) {
-  const expected =
-    max === Number.MAX_SAFE_INTEGER ? `an integer ≥ ${min}` : `an integer from ${min} to ${max}`;
+/** An integer in [min, max]; `expected` replaces the default message. */
+export function integer(min: number, max: number = Number.MAX_SAFE_INTEGER, expected?: string) {
+  expected ??= max === Number.MAX_SAFE_INTEGER ? `an integer ≥ ${min}` : `an integer from ${min} to ${max}`;
   const error = () => expected;
   return z.number({ error }).int({ error }).min(min, { error }).max(max, { error });
 }
@@ -157,9 +161,10 @@ export function oneOf<const T extends readonly [string, ...string[]]>(words: T) 
 
 /**
  * A strict mapping: unknown keys are errors, with a "did you mean" suggestion. The message is
- * for the first unknown key; `issues.ts` appends that key to the path.
+ * for the first unknown key; `issues.ts` appends that key to the path. `what` describes the
+ * mapping when something else was found (default: its list of keys).
  */
-export function section<S extends z.ZodRawShape>(shape: S) {
+export function section<S extends z.ZodRawShape>(shape: S, what?: string) {
   const keys = Object.keys(shape);
   return z.strictObject(shape, {
     error: (iss) => {
@@ -168,7 +173,7 @@ export function section<S extends z.ZodRawShape>(shape: S) {
         const hint = didYouMean(key, keys);
         return hint ? `a known key${hint}` : `one of the keys ${keys.join(', ')}`;
       }
-      if (iss.code === 'invalid_type') return `a mapping with keys ${keys.join(', ')}`;
+      if (iss.code === 'invalid_type') return what ?? `a mapping with keys ${keys.join(', ')}`;
       return undefined;
     },
   });

@@ -98,8 +98,8 @@ export function issueToInputError(file: string, first: z.core.$ZodIssue): InputE
     return new InputError(file, formatPath([...path, issue.keys[0]!]), issue.message, 'an unknown key');
   }
   if (issue.params?.found !== undefined) return new InputError(file, formatPath(path), issue.message, issue.params.found);
-  const required = issue.input === undefined ? ' (required)' : '';
-  return new InputError(file, formatPath(path), issue.message + required, describeFound(issue.input));
+  const found = issue.input === undefined ? 'nothing (the key is required)' : describeFound(issue.input);
+  return new InputError(file, formatPath(path), issue.message, found);
 }
 
 /** The InputError for the first issue of a failed parse (unknown keys reported first). */

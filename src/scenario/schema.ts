@@ -26,7 +26,7 @@ export const scenarioShape = {
 };
 
 /** The zod schema of a scenario document (before resolution: units read, defaults not filled). */
-export const scenarioSchema = section(scenarioShape).meta({
+export const scenarioSchema = section(scenarioShape, 'a mapping of scenario keys (name, timing, states, …)').meta({
   title: 'singleshot scenario',
   description: 'A simulated single-shot readout: device states, errors, signal chain and processing',
 });

@@ -19,7 +19,7 @@ export function editDistance(a: string, b: string): number {
 }
 
 /**
- * The candidate closest to `word` (case-insensitive), if it is close enough to be a likely
+ * The candidate closest to `word` (case-insensitive, ties by case), if it is close enough to be a likely
  * misspelling: at most a third of the word's letters changed (at least one), or differing only
  * in case.
  */
@@ -27,11 +27,15 @@ export function closest(word: string, candidates: readonly string[]): string | u
   const w = word.toLowerCase();
   let best: string | undefined;
   let bestDistance = Infinity;
+  let bestExact = Infinity;
   for (const c of candidates) {
     const d = editDistance(w, c.toLowerCase());
-    if (d < bestDistance) {
+    // Ties are broken by the case-sensitive distance ("MHZ" → "MHz", not "mHz").
+    const exact = d <= bestDistance ? editDistance(word, c) : Infinity;
+    if (d < bestDistance || (d === bestDistance && exact < bestExact)) {
       best = c;
       bestDistance = d;
+      bestExact = exact;
     }
   }
   const allowed = Math.max(1, Math.floor(word.length / 3));

@@ -6,6 +6,7 @@
  * roots of units. Each scenario key then asks for a named dimension (`DIMENSIONS`).
  */
 import { ELEMENTARY_CHARGE } from '../physics/constants.ts';
+import { didYouMean } from './suggest.ts';
 
 /** Base dimensions, in this order: time, current, energy, temperature, angle. */
 export const BASE_DIMENSIONS = ['time', 'current', 'energy', 'temperature', 'angle'] as const;
@@ -16,6 +17,7 @@ export type Dimension = readonly [number, number, number, number, number];
 const NONE: Dimension = [0, 0, 0, 0, 0];
 
 interface UnitDef {
+  /** Factor to SI, apart from powers of ten. */
   factor: number;
   dim: Dimension;
   /** Whether SI prefixes may be put in front. */
@@ -43,10 +45,28 @@ const UNITS: Record<string, UnitDef> = {
   rtHz: { factor: 1, dim: [-0.5, 0, 0, 0, 0], prefixable: false },
 };
 
-/** SI prefixes accepted in front of a unit (both micro signs and "u"). */
+/** SI prefixes accepted in front of a unit (both micro signs and "u"), as powers of ten. */
 const PREFIXES: Record<string, number> = {
-  f: 1e-15, p: 1e-12, n: 1e-9, u: 1e-6, 'µ': 1e-6, 'μ': 1e-6, m: 1e-3, k: 1e3, M: 1e6, G: 1e9, T: 1e12,
+  f: -15, p: -12, n: -9, u: -6, 'µ': -6, 'μ': -6, m: -3, k: 3, M: 6, G: 9, T: 12,
 };
+
+/**
+ * A unit's factor to SI, kept as 10^pow10 · scale so that decimal prefixes are applied by one
+ * exact multiplication or division: "20 us" becomes 20 / 1e6 = 2e-5 exactly as written,
+ * not 20 · 1e-6 = 1.9999999999999998e-5.
+ */
+interface Factor {
+  pow10: number;
+  scale: number;
+  dim: Dimension;
+}
+
+/** x · 10^p, correctly rounded when p is an integer (10^|p| is exact in binary up to 1e22). */
+function timesPow10(x: number, p: number): number {
+  if (!Number.isInteger(p)) return x * 10 ** p;
+  const ten = Number(`1e${Math.abs(p)}`);
+  return p >= 0 ? x * ten : x / ten;
+}
 
 /** A parsed quantity: value in SI and its dimension; `plain` when no unit was written. */
 export interface Quantity {
@@ -98,16 +118,33 @@ function combine(a: Dimension, b: Dimension, power: number): Dimension {
   return a.map((x, i) => x + power * b[i]!) as unknown as Dimension;
 }
 
+const ONE: Factor = { pow10: 0, scale: 1, dim: NONE };
+
+/** a · b^power. */
+function multiply(a: Factor, b: Factor, power: number): Factor {
+  return { pow10: a.pow10 + power * b.pow10, scale: a.scale * b.scale ** power, dim: combine(a.dim, b.dim, power) };
+}
+
 /** Looks up one unit symbol, with an optional SI prefix. */
-function lookupSymbol(symbol: string): { factor: number; dim: Dimension } {
+function lookupSymbol(symbol: string): Factor {
   const exact = UNITS[symbol];
-  if (exact) return exact;
-  for (const [prefix, scale] of Object.entries(PREFIXES)) {
+  if (exact) return { pow10: 0, scale: exact.factor, dim: exact.dim };
+  for (const [prefix, pow10] of Object.entries(PREFIXES)) {
     if (!symbol.startsWith(prefix)) continue;
     const unit = UNITS[symbol.slice(prefix.length)];
-    if (unit && unit.prefixable) return { factor: scale * unit.factor, dim: unit.dim };
+    if (unit && unit.prefixable) return { pow10, scale: unit.factor, dim: unit.dim };
   }
-  throw new UnitSyntaxError(`unknown unit "${symbol}"`);
+  throw new UnitSyntaxError(`unknown unit "${symbol}"${didYouMean(symbol, unitSpellings())}`);
+}
+
+/** Every unit as it may be written, with and without prefixes (for suggestions). */
+function unitSpellings(): string[] {
+  const out: string[] = [];
+  for (const [symbol, unit] of Object.entries(UNITS)) {
+    out.push(symbol);
+    if (unit.prefixable) for (const prefix of Object.keys(PREFIXES)) out.push(prefix + symbol);
+  }
+  return out;
 }
 
 /** Recursive-descent reader of a unit expression: factors joined by '/', '*' or '·'. */
@@ -115,15 +152,14 @@ class UnitReader {
   private pos = 0;
   constructor(private readonly text: string) {}
 
-  read(): { factor: number; dim: Dimension } {
+  read(): Factor {
     const result = this.expression();
     if (this.pos < this.text.length) throw new UnitSyntaxError(`unexpected "${this.text.slice(this.pos)}"`);
     return result;
   }
 
-  private expression(): { factor: number; dim: Dimension } {
-    let factor = 1;
-    let dim: Dimension = NONE;
+  private expression(): Factor {
+    let result = ONE;
     let sign = 1;
     this.space();
     // A leading '/' means "1/…" ("5 /s").
@@ -132,21 +168,19 @@ class UnitReader {
       sign = -1;
     }
     for (;;) {
-      const f = this.factor();
-      factor *= f.factor ** sign;
-      dim = combine(dim, f.dim, sign);
+      result = multiply(result, this.factor(), sign);
       this.space();
       const op = this.peek();
       if (op === '/') sign = -1;
       else if (op === '*' || op === '·') sign = 1;
-      else return { factor, dim };
+      else return result;
       this.pos++;
       this.space();
     }
   }
 
-  private factor(): { factor: number; dim: Dimension } {
-    let base: { factor: number; dim: Dimension };
+  private factor(): Factor {
+    let base: Factor;
     if (this.text.startsWith('sqrt(', this.pos) || this.peek() === '√') {
       const bracketed = this.peek() !== '√' || this.text[this.pos + 1] === '(';
       this.pos += this.peek() === '√' ? 1 : 4;
@@ -155,10 +189,9 @@ class UnitReader {
         const inner = this.expression();
         if (this.peek() !== ')') throw new UnitSyntaxError('missing ")"');
         this.pos++;
-        base = { factor: Math.sqrt(inner.factor), dim: combine(NONE, inner.dim, 0.5) };
+        base = multiply(ONE, inner, 0.5);
       } else {
-        const inner = this.atom();
-        base = { factor: Math.sqrt(inner.factor), dim: combine(NONE, inner.dim, 0.5) };
+        base = multiply(ONE, this.atom(), 0.5);
       }
     } else if (this.peek() === '(') {
       this.pos++;
@@ -171,17 +204,16 @@ class UnitReader {
     const power = /^\^(-?\d+)/.exec(this.text.slice(this.pos));
     if (power) {
       this.pos += power[0].length;
-      const p = Number(power[1]);
-      return { factor: base.factor ** p, dim: combine(NONE, base.dim, p) };
+      return multiply(ONE, base, Number(power[1]));
     }
     return base;
   }
 
-  private atom(): { factor: number; dim: Dimension } {
+  private atom(): Factor {
     const m = /^(?:1(?![0-9])|[A-Za-zµμΩ°]+)/.exec(this.text.slice(this.pos));
     if (!m) throw new UnitSyntaxError(this.pos < this.text.length ? `unexpected "${this.text.slice(this.pos)}"` : 'missing unit');
     this.pos += m[0].length;
-    if (m[0] === '1') return { factor: 1, dim: NONE };
+    if (m[0] === '1') return ONE;
     return lookupSymbol(m[0]);
   }
 
@@ -196,7 +228,8 @@ class UnitReader {
 
 /** Reads a unit expression ("meV/ns", "A/sqrt(Hz)") into its SI factor and dimension. */
 export function parseUnit(text: string): { factor: number; dim: Dimension } {
-  return new UnitReader(text.trim()).read();
+  const f = new UnitReader(text.trim()).read();
+  return { factor: timesPow10(f.scale, f.pow10), dim: f.dim };
 }
 
 const NUMBER = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$/;
@@ -216,8 +249,8 @@ export function parseQuantity(input: number | string): Quantity {
   if (!Number.isFinite(number)) throw new UnitSyntaxError('not a finite number');
   const unitText = m[2]!;
   if (unitText === '') return { value: number, dim: NONE, plain: true };
-  const unit = parseUnit(unitText);
-  return { value: number * unit.factor, dim: unit.dim, plain: false };
+  const unit = new UnitReader(unitText).read();
+  return { value: timesPow10(number, unit.pow10) * unit.scale, dim: unit.dim, plain: false };
 }
 
 /**

@@ -82,7 +82,7 @@ describe('butterworthSections against scipy.signal.butter', () => {
 describe('butterworthSections against closed forms', () => {
   // closed form: the bilinear-transformed Butterworth magnitude with pre-warping,
   // |H(f)|² = 1 / (1 + (tan(πf/fs) / tan(πfc/fs))^(2N)) (Oppenheim & Schafer, Discrete-Time Signal
-  // Processing, 3rd ed., 2010, §7.3.1); hence |H(0)| = 1 (DC gain) and |H(fc)| = 1/√2.
+  // Processing, 3rd ed., 2010, ch. 7); hence |H(0)| = 1 (DC gain) and |H(fc)| = 1/√2.
   it.each(cases)('magnitude follows the pre-warped Butterworth law: $name', ({ order, cutoff, sampleRate, freqs }) => {
     const { sos } = butterworthSections(order, cutoff, sampleRate);
     const magnitude = complexMagnitude(sosFrequencyResponse(sos, freqs, sampleRate), new Float64Array(freqs.length));

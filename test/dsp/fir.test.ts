@@ -36,7 +36,7 @@ describe('windowedSincTaps against scipy.signal.firwin', () => {
 describe('windowed-sinc FIR against closed forms', () => {
   it.each(cases)('DC gain is 1 and the response has linear phase: $name', ({ numTaps, cutoff, sampleRate, window, freqs }) => {
     // closed form: symmetric taps h[n] = h[N−1−n] give H(e^{jω}) = e^{−jω(N−1)/2}·A(ω) with A real
-    // (Oppenheim & Schafer, Discrete-Time Signal Processing, 3rd ed., §5.7.3); Σh = 1 by construction.
+    // (Oppenheim & Schafer, Discrete-Time Signal Processing, 3rd ed., 2010, ch. 5); Σh = 1 by construction.
     const taps = windowedSincTaps(numTaps, cutoff, sampleRate, window);
     const h = firResponse(taps, freqs, sampleRate);
     expectAllClose('H(0)', [h.re[0], h.im[0]], [1, 0], () => 1e-14);

@@ -39,7 +39,7 @@ describe('single-pole low-pass against scipy.signal', () => {
 describe('single-pole low-pass against closed forms', () => {
   it.each(cases)('impulse response decays like the sampled RC response e^(−t/τ), τ = 1/(2π fc): $name', ({ cutoff, sampleRate }) => {
     // closed form: RC low-pass impulse response h(t) = e^(−t/τ)/τ, so h((n+1)T)/h(nT) = e^(−T/τ)
-    // (impulse invariance, Oppenheim & Schafer, Discrete-Time Signal Processing, 3rd ed., §7.2.1)
+    // (impulse invariance, Oppenheim & Schafer, Discrete-Time Signal Processing, 3rd ed., 2010, ch. 7)
     const alpha = singlePoleAlpha(cutoff, sampleRate);
     const impulse = new Float64Array(8);
     impulse[0] = 1;

@@ -102,7 +102,8 @@ export function resolveFlips(
     if (e.landauZener) {
       const { coupling, sweepRate } = e.landauZener;
       p = landauZenerProbability(coupling, sweepRate);
-      parts.push(`Landau–Zener: Δ = ${eV(coupling)}, v = ${formatQuantity((sweepRate / ELEMENTARY_CHARGE) * 1e-9, 'eV/ns')}`);
+      const meVPerNs = Number((sweepRate / ELEMENTARY_CHARGE / 1e6).toPrecision(4));
+      parts.push(`Landau–Zener: Δ = ${eV(coupling)}, v = ${meVPerNs} meV/ns`);
     } else if (e.probability !== undefined) {
       p = e.probability;
       parts.push('given probability');

@@ -18,7 +18,7 @@ export const DEFAULT_SEED = 1;
 export const runShape = {
   name: text().meta({ description: 'Name of the scenario (shown in reports)' }),
   description: z.string({ error: () => 'a string' }).optional().meta({ description: 'Free text about the device and the run' }),
-  seed: integer(0).optional().meta({ description: 'Run seed, an integer from 0 to 2^53-1 (default 1)' }),
+  seed: integer(0, Number.MAX_SAFE_INTEGER, 'an integer from 0 to 2^53-1').optional().meta({ description: 'Run seed, an integer from 0 to 2^53-1 (default 1)' }),
   shots: integer(1).optional().meta({ description: 'Scored shots per point (default 100000)' }),
   calibrationShots: integer(2)
     .optional()

@@ -7,6 +7,7 @@ import type { CarrierSpec, SignalSpec, StateSpec, TimingSpec } from '../types.ts
 import { number, oneOf, quantity, section, signalQuantity } from '../fields.ts';
 import type { ResolveContext } from '../context.ts';
 import type { SignalUse } from './states.ts';
+import { formatPath } from '../issues.ts';
 import { formatQuantity } from '../units.ts';
 
 const positive = { min: 0, minExclusive: true } as const;
@@ -115,8 +116,8 @@ function agreeUnit(declared: 'A' | 'V' | 'none' | undefined, uses: SignalUse[], 
   if (unit === undefined || unit === null) return '';
   const bad = written.find((u) => u.unit !== unit);
   if (bad) {
-    const why = declared ? `signal.unit is ${unit}` : `as in the first level written with a unit`;
-    ctx.fail(bad.path, `a value in ${unit === 'A' ? 'amperes (A)' : 'volts (V)'} (${why})`);
+    const like = declared ? 'as signal.unit says' : `like ${formatPath(written[0]!.path)}`;
+    ctx.fail(bad.path, `a value in ${unit === 'A' ? 'amperes' : 'volts'} (${unit}) ${like}`);
   }
   return unit;
 }

@@ -1,0 +1,38 @@
+/**
+ * The command line: parses arguments and calls the library. User errors print one line and
+ * exit with code 2; anything else is a bug and keeps its stack trace.
+ */
+import { Command, CommanderError } from 'commander';
+import { InputError } from '../errors.ts';
+import { TOOL_VERSION } from '../io/metadata.ts';
+import { makeRunCommand } from './commands/run.ts';
+import { makeCheckCommand } from './commands/check.ts';
+import { makeInitCommand } from './commands/init.ts';
+import { makeSchemaCommand } from './commands/schema.ts';
+
+export function makeProgram(): Command {
+  const program = new Command('singleshot')
+    .description('Monte Carlo simulator of single-shot qubit readout, compared with the analytic error budget')
+    .version(TOOL_VERSION)
+    .exitOverride()
+    .configureOutput({ writeErr: (s) => process.stderr.write(s) });
+  for (const c of [makeRunCommand(), makeCheckCommand(), makeInitCommand(), makeSchemaCommand()]) {
+    program.addCommand(c.exitOverride());
+  }
+  return program;
+}
+
+/** Runs the CLI on argv (node-style) and returns the exit code. */
+export async function main(argv: readonly string[]): Promise<number> {
+  try {
+    await makeProgram().parseAsync([...argv], { from: 'node' });
+    return 0;
+  } catch (e) {
+    if (e instanceof CommanderError) return e.exitCode === 0 ? 0 : 2;
+    if (e instanceof InputError) {
+      process.stderr.write(`singleshot: ${e.message}\n`);
+      return 2;
+    }
+    throw e;
+  }
+}

@@ -1,0 +1,49 @@
+/**
+ * run.json: what a run folder holds and whether the run finished. Written with
+ * `complete: false` before the first table and rewritten with `complete: true` after the last,
+ * so a folder from an interrupted run says so (merge and report refuse it).
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { InputError } from '../errors.ts';
+import { writeFileAtomic } from './atomic-file.ts';
+import { TOOL_VERSION } from './metadata.ts';
+
+export interface Manifest {
+  tool: 'singleshot';
+  version: string;
+  complete: boolean;
+  seed: number;
+  engine: string;
+  /** "K/N", 1-based. */
+  shard: string;
+  files: string[];
+  scenario: string;
+}
+
+export const MANIFEST = 'run.json';
+
+export function writeManifest(dir: string, m: Omit<Manifest, 'tool' | 'version'>): void {
+  const full: Manifest = { tool: 'singleshot', version: TOOL_VERSION, ...m };
+  writeFileAtomic(join(dir, MANIFEST), JSON.stringify(full, null, 2) + '\n');
+}
+
+/** Reads run.json of a folder; refuses a missing, malformed or incomplete one. */
+export function readManifest(dir: string, requireComplete = true): Manifest {
+  const path = join(dir, MANIFEST);
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch {
+    throw new InputError(path, '', 'not found: this folder does not hold a singleshot run');
+  }
+  let m: Manifest;
+  try {
+    m = JSON.parse(text) as Manifest;
+  } catch {
+    throw new InputError(path, '', 'is not valid JSON');
+  }
+  if (m.tool !== 'singleshot' || typeof m.complete !== 'boolean') throw new InputError(path, 'tool', '"singleshot" run manifest', JSON.stringify(m.tool));
+  if (requireComplete && !m.complete) throw new InputError(path, 'complete', 'a finished run', 'complete: false (the run was interrupted)');
+  return m;
+}

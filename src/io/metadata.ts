@@ -1,0 +1,33 @@
+/**
+ * What every output table carries in its schema metadata: the scenario (canonical JSON), the
+ * seed, the tool version, the engine and the shard, so a table alone says how it was made.
+ */
+import { readFileSync } from 'node:fs';
+
+export const META_PREFIX = 'singleshot.';
+
+/** The tool version from package.json. */
+export const TOOL_VERSION: string = (JSON.parse(
+  readFileSync(new URL('../../package.json', import.meta.url), 'utf8'),
+) as { version: string }).version;
+
+export interface RunProvenance {
+  /** Canonical JSON of the scenario document as run (overrides applied). */
+  scenario: string;
+  seed: number;
+  engine: string;
+  /** "K/N" (1-based K) of the shard this run covered. */
+  shard: string;
+}
+
+/** Schema metadata of a table. */
+export function tableMetadata(table: string, p: RunProvenance): Map<string, string> {
+  return new Map([
+    [`${META_PREFIX}table`, table],
+    [`${META_PREFIX}version`, TOOL_VERSION],
+    [`${META_PREFIX}seed`, String(p.seed)],
+    [`${META_PREFIX}engine`, p.engine],
+    [`${META_PREFIX}shard`, p.shard],
+    [`${META_PREFIX}scenario`, p.scenario],
+  ]);
+}
