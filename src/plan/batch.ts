@@ -4,7 +4,7 @@
  */
 import { applyFlip, drawPrepared } from '../physics/flips.ts';
 import { makePathBuffer, samplePath } from '../physics/chain.ts';
-import { makeStream, type StreamPurpose } from '../random/streams.ts';
+import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../random/streams.ts';
 import { addWhiteNoise, writeSignal } from '../signal/trace.ts';
 import { dotRange } from '../dsp/integrate.ts';
 import type { CompiledPoint } from './compile.ts';
@@ -43,15 +43,21 @@ export function makeScratch(point: CompiledPoint): BatchScratch {
   return { record: new Float64Array(point.grid.samples), path: makePathBuffer() };
 }
 
-/** Runs shots [firstShot, firstShot+count) of one point and purpose; batch = firstShot / batchSize. */
+/**
+ * Runs shots [batch·batchSize, batch·batchSize + count) of one point and purpose. Shots draw
+ * from the stream of their seeding block, in shot order, so the result does not depend on the
+ * batch size (a multiple of SEED_BLOCK).
+ */
 export function simulateBatch(
   point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number,
   scratch: BatchScratch = makeScratch(point),
 ): ShotBatch {
   const { scenario, grid, chain } = point;
-  const stream = makeStream(scenario.seed, pointIndex, purpose, batch);
+  const firstShot = batch * scenario.batchSize;
+  const blocks = new BlockStreams(scenario.seed, pointIndex, purpose, firstShot / SEED_BLOCK);
+  let stream = blocks.current();
   const out: ShotBatch = {
-    point: pointIndex, purpose, batch, firstShot: batch * scenario.batchSize, count,
+    point: pointIndex, purpose, batch, firstShot, count,
     intended: new Uint8Array(count), prepared: new Uint8Array(count), initial: new Uint8Array(count),
     atWindowStart: new Uint8Array(count), atWindowEnd: new Uint8Array(count),
     firstJump: new Float64Array(count), jumpCause: new Uint8Array(count),
@@ -66,6 +72,7 @@ export function simulateBatch(
   const nStates = scenario.states.length;
   const lo = point.synthLo, hi = point.synthHi;
   for (let i = 0; i < count; i++) {
+    if (i > 0 && i % SEED_BLOCK === 0) stream = blocks.next();
     const intended = drawPrepared(point.prepareCumulative, stream);
     const prepared = applyFlip(intended, scenario.preparationError, stream);
     const initial = applyFlip(prepared, scenario.mappingError, stream);

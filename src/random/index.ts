@@ -1,2 +1,2 @@
 export { RandomStream } from './stream.ts';
-export { makeStream, streamIndex, baseState, type StreamPurpose } from './streams.ts';
+export { makeStream, streamIndex, baseState, BlockStreams, SEED_BLOCK, type StreamPurpose } from './streams.ts';

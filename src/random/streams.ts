@@ -1,12 +1,15 @@
 /**
- * Derivation of per-batch random streams from the run seed.
+ * Derivation of random streams from the run seed.
+ *
+ * The unit of seeding is a block of SEED_BLOCK consecutive shots of one sweep point and purpose:
+ * its shots draw, in shot order, from one stream. Work batches are whole numbers of blocks, so
+ * the numbers a shot sees do not depend on the batch size, the worker count or the sharding.
  *
  * Why streams cannot overlap: all streams of a run are stretches of ONE xoshiro128** sequence
  * (period 2^128 − 1). The base state comes from the run seed (hashed by seedrandom); stream g
- * starts g·2^64 steps later (jump.ts), and a batch draws far fewer than 2^64 numbers, so stream
+ * starts g·2^64 steps later (jump.ts), and a block draws far fewer than 2^64 numbers, so stream
  * g stays inside [g·2^64, (g+1)·2^64) and never reaches another stream's stretch. The stream
- * index g is a fixed function of (sweep point, purpose, batch index), so the numbers a shot sees
- * do not depend on how batches are spread over workers or shards.
+ * index g is a fixed function of (sweep point, purpose, block index).
  */
 import seedrandom from 'seedrandom';
 import { jumpStreams, STREAM_INDEX_BITS } from './jump.ts';
@@ -17,7 +20,10 @@ export type StreamPurpose = 'score' | 'calibrate' | 'slow-noise' | 'aux';
 
 const PURPOSE_CODE: Record<StreamPurpose, number> = { score: 0, calibrate: 1, 'slow-noise': 2, aux: 3 };
 
-/** Bits of the stream index given to the batch number (2^24 batches per point and purpose). */
+/** Shots per seeding block (fixed: changing it changes every result). */
+export const SEED_BLOCK = 1024;
+
+/** Bits of the stream index given to the block number (2^24 blocks per point and purpose). */
 export const BATCH_BITS = 24;
 /** Bits for the sweep point (2^14 points). */
 export const POINT_BITS = STREAM_INDEX_BITS - BATCH_BITS - 2;
@@ -32,16 +38,60 @@ export function baseState(seed: number): Uint32Array {
   return s;
 }
 
-/** The stream index of (point, purpose, batch): disjoint bit fields, so distinct triples differ. */
-export function streamIndex(point: number, purpose: StreamPurpose, batch: number): number {
+/** The stream index of (point, purpose, block): disjoint bit fields, so distinct triples differ. */
+export function streamIndex(point: number, purpose: StreamPurpose, block: number): number {
   if (point < 0 || point >= 2 ** POINT_BITS) throw new RangeError(`sweep point ${point} outside [0, 2^${POINT_BITS})`);
-  if (batch < 0 || batch >= 2 ** BATCH_BITS) throw new RangeError(`batch ${batch} outside [0, 2^${BATCH_BITS})`);
-  return (point * 4 + PURPOSE_CODE[purpose]) * 2 ** BATCH_BITS + batch;
+  if (block < 0 || block >= 2 ** BATCH_BITS) throw new RangeError(`block ${block} outside [0, 2^${BATCH_BITS})`);
+  return (point * 4 + PURPOSE_CODE[purpose]) * 2 ** BATCH_BITS + block;
 }
 
-/** Makes the stream for one batch of one sweep point. */
-export function makeStream(seed: number, point: number, purpose: StreamPurpose, batch: number): RandomStream {
-  const s = baseState(seed);
-  jumpStreams(s, streamIndex(point, purpose, batch));
+const baseCache = new Map<number, Uint32Array>();
+
+function cachedBase(seed: number): Uint32Array {
+  let s = baseCache.get(seed);
+  if (!s) {
+    s = baseState(seed);
+    if (baseCache.size > 64) baseCache.clear();
+    baseCache.set(seed, s);
+  }
+  return s;
+}
+
+/** Makes the stream of one seeding block of one sweep point. */
+export function makeStream(seed: number, point: number, purpose: StreamPurpose, block: number): RandomStream {
+  const s = Uint32Array.from(cachedBase(seed));
+  jumpStreams(s, streamIndex(point, purpose, block));
   return new RandomStream(s);
+}
+
+/**
+ * Streams of consecutive blocks, first → first+1 → …: each step is one jump of 2^64
+ * (one matrix product) instead of a jump from the base.
+ */
+export class BlockStreams {
+  private readonly start: Uint32Array;
+  private block: number;
+
+  constructor(seed: number, point: number, purpose: StreamPurpose, firstBlock: number) {
+    this.start = Uint32Array.from(cachedBase(seed));
+    jumpStreams(this.start, streamIndex(point, purpose, firstBlock));
+    this.block = firstBlock;
+  }
+
+  /** Block index of the stream `current` returns. */
+  get index(): number {
+    return this.block;
+  }
+
+  /** A fresh stream positioned at the start of the current block. */
+  current(): RandomStream {
+    return new RandomStream(this.start);
+  }
+
+  /** Moves to the next block and returns its stream. */
+  next(): RandomStream {
+    jumpStreams(this.start, 1);
+    this.block++;
+    return this.current();
+  }
 }

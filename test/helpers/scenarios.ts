@@ -27,7 +27,7 @@ export function twoStateScenario(o: TwoStateOptions = {}): Scenario {
   const carrier = o.carrier ?? 'sine';
   return {
     name: 'test', description: '', seed: o.seed ?? 7, shots: o.shots ?? 10000, calibrationShots: 2000,
-    batchSize: o.batchSize ?? 1000,
+    batchSize: o.batchSize ?? 1024,
     timing: {
       sampleRate: fs, recordLength, windowStart: o.windowStart ?? 0,
       windowLength: o.windowLength ?? recordLength - (o.windowStart ?? 0), shotPeriod: recordLength,

@@ -4,6 +4,7 @@
 import { z } from 'zod';
 import { integer, text, type ShapeOutput } from '../fields.ts';
 import type { ResolveContext } from '../context.ts';
+import { SEED_BLOCK } from '../../random/streams.ts';
 
 /** Default scored shots per point. */
 export const DEFAULT_SHOTS = 100_000;
@@ -23,7 +24,10 @@ export const runShape = {
   calibrationShots: integer(2)
     .optional()
     .meta({ description: 'Calibration shots per point, never scored (default min(shots, 20000))' }),
-  batchSize: integer(1, 1_000_000).optional().meta({ description: 'Shots per batch (default 4096)' }),
+  batchSize: integer(SEED_BLOCK, 1_048_576, `a multiple of ${SEED_BLOCK} from ${SEED_BLOCK} to 1048576`)
+    .refine((n) => n % SEED_BLOCK === 0, { error: () => `a multiple of ${SEED_BLOCK} from ${SEED_BLOCK} to 1048576` })
+    .optional()
+    .meta({ description: `Shots per work batch, a multiple of the ${SEED_BLOCK}-shot seeding block (default 4096); results do not depend on it` }),
 };
 
 /** Validated run keys. */
