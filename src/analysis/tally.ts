@@ -38,25 +38,32 @@ export interface TallyInput {
   cause: Uint8Array;
 }
 
-/** Returns a new tally with one batch added (the batch's own moments merged in order). */
-export function addToTally(tally: Tally, b: TallyInput): Tally {
-  const { outcomes } = tally;
+/**
+ * Adds one batch to the tally. Moments are accumulated per chunk of `chunk` shots (the seeding
+ * block) and merged chunk by chunk in order, so floating-point results do not depend on how
+ * the shots were grouped into batches, workers or shards.
+ */
+export function addToTally(tally: Tally, b: TallyInput, chunk = 1024): Tally {
+  const { outcomes, states } = tally;
   const c = CAUSES.length;
-  // this batch's moments by Welford's update, then merged in batch order
-  const n = new Float64Array(tally.states), mean = new Float64Array(tally.states), m2 = new Float64Array(tally.states);
-  for (let i = 0; i < b.count; i++) {
-    const s = b.intended[i]!;
-    tally.assignments[s * outcomes + b.outcome[i]!]!++;
-    tally.causes[s * c + b.cause[i]!]!++;
-    if (b.prepared[i] === s && b.initial[i] === s && b.jumpCause[i] === 0) {
-      const x = b.projected[i]!;
-      n[s]!++;
-      const delta = x - mean[s]!;
-      mean[s]! += delta / n[s]!;
-      m2[s]! += delta * (x - mean[s]!);
+  const n = new Float64Array(states), mean = new Float64Array(states), m2 = new Float64Array(states);
+  for (let start = 0; start < b.count; start += chunk) {
+    n.fill(0); mean.fill(0); m2.fill(0);
+    const end = Math.min(b.count, start + chunk);
+    for (let i = start; i < end; i++) {
+      const s = b.intended[i]!;
+      tally.assignments[s * outcomes + b.outcome[i]!]!++;
+      tally.causes[s * c + b.cause[i]!]!++;
+      if (b.prepared[i] === s && b.initial[i] === s && b.jumpCause[i] === 0) {
+        const x = b.projected[i]!;
+        n[s]!++;
+        const delta = x - mean[s]!;
+        mean[s]! += delta / n[s]!;
+        m2[s]! += delta * (x - mean[s]!);
+      }
     }
+    tally.clean = tally.clean.map((m, s) => mergeMoments(m, { n: n[s]!, mean: mean[s]!, m2: m2[s]! }));
   }
-  tally.clean = tally.clean.map((m, s) => mergeMoments(m, { n: n[s]!, mean: mean[s]!, m2: m2[s]! }));
   return tally;
 }
 

@@ -8,6 +8,14 @@ import { basename, dirname, join } from 'node:path';
 /** Temporary names left behind by an interrupted run share this marker (cleaned on the next run). */
 export const TEMP_MARKER = '.partial-';
 
+/** Files being written right now, so a hard exit can still remove their temporary names. */
+const openFiles = new Set<AtomicFile>();
+
+/** Removes the temporary files of every AtomicFile still open (for an immediate exit). */
+export function abortOpenFiles(): void {
+  for (const f of [...openFiles]) f.abort();
+}
+
 /** A file being written under a temporary name. */
 export class AtomicFile {
   readonly path: string;
@@ -19,6 +27,7 @@ export class AtomicFile {
     this.path = path;
     this.tempPath = join(dirname(path), `${TEMP_MARKER}${process.pid}-${basename(path)}`);
     this.fd = openSync(this.tempPath, 'w');
+    openFiles.add(this);
   }
 
   write(bytes: Uint8Array): void {
@@ -34,6 +43,7 @@ export class AtomicFile {
     fsyncSync(this.fd);
     closeSync(this.fd);
     this.fd = null;
+    openFiles.delete(this);
     renameSync(this.tempPath, this.path);
   }
 
@@ -43,6 +53,7 @@ export class AtomicFile {
       closeSync(this.fd);
       this.fd = null;
     }
+    openFiles.delete(this);
     rmSync(this.tempPath, { force: true });
   }
 }

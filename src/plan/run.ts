@@ -13,6 +13,7 @@ import { calibrate, type PipelineCalibration } from './calibrate.ts';
 import { compilePoint, type CompiledPoint } from './compile.ts';
 import { scoreBatch, type ScoredPipeline } from './score.ts';
 import { batchPlan, type BatchTask } from './batches.ts';
+import { SEED_BLOCK } from '../random/streams.ts';
 
 /** One point of a sweep: the swept values and the scenario with them applied. */
 export interface SweepPoint {
@@ -111,7 +112,7 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
   for await (const b of executor.run(points, scoreTasks)) {
     const r = results[b.point]!;
     const scored = scoreBatch(r.compiled, r.calibrations, b);
-    scored.forEach((s, p) => addToTally(r.tallies[p]!, { ...b, ...s }));
+    scored.forEach((s, p) => addToTally(r.tallies[p]!, { ...b, ...s }, SEED_BLOCK));
     if (options.onScoredBatch) await options.onScoredBatch(r, b, scored);
     done += b.count;
     options.onProgress?.(done, totalShots);

@@ -106,7 +106,7 @@ export const DIMENSIONS = {
 /** Name of a dimension a key can ask for. */
 export type DimensionName = keyof typeof DIMENSIONS;
 
-/** A unit text that could not be read; `reason` is a short phrase. */
+/** A unit text that could not be read; the message is a short phrase ("unknown unit \"x\""). */
 export class UnitSyntaxError extends Error {}
 
 /** Whether two dimension vectors are equal. */
@@ -285,11 +285,10 @@ export function formatQuantity(value: number, unit: string, digits = 4): string 
   if (!Number.isFinite(value)) return join(String(value), unit);
   const trim = (x: number): string => String(Number(x.toPrecision(digits)));
   if (value === 0 || UNPREFIXED.has(unit)) return join(trim(value), unit);
-  const size = Math.abs(value);
   for (const [scale, prefix] of FORMAT_PREFIXES) {
     const mantissa = Number((value / scale).toPrecision(digits));
     if (Math.abs(mantissa) >= 1 && Math.abs(mantissa) < 1000) return join(String(mantissa), prefix + unit);
   }
-  // Outside the prefix range: scientific notation in the plain unit.
-  return join(Number(size.toPrecision(digits)) === 0 ? '0' : value.toExponential(digits - 1).replace(/\.?0+e/, 'e'), unit);
+  // Outside the prefix range: scientific notation in the plain unit ("1.5e-20 A").
+  return join(value.toExponential(digits - 1).replace(/\.?0+e/, 'e'), unit);
 }

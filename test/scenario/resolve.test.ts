@@ -13,7 +13,7 @@ description: an invented resonator readout with a leakage state
 seed: 777
 shots: 5000
 calibrationShots: 1000
-batchSize: 512
+batchSize: 2048
 timing:
   sampleRate: 250 MHz
   recordLength: 4 us
@@ -66,7 +66,7 @@ describe('resolveScenario: a full example', () => {
 
   it('takes the run settings as given', () => {
     expect([s.name, s.description, s.seed, s.shots, s.calibrationShots, s.batchSize]).toEqual([
-      'IQ demo device', 'an invented resonator readout with a leakage state', 777, 5000, 1000, 512,
+      'IQ demo device', 'an invented resonator readout with a leakage state', 777, 5000, 1000, 2048,
     ]);
   });
 
@@ -176,6 +176,12 @@ describe('resolveScenario: defaults', () => {
     expect(scenario.timing.windowLength).toBeCloseTo(15e-6, 18);
   });
 
+  it('a window shorter than a sample period is fine if it holds a sample (sample k at k/fs)', () => {
+    // 10 MHz: samples at 0, 100 ns, 200 ns, …; [150 ns, 210 ns) holds the one at 200 ns.
+    const text = MINIMAL.replace('recordLength: 20 us', 'recordLength: 20 us, window: { start: 150 ns, length: 60 ns }');
+    expect(resolveText(text).scenario.timing.windowLength).toBe(60e-9);
+  });
+
   it('calibration shots default to min(shots, 20000), at least 2', () => {
     expect(resolveText(MINIMAL + 'shots: 500\n').scenario.calibrationShots).toBe(500);
     expect(resolveText(MINIMAL + 'shots: 1\n').scenario.calibrationShots).toBe(2);
@@ -276,10 +282,13 @@ describe('resolveScenario: errors are InputErrors naming the key', () => {
     ['a duplicate pipeline name', 'pipelines: [{ name: p }, { name: p }]', 'pipelines[1].name'],
     ['an empty pipeline list', 'pipelines: []', 'pipelines'],
     ['a bad reference phase', 'processing: { referencePhase: sideways }', 'processing.referencePhase'],
+    ['a window between two samples', 'timing: { sampleRate: 10 MHz, recordLength: 20 us, window: { start: 120 ns, length: 50 ns } }', 'timing.window.length'],
+    ['a record shorter than a sample', 'timing: { sampleRate: 10 MHz, recordLength: 1e-18 }', 'timing.recordLength'],
     ['a zero gain', 'signal: { gain: 0 }', 'signal.gain'],
     ['a batch size too large', 'batchSize: 2000000', 'batchSize'],
     ['a carrier that is neither none nor a mapping', 'signal: { carrier: sine }', 'signal.carrier'],
-    ['both noise forms', 'signal: { noise: { white: { density: 1, perSample: 1 } } }', 'signal.noise.white.perSample'],
+    ['both noise forms', 'signal: { noise: { white: { density: 1, perSample: 1 } } }', 'signal.noise.white'],
+    ['neither noise form', 'signal: { noise: { white: {} } }', 'signal.noise.white'],
   ])('%s', (_what, change, path) => {
     // Later top-level keys replace earlier ones in YAML only if unique, so rebuild the document.
     const base = parseScenarioText(MINIMAL, 't') as Record<string, unknown>;

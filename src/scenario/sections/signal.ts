@@ -26,15 +26,10 @@ const carrierSchema = z
   )
   .meta({ description: '"none" (baseband) or a sine or square carrier' });
 
-const whiteSchema = z
-  .union(
-    [
-      section({ density: signalQuantity('noiseDensity', { min: 0 }) }),
-      section({ perSample: signalQuantity('signal', { min: 0 }) }),
-    ],
-    { error: () => 'a mapping {density} or {perSample}' },
-  )
-  .meta({ description: 'White noise: one-sided density (e.g. "2 fA/rtHz") or σ per sample' });
+const whiteSchema = section({
+  density: signalQuantity('noiseDensity', { min: 0 }, 'One-sided amplitude density').optional(),
+  perSample: signalQuantity('signal', { min: 0 }, 'Standard deviation per sample (density·√(fs/2))').optional(),
+}).meta({ description: 'White noise: give density or perSample' });
 
 const signalSchema = section({
   unit: oneOf(['A', 'V', 'none']).optional().meta({ description: 'Signal unit (default: inferred from the levels)' }),
@@ -72,12 +67,15 @@ export function resolveSignal(doc: SignalDoc, ctx: ResolveContext, inputs: Signa
   let density: number | null = null;
   const white = s.noise?.white;
   if (white !== undefined) {
-    if ('density' in white) {
+    const whiteAt = [...at, 'noise', 'white'];
+    if (white.density !== undefined && white.perSample === undefined) {
       density = white.density.value;
-      uses.push({ path: [...at, 'noise', 'white', 'density'], unit: white.density.unit });
-    } else {
+      uses.push({ path: [...whiteAt, 'density'], unit: white.density.unit });
+    } else if (white.perSample !== undefined && white.density === undefined) {
       density = white.perSample.value / Math.sqrt(inputs.timing.sampleRate / 2);
-      uses.push({ path: [...at, 'noise', 'white', 'perSample'], unit: white.perSample.unit });
+      uses.push({ path: [...whiteAt, 'perSample'], unit: white.perSample.unit });
+    } else {
+      ctx.fail(whiteAt, 'either density or perSample', white.density === undefined ? 'neither' : 'both');
     }
   }
   const unit = agreeUnit(s.unit, uses, ctx);

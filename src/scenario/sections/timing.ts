@@ -6,6 +6,7 @@ import type { TimingSpec } from '../types.ts';
 import { quantity, section } from '../fields.ts';
 import type { ResolveContext } from '../context.ts';
 import { formatQuantity } from '../units.ts';
+import { firstSampleAtOrAfter } from '../../signal/grid.ts';
 
 /** Relative slack when comparing times computed from different units (e.g. 20 us vs 0.02 ms). */
 const SLACK = 1e-9;
@@ -39,8 +40,9 @@ export function resolveTiming(doc: TimingDoc, ctx: ResolveContext): TimingSpec {
   const { sampleRate, recordLength } = doc;
   const samplePeriod = 1 / sampleRate;
   const t = (x: number) => formatQuantity(x, 's');
-  if (recordLength * sampleRate < 1 - SLACK) {
-    ctx.fail(['timing', 'recordLength'], `at least one sample (${t(samplePeriod)} at ${formatQuantity(sampleRate, 'Hz')})`);
+  const recordSamples = firstSampleAtOrAfter(recordLength, sampleRate);
+  if (recordSamples < 1) {
+    ctx.fail(['timing', 'recordLength'], `a record of at least one sample (${t(samplePeriod)} at ${formatQuantity(sampleRate, 'Hz')})`);
   }
   const windowStart = doc.window?.start ?? 0;
   if (windowStart >= recordLength * (1 - SLACK)) {
@@ -54,10 +56,14 @@ export function resolveTiming(doc: TimingDoc, ctx: ResolveContext): TimingSpec {
       `a length that ends inside the record (at most ${t(room)} after a start of ${t(windowStart)})`,
     );
   }
-  if (windowLength * sampleRate < 1 - SLACK) {
+  // Sample k sits at k/fs; the window [start, start + length) must hold at least one.
+  const windowSamples =
+    Math.min(recordSamples, firstSampleAtOrAfter(windowStart + windowLength, sampleRate)) -
+    Math.min(recordSamples, firstSampleAtOrAfter(windowStart, sampleRate));
+  if (windowSamples < 1) {
     ctx.fail(
       ['timing', 'window', doc.window?.length === undefined ? 'start' : 'length'],
-      `a window of at least one sample (${t(samplePeriod)} at ${formatQuantity(sampleRate, 'Hz')})`,
+      `a window that holds at least one sample (samples are ${t(samplePeriod)} apart at ${formatQuantity(sampleRate, 'Hz')})`,
     );
   }
   const shotPeriod = doc.shotPeriod ?? recordLength;

@@ -1,0 +1,21 @@
+/**
+ * singleshot as a library: every command of the CLI is a function here.
+ */
+export { runToDirectory, type RunToDirectoryOptions, type RunToDirectoryResult } from './io/run-to-directory.ts';
+export { runPoints, inProcessExecutor, type RunResult, type PointResult, type SweepPoint, type BatchExecutor } from './plan/run.ts';
+export { compilePoint, type CompiledPoint } from './plan/compile.ts';
+export { simulateBatch, type ShotBatch } from './plan/batch.ts';
+export { loadScenarioFile } from './scenario/load.ts';
+export { parseScenarioText } from './scenario/parse.ts';
+export { resolveScenario } from './scenario/resolve.ts';
+export { canonicalJson } from './scenario/canonical.ts';
+export { scenarioJsonSchema } from './scenario/json-schema.ts';
+export { starterScenario } from './scenario/starter.ts';
+export type { Scenario } from './scenario/types.ts';
+export { analyticBudget, type Budget } from './analysis/budget.ts';
+export { barthelErrors } from './analysis/barthel.ts';
+export { gaussianTail } from './analysis/special.ts';
+export { wilsonInterval, clopperPearsonInterval } from './analysis/intervals.ts';
+export { resultToJson } from './io/json.ts';
+export { InputError } from './errors.ts';
+export { main } from './cli/main.ts';

@@ -1,0 +1,84 @@
+/**
+ * Every malformed scenario in test/fixtures/bad-scenarios gives, through the real command line,
+ * exit code 2 and one line on stderr naming the file and the key path from the fixture's
+ * `# expect:` comment — no stack trace. Both `check` and `run` are driven.
+ */
+import { mkdtempSync, readdirSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import { main } from '../../src/cli/main.ts';
+
+const DIR = 'test/fixtures/bad-scenarios';
+const files = readdirSync(DIR).filter((f) => f.endsWith('.yaml')).sort();
+
+function expectedPath(file: string): string {
+  const first = readFileSync(join(DIR, file), 'utf8').split('\n')[0] ?? '';
+  const m = /^# expect: (.*)$/.exec(first);
+  return m ? m[1]!.trim() : '(whole file)';
+}
+
+async function runCli(args: string[]): Promise<{ code: number; stderr: string; stdout: string }> {
+  let stderr = '', stdout = '';
+  const err = vi.spyOn(process.stderr, 'write').mockImplementation((s: string | Uint8Array) => { stderr += String(s); return true; });
+  const out = vi.spyOn(process.stdout, 'write').mockImplementation((s: string | Uint8Array) => { stdout += String(s); return true; });
+  try {
+    const code = await main(['node', 'singleshot', ...args]);
+    return { code, stderr, stdout };
+  } finally {
+    err.mockRestore();
+    out.mockRestore();
+  }
+}
+
+afterEach(() => vi.restoreAllMocks());
+
+describe('malformed scenarios through the CLI', () => {
+  it('there are at least 10 distinct fixtures', () => expect(files.length).toBeGreaterThanOrEqual(10));
+
+  it.each(files)('%s → exit 2, one line with the key path', async (file) => {
+    const path = join(DIR, file);
+    const expected = expectedPath(file);
+    for (const args of [['check', path], ['run', path, '--out', mkdtempSync(join(tmpdir(), 'singleshot-bad-')), '--force']]) {
+      const { code, stderr } = await runCli(args);
+      expect(code, `${args[0]} ${file}: exit code`).toBe(2);
+      const lines = stderr.trimEnd().split('\n');
+      expect(lines.length, `${args[0]} ${file}: stderr was\n${stderr}`).toBe(1);
+      expect(lines[0]).toContain(path);
+      if (expected !== '(whole file)') expect(lines[0], `${file}: expected key path ${expected}`).toContain(`${expected}:`);
+      expect(stderr).not.toMatch(/\n\s+at /);
+    }
+  });
+
+  it('a missing file is exit 2 with one line', async () => {
+    const { code, stderr } = await runCli(['check', 'no/such/file.yaml']);
+    expect(code).toBe(2);
+    expect(stderr).toContain('no/such/file.yaml');
+  });
+
+  it('an unknown option is exit 2', async () => {
+    const { code } = await runCli(['run', 'scenarios/demo.yaml', '--frobnicate']);
+    expect(code).toBe(2);
+  });
+
+  it('run refuses a non-empty --out without --force', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'singleshot-out-'));
+    const first = await runCli(['run', 'test/fixtures/scenarios/small.yaml', '--out', dir, '--quiet']);
+    expect(first.code).toBe(0);
+    const second = await runCli(['run', 'test/fixtures/scenarios/small.yaml', '--out', dir]);
+    expect(second.code).toBe(2);
+    expect(second.stderr).toContain('--force');
+  }, 60_000);
+
+  it('--json prints one JSON object with the promised fields', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'singleshot-json-'));
+    const { code, stdout } = await runCli(['run', 'test/fixtures/scenarios/small.yaml', '--out', dir, '--json', '--quiet']);
+    expect(code).toBe(0);
+    const j = JSON.parse(stdout) as { points: Record<string, unknown>[] };
+    const p = j.points[0]!;
+    for (const k of ['parameters', 'shots', 'errorByState', 'meanError', 'snr', 'threshold', 'budget', 'agreement']) expect(p, k).toHaveProperty(k);
+    expect(Object.keys(p.errorByState as object)).toEqual(['low', 'high']);
+    expect(p.budget).toHaveProperty('total');
+    expect(p.meanError).toMatchObject({ rate: expect.any(Number), low: expect.any(Number), high: expect.any(Number) });
+  }, 60_000);
+});
