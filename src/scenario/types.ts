@@ -2,6 +2,7 @@
  * The resolved scenario: everything in SI units, every default filled in, every name
  * turned into an index. This is what the engine reads; the file format lives in `schema.ts`.
  */
+import type { FilterSpec } from '../dsp/filter-spec.ts';
 
 /** A complex amplitude (real for a baseband sensor, complex for IQ readout). */
 export interface Complex {
@@ -84,12 +85,39 @@ export interface ThresholdSpec {
   value: number;
 }
 
-/** One named processing chain, run on every shot. */
+/** Integration weights over the decimated bins of a pipeline's window. */
+export type WeightsKind = 'boxcar' | 'matched' | 'optimal';
+
+/** How a pipeline turns its record into an outcome. */
+export type ClassifierKind = 'threshold' | 'likelihood';
+
+/**
+ * Post-selection band around the decision threshold: shots inside it are discarded. 'fraction':
+ * total width as a fraction of the calibrated separation of the decision statistic; 'width':
+ * total width in signal units (threshold classifier only).
+ */
+export type AmbiguousBand = { kind: 'fraction'; value: number } | { kind: 'width'; value: number };
+
+/** One named processing chain, run on every shot. Optional fields default to today's chain. */
 export interface PipelineSpec {
   name: string;
   /** rad, or 'auto' (aligned with the state separation). */
   referencePhase: number | 'auto';
   threshold: ThresholdSpec;
+  /** This pipeline's integration window (s from the record start); default the timing window. */
+  window?: { start: number; length: number };
+  /** Low-pass after demodulation; default none, or a block average when decimating. */
+  filter?: FilterSpec;
+  /** Decimation factor (keep every factor-th filtered sample); default 1. */
+  decimate?: number;
+  /** Default 'boxcar'. */
+  weights?: WeightsKind;
+  /** Default 'threshold'. */
+  classifier?: ClassifierKind;
+  /** Default none. */
+  ambiguousBand?: AmbiguousBand | null;
+  /** Filled by the run after calibration, never by a file: matched/optimal weights per bin. */
+  calibratedWeights?: number[];
 }
 
 export interface Scenario {
@@ -116,4 +144,6 @@ export interface Scenario {
   transitions: TransitionSpec[];
   signal: SignalSpec;
   pipelines: PipelineSpec[];
+  /** Set by the run command, never by a file: copy each scored shot's record for traces.arrow. */
+  keepTraces?: 'raw' | 'baseband';
 }
