@@ -54,7 +54,15 @@ export interface PointSummary {
   analyticSigma: number;
   threshold: number;
   highIsOne: boolean;
+  /** Whether the pipeline has an ambiguous band (post-selection). */
+  banded: boolean;
+  /** Shots inside the band, and their fraction of all shots (0 without a band). */
+  discarded: number;
   discardFraction: number;
+  /** Error among the kept shots (wrong kept / kept). Equals meanError without a band. */
+  postSelectedError: RateInterval;
+  /** (wrong kept + discarded) / shots: discards counted as failures, never below meanError. */
+  discardsAsFailuresError: RateInterval;
   agreement: boolean;
 }
 
@@ -63,14 +71,15 @@ function compare(cause: string, errors: number, shots: number, analytic: number,
   return {
     cause, analytic, alone, errors, wide,
     simulated: wilsonInterval(errors, shots, REPORT_CONFIDENCE),
-    agrees: shots === 0 || (analytic >= wide.low && analytic <= wide.high),
+    // no analytic model (NaN, e.g. the likelihood classifier): nothing to disagree with
+    agrees: shots === 0 || Number.isNaN(analytic) || (analytic >= wide.low && analytic <= wide.high),
   };
 }
 
 /** Builds the summary of one pipeline at one point. */
 export function summarise(
   pipeline: string, stateNames: readonly string[], outcomeOf: readonly number[], prepare: readonly number[],
-  tally: Tally, budget: Budget, threshold: number, highIsOne: boolean,
+  tally: Tally, budget: Budget, threshold: number, highIsOne: boolean, banded = false,
 ): PointSummary {
   const C = CAUSES.length;
   const causeNames = CAUSES.filter((_, c) => c !== CAUSE_NONE && CAUSES[c] !== 'discarded');
@@ -114,12 +123,18 @@ export function summarise(
   });
   const sigma = pooledDof > 0 ? Math.sqrt(pooledM2 / pooledDof) : NaN;
   const separation = Math.abs(groupMean[1]! / groupWeight[1]! - groupMean[0]! / groupWeight[0]!);
+  const discarded = tally.discarded.reduce((a, x) => a + x, 0);
+  const discardedWrong = tally.discardedWrong.reduce((a, x) => a + x, 0);
+  const keptWrong = totalErrors - discardedWrong;
   return {
     pipeline, shots: totalShots, states,
     meanError: meanTotal.simulated, meanErrors: totalErrors, meanCauses,
     analyticMean: budget.mean.total, analyticLinearSum: budget.mean.linearSum,
     snr: separation / sigma, sigma, analyticSnr: budget.snr, analyticSigma: budget.sigma,
-    threshold, highIsOne, discardFraction: 0,
+    threshold, highIsOne, banded,
+    discarded, discardFraction: totalShots > 0 ? discarded / totalShots : 0,
+    postSelectedError: wilsonInterval(keptWrong, totalShots - discarded, REPORT_CONFIDENCE),
+    discardsAsFailuresError: wilsonInterval(keptWrong + discarded, totalShots, REPORT_CONFIDENCE),
     agreement: meanTotal.agrees && meanCauses.every((c) => c.agrees) && states.every((s) => s.agrees),
   };
 }

@@ -15,6 +15,10 @@ export interface Tally {
   /** causes[state·C + cause]: shots of each intended state by cause (cause 0 = correct). */
   causes: Float64Array;
   clean: Moments[];
+  /** discarded[state]: shots of each intended state inside the ambiguous band. */
+  discarded: Float64Array;
+  /** discardedWrong[state]: of those, shots the plain (unbanded) decision got wrong. */
+  discardedWrong: Float64Array;
 }
 
 export function emptyTally(states: number, outcomes: number): Tally {
@@ -23,6 +27,8 @@ export function emptyTally(states: number, outcomes: number): Tally {
     assignments: new Float64Array(states * outcomes),
     causes: new Float64Array(states * CAUSES.length),
     clean: Array.from({ length: states }, () => emptyMoments()),
+    discarded: new Float64Array(states),
+    discardedWrong: new Float64Array(states),
   };
 }
 
@@ -36,6 +42,8 @@ export interface TallyInput {
   projected: Float64Array;
   outcome: Uint8Array;
   cause: Uint8Array;
+  /** 1 where the shot fell inside the ambiguous band (absent or null: no band). */
+  discarded?: Uint8Array | null;
 }
 
 /**
@@ -54,6 +62,10 @@ export function addToTally(tally: Tally, b: TallyInput, chunk = 1024): Tally {
       const s = b.intended[i]!;
       tally.assignments[s * outcomes + b.outcome[i]!]!++;
       tally.causes[s * c + b.cause[i]!]!++;
+      if (b.discarded && b.discarded[i]) {
+        tally.discarded[s]!++;
+        if (b.cause[i] !== 0) tally.discardedWrong[s]!++;
+      }
       if (b.prepared[i] === s && b.initial[i] === s && b.jumpCause[i] === 0) {
         const x = b.projected[i]!;
         n[s]!++;
@@ -73,6 +85,8 @@ export function mergeTallies(a: Tally, b: Tally): Tally {
   out.assignments.set(a.assignments.map((x, i) => x + b.assignments[i]!));
   out.causes.set(a.causes.map((x, i) => x + b.causes[i]!));
   out.clean = a.clean.map((m, s) => mergeMoments(m, b.clean[s]!));
+  out.discarded.set(a.discarded.map((x, i) => x + b.discarded[i]!));
+  out.discardedWrong.set(a.discardedWrong.map((x, i) => x + b.discardedWrong[i]!));
   return out;
 }
 

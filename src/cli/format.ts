@@ -11,6 +11,13 @@ export function formatProbability(p: number): string {
   return p.toExponential(2);
 }
 
+/** A signed difference of rates, 3 significant digits. */
+function formatDifference(d: number): string {
+  if (!Number.isFinite(d)) return '—';
+  if (d === 0) return '0';
+  return (d > 0 ? '+' : '') + d.toExponential(2);
+}
+
 function pad(s: string, n: number): string {
   return s.length >= n ? s : s + ' '.repeat(n - s.length);
 }
@@ -26,7 +33,7 @@ export function formatResult(result: RunResult): string {
     const params = Object.entries(p.parameters).map(([k, v]) => `${k} = ${v}`).join(', ');
     for (const s of p.summaries) {
       out.push(`point ${p.index}${params ? ` (${params})` : ''}, pipeline "${s.pipeline}": ${s.shots} shots`);
-      out.push(`  SNR (separation/σ of the integrated value): simulated ${s.snr.toFixed(2)}, analytic ${s.analyticSnr.toFixed(2)}; threshold ${s.threshold.toPrecision(4)}`);
+      out.push(`  SNR (separation/σ of the integrated value): simulated ${s.snr.toFixed(2)}, analytic ${Number.isNaN(s.analyticSnr) ? '— (no analytic model for this classifier)' : s.analyticSnr.toFixed(2)}; threshold ${s.threshold.toPrecision(4)}`);
       const table: string[][] = [['  state', 'shots', 'error', '95% interval', 'analytic', 'linear sum', 'agrees']];
       for (const st of s.states) {
         table.push([`  ${st.state}`, String(st.shots), formatProbability(st.error.rate),
@@ -39,11 +46,25 @@ export function formatResult(result: RunResult): string {
       out.push(rows(table));
       const causes: string[][] = [['  cause', 'wrong shots', 'simulated', 'analytic', 'agrees']];
       for (const c of s.meanCauses) {
-        if (c.errors === 0 && c.analytic < 1e-12) continue;
+        if (c.errors === 0 && !(c.analytic >= 1e-12)) continue;
         causes.push([`  ${c.cause}`, String(c.errors), formatProbability(c.simulated.rate), formatProbability(c.analytic), c.agrees ? 'yes' : 'NO']);
       }
       if (causes.length > 1) out.push(rows(causes));
+      if (s.banded) {
+        out.push(`  ambiguous band: ${s.discarded} shots discarded (${formatProbability(s.discardFraction)}); error of the kept shots ${formatProbability(s.postSelectedError.rate)} [${formatProbability(s.postSelectedError.low)}, ${formatProbability(s.postSelectedError.high)}], counting discards as failures ${formatProbability(s.discardsAsFailuresError.rate)} [${formatProbability(s.discardsAsFailuresError.low)}, ${formatProbability(s.discardsAsFailuresError.high)}]`);
+        out.push('  (the error, budget and comparisons above are of the plain decision, without discards)');
+      }
       if (!s.agreement) out.push('  note: the simulation and the analytic budget disagree beyond the 99.9 % interval — the budget misses a cause or an approximation fails here.');
+      out.push('');
+    }
+    if (p.comparisons.length > 0) {
+      out.push(`point ${p.index}: pipelines compared on the same shots (difference = error A − error B, 95% interval, exact McNemar p)`);
+      const table: string[][] = [['  A', 'B', 'error A', 'error B', 'difference', '95% interval', 'only A wrong', 'only B wrong', 'McNemar p']];
+      for (const c of p.comparisons) {
+        table.push([`  ${c.a}`, c.b, formatProbability(c.errorA), formatProbability(c.errorB), formatDifference(c.difference),
+          `[${formatDifference(c.low)}, ${formatDifference(c.high)}]`, String(c.onlyAWrong), String(c.onlyBWrong), c.pValue.toPrecision(2)]);
+      }
+      out.push(rows(table));
       out.push('');
     }
   }

@@ -4,11 +4,17 @@
  */
 import { Command, CommanderError } from 'commander';
 import { InputError } from '../errors.ts';
+import { RunInterrupted } from '../io/interrupt.ts';
 import { TOOL_VERSION } from '../io/metadata.ts';
 import { makeRunCommand } from './commands/run.ts';
+import { makeAnalyzeCommand } from './commands/analyze.ts';
 import { makeCheckCommand } from './commands/check.ts';
 import { makeInitCommand } from './commands/init.ts';
 import { makeSchemaCommand } from './commands/schema.ts';
+import { makeReportCommand } from './commands/report.ts';
+import { makeMergeCommand } from './commands/merge.ts';
+import { makeRerunCommand } from './commands/rerun.ts';
+import { ExitStatus } from './exit.ts';
 
 export function makeProgram(): Command {
   const program = new Command('singleshot')
@@ -16,7 +22,7 @@ export function makeProgram(): Command {
     .version(TOOL_VERSION)
     .exitOverride()
     .configureOutput({ writeErr: (s) => process.stderr.write(s) });
-  for (const c of [makeRunCommand(), makeCheckCommand(), makeInitCommand(), makeSchemaCommand()]) {
+  for (const c of [makeRunCommand(), makeCheckCommand(), makeInitCommand(), makeSchemaCommand(), makeReportCommand(), makeAnalyzeCommand(), makeMergeCommand(), makeRerunCommand()]) {
     program.addCommand(c.exitOverride());
   }
   return program;
@@ -29,6 +35,11 @@ export async function main(argv: readonly string[]): Promise<number> {
     return 0;
   } catch (e) {
     if (e instanceof CommanderError) return e.exitCode === 0 ? 0 : 2;
+    if (e instanceof ExitStatus) return e.code;
+    if (e instanceof RunInterrupted) {
+      process.stderr.write(`singleshot: ${e.message}\n`);
+      return e.exitCode;
+    }
     if (e instanceof InputError) {
       process.stderr.write(`singleshot: ${e.message}\n`);
       return 2;

@@ -114,3 +114,21 @@ export function filterImpulseResponse(designed: DesignedFilter, n: number): Floa
   if (n > 0) out[0] = 1;
   return designed.apply(out, out, designed.makeState());
 }
+
+/**
+ * The transpose of filtering from rest on a finite stretch: output[m] = Σ_{n ≥ m} h[n − m]·input[n]
+ * (h the impulse response), computed by filtering the time-reversed input and reversing back.
+ * With u the integration weights placed on the samples they read, this turns "filter, then
+ * weight" into one kernel on the filter's input: Σ_n u[n]·(h ∗ x)[n] = Σ_m output[m]·x[m].
+ * `output` may be `input`; `state` must be at rest (it is overwritten).
+ */
+export function applyFilterAdjoint(
+  designed: DesignedFilter, input: Float64Array, output: Float64Array, state: Float64Array,
+): Float64Array {
+  const n = input.length;
+  if (output !== input) for (let i = 0; i < n; i++) output[i] = input[n - 1 - i]!;
+  else output.reverse();
+  designed.apply(output, output, state);
+  output.reverse();
+  return output;
+}

@@ -4,12 +4,13 @@
  */
 import type { RunResult } from '../plan/run.ts';
 import type { RateInterval } from '../analysis/intervals.ts';
+import { noiseJson, pointNoiseOf } from '../plan/predict-noise.ts';
 
 const interval = (r: RateInterval) => ({ rate: r.rate, low: r.low, high: r.high });
 
 /** JSON-ready object; NaN and ±∞ become null (JSON has no such numbers). */
 export function resultToJson(result: RunResult, extra: Record<string, unknown> = {}): Record<string, unknown> {
-  const points = result.points.flatMap((p) => p.summaries.map((s) => ({
+  const points = result.points.flatMap((p) => p.summaries.map((s, i) => ({
     point: p.index,
     parameters: p.parameters,
     pipeline: s.pipeline,
@@ -21,8 +22,18 @@ export function resultToJson(result: RunResult, extra: Record<string, unknown> =
     snrConvention: 'separation / standard deviation of the integrated value (amplitude SNR)',
     sigma: s.sigma,
     analyticSigma: s.analyticSigma,
+    ...noiseJson(pointNoiseOf(p)[i] ?? null, p.compiled.scenario.signal.unit),
+    ...(p.clippedSamples !== undefined ? { clippedSamples: p.clippedSamples } : {}),
     threshold: s.threshold,
     discardFraction: s.discardFraction,
+    ...(s.banded ? {
+      ambiguousBand: {
+        discarded: s.discarded, discardFraction: s.discardFraction,
+        postSelectedError: interval(s.postSelectedError),
+        discardsAsFailuresError: interval(s.discardsAsFailuresError),
+        note: 'meanError, budget and comparisons are of the plain decision (no discards)',
+      },
+    } : {}),
     budget: {
       ...Object.fromEntries(s.meanCauses.map((c) => [c.cause, c.analytic])),
       total: s.analyticMean,
@@ -34,6 +45,13 @@ export function resultToJson(result: RunResult, extra: Record<string, unknown> =
     }])),
     agreement: s.agreement,
   })));
-  return JSON.parse(JSON.stringify({ engine: result.engine, engineReason: result.engineReason, ...extra, points }, (_k, v) =>
+  const comparisons = result.points.flatMap((p) => p.comparisons.map((c) => ({
+    point: p.index, parameters: p.parameters, a: c.a, b: c.b, shots: c.shots,
+    bothWrong: c.bothWrong, onlyAWrong: c.onlyAWrong, onlyBWrong: c.onlyBWrong,
+    errorA: c.errorA, errorB: c.errorB,
+    difference: { value: c.difference, low: c.low, high: c.high, confidence: c.confidence },
+    mcnemarP: c.pValue,
+  })));
+  return JSON.parse(JSON.stringify({ engine: result.engine, engineReason: result.engineReason, ...extra, points, comparisons }, (_k, v) =>
     typeof v === 'number' && !Number.isFinite(v) ? null : v));
 }

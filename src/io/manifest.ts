@@ -15,10 +15,14 @@ export interface Manifest {
   complete: boolean;
   seed: number;
   engine: string;
+  /** Why that engine ran (plan/engine.ts). */
+  engineReason?: string;
   /** "K/N", 1-based. */
   shard: string;
   files: string[];
   scenario: string;
+  /** For a merged run: the shard folders it was merged from, in shard order. */
+  mergedFrom?: string[];
 }
 
 export const MANIFEST = 'run.json';

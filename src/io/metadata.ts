@@ -16,6 +16,8 @@ export interface RunProvenance {
   scenario: string;
   seed: number;
   engine: string;
+  /** Why that engine ran (plan/engine.ts). */
+  engineReason?: string;
   /** "K/N" (1-based K) of the shard this run covered. */
   shard: string;
 }
@@ -27,6 +29,7 @@ export function tableMetadata(table: string, p: RunProvenance): Map<string, stri
     [`${META_PREFIX}version`, TOOL_VERSION],
     [`${META_PREFIX}seed`, String(p.seed)],
     [`${META_PREFIX}engine`, p.engine],
+    ...(p.engineReason ? [[`${META_PREFIX}engine_reason`, p.engineReason] as [string, string]] : []),
     [`${META_PREFIX}shard`, p.shard],
     [`${META_PREFIX}scenario`, p.scenario],
   ]);

@@ -4,18 +4,29 @@
  * run.json marks the folder complete last.
  */
 import { join } from 'node:path';
-import { tableToIPC } from 'apache-arrow';
 import { loadScenarioFile } from '../scenario/load.ts';
 import type { ScenarioOverrides } from '../scenario/overrides.ts';
-import { runPoints, type BatchExecutor, type RunResult, type SweepPoint } from '../plan/run.ts';
+import type { SweepSpec } from '../scenario/types.ts';
+import { runPoints, type BatchExecutor, type RunOptions, type RunResult, type SweepPoint } from '../plan/run.ts';
 import { ArrowFileStream } from './arrow-sink.ts';
-import { writeFileAtomic } from './atomic-file.ts';
 import { writeManifest } from './manifest.ts';
 import { tableMetadata, type RunProvenance } from './metadata.ts';
 import { prepareOutputDir } from './output-dir.ts';
 import { shotRecordBatches, shotsLayout } from './tables/shots.ts';
-import { summaryTable } from './tables/summary.ts';
-import { budgetTable } from './tables/budget.ts';
+import { traceRecordBatch, tracesLayout, withKeptTraces, type TracesLayout } from './tables/traces.ts';
+import { estimateRun, keptTracesEstimate, type RunEstimate } from '../plan/estimate.ts';
+import { freeResources, guardResources, type FreeResources } from './resource-guard.ts';
+import { abortSignalName, interruptibleExecutor, RunInterrupted } from './interrupt.ts';
+import { inProcessExecutor } from '../plan/run.ts';
+import { expandSweep } from '../plan/sweep.ts';
+import { checkRefineRequest, refineWithin, type RefineRequest, type RefineOutcome } from './refine-run.ts';
+import { writeReport } from './report/build.ts';
+import { resolveEngine } from '../plan/run.ts';
+import type { EngineRequest } from '../plan/engine.ts';
+import { workerPoolExecutor } from '../plan/pool.ts';
+import { batchCount, shardRange } from '../plan/batches.ts';
+import { writeResultTables } from './result-tables.ts';
+import { runTallies, TALLIES, writeTallies } from './tallies.ts';
 
 export interface RunToDirectoryOptions extends ScenarioOverrides {
   scenarioPath: string;
@@ -27,6 +38,22 @@ export interface RunToDirectoryOptions extends ScenarioOverrides {
   executor?: BatchExecutor;
   onProgress?: (done: number, total: number) => void;
   onWarning?: (message: string) => void;
+  /** Stream every scored shot's record (raw) or demodulated I/Q (baseband) to traces.arrow. */
+  keepTraces?: 'raw' | 'baseband';
+  /** Aborting it stops the run at the next batch (RunInterrupted; run.json stays complete: false). */
+  signal?: AbortSignal;
+  /** Called with the resource estimate before anything is written. */
+  onEstimate?: (estimate: RunEstimate) => void;
+  /** What is free for the run (default: measured); the guard refuses more unless `force`. */
+  free?: FreeResources;
+  /** Refine the lowest-error point along one swept value with extra points (golden section). */
+  refine?: RefineRequest;
+  /** Write report.html after the tables (default true). */
+  report?: boolean;
+  /** Engine: exact, traces or auto (default traces; the CLI's default is auto). */
+  engine?: EngineRequest;
+  /** Simulation threads (default 1: this thread); ignored when `executor` is given. */
+  workers?: number;
 }
 
 export interface RunToDirectoryResult {
@@ -34,49 +61,103 @@ export interface RunToDirectoryResult {
   provenance: RunProvenance;
   files: string[];
   warnings: string[];
+  /** What refinement did, when asked. */
+  refinement?: RefineOutcome;
+  /** Path of report.html, or null when not written. */
+  report?: string | null;
+  /** The scenario's sweep section (absent when nothing is swept). */
+  sweep?: SweepSpec;
 }
 
 /** Turns a loaded scenario into sweep points (a single point when nothing is swept). */
 export type SweepExpander = (loaded: Awaited<ReturnType<typeof loadScenarioFile>>, file: string) => SweepPoint[];
 
-let sweepExpander: SweepExpander = (loaded) => [{ parameters: {}, scenario: loaded.scenario }];
+let sweepExpander: SweepExpander = (loaded, file) => expandSweep(loaded.doc, loaded.scenario, file);
 
 /** Installs the sweep expansion (the sweep module registers itself here). */
 export function setSweepExpander(f: SweepExpander): void {
   sweepExpander = f;
 }
 
+/** The sweep points of a loaded scenario, as `run` makes them (merge rebuilds points this way). */
+export function expandPoints(loaded: Awaited<ReturnType<typeof loadScenarioFile>>, file: string): SweepPoint[] {
+  return sweepExpander(loaded, file);
+}
+
 export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDirectoryResult> {
   const loaded = await loadScenarioFile(o.scenarioPath, { shots: o.shots, seed: o.seed });
   loaded.warnings.forEach((w) => o.onWarning?.(w));
-  const points = sweepExpander(loaded, o.scenarioPath);
+  const points = withKeptTraces(sweepExpander(loaded, o.scenarioPath), o.keepTraces);
+  if (o.refine) checkRefineRequest(o.refine, loaded, o.scenarioPath, o.shard);
+  const estimate = estimateRun(points.map((p) => p.scenario), {
+    shotsTable: o.shotsTable !== false, shard: o.shard, workers: o.workers,
+    traces: o.keepTraces ? keptTracesEstimate(points[0]!.scenario, o.keepTraces) : undefined,
+  });
+  o.onEstimate?.(estimate);
+  guardResources(o.scenarioPath, estimate, o.free ?? freeResources(o.outDir), o.force ?? false);
+  if (o.signal?.aborted) throw new RunInterrupted(abortSignalName(o.signal), `${o.outDir} was not touched`);
   prepareOutputDir(o.outDir, o.force ?? false);
   const first = points[0]!.scenario;
   const shard = o.shard ? `${o.shard.index + 1}/${o.shard.count}` : '1/1';
-  const provenance: RunProvenance = { scenario: loaded.canonical, seed: first.seed, engine: 'traces', shard };
+  // the engine is chosen before any table opens: every table's metadata names it and why
+  const choice = resolveEngine(points, o.engine);
+  const provenance: RunProvenance = { scenario: loaded.canonical, seed: first.seed, engine: choice.engine, engineReason: choice.reason, shard };
   const files: string[] = [];
-  writeManifest(o.outDir, { complete: false, seed: first.seed, engine: provenance.engine, shard, files, scenario: loaded.canonical });
+  writeManifest(o.outDir, { complete: false, seed: first.seed, engine: provenance.engine, engineReason: choice.reason, shard, files, scenario: loaded.canonical });
+  const scoredBatches = points.reduce((n, p) => n + batchCount(p.scenario, 'score'), 0);
+  const pool = !o.executor && (o.workers ?? 1) > 1 && scoredBatches > 1 ? workerPoolExecutor(Math.min(o.workers!, scoredBatches)) : null;
+  const executor = o.executor ?? pool ?? inProcessExecutor();
   const outcomeOf = first.states.map((s) => s.outcome);
   const layout = shotsLayout(first, tableMetadata('shots', provenance));
   const shots = o.shotsTable === false ? null : new ArrowFileStream(join(o.outDir, 'shots.arrow'), layout.schema);
+  // traces.arrow opens once the calibration (stored in its metadata) is known
+  const traces: { stream: ArrowFileStream; layout: TracesLayout }[] = [];
+  const onScoredBatch: RunOptions['onScoredBatch'] = shots || o.keepTraces ? (p, b, scored) => {
+    if (shots) for (const rb of shotRecordBatches(layout, b, scored, outcomeOf)) shots.write(rb);
+    // refinement points come after the calibrations traces.arrow records: they keep no traces
+    if (p.index < points.length) for (const t of traces) t.stream.write(traceRecordBatch(t.layout, b, outcomeOf));
+  } : undefined;
   let result: RunResult;
+  let refinement: RefineOutcome | undefined;
   try {
     result = await runPoints(points, {
-      executor: o.executor, shard: o.shard, onProgress: o.onProgress,
-      onScoredBatch: shots ? (_p, b, scored) => { for (const rb of shotRecordBatches(layout, b, scored, outcomeOf)) shots.write(rb); } : undefined,
+      executor: o.signal ? interruptibleExecutor(executor, o.signal) : executor, engine: choice, shard: o.shard, onProgress: o.onProgress,
+      onCalibrated: o.keepTraces ? (calibrated) => {
+        const tl = tracesLayout(first, o.keepTraces!, calibrated[0]?.compiled.grid.samples ?? 0, tableMetadata('traces', provenance), calibrated);
+        traces.push({ stream: new ArrowFileStream(join(o.outDir, 'traces.arrow'), tl.schema), layout: tl });
+      } : undefined,
+      onScoredBatch,
     });
+    if (o.refine) refinement = await refineWithin(o.refine, loaded, o.scenarioPath, points, result, { onScoredBatch, signal: o.signal, onProgress: o.onProgress, shard: o.shard });
     shots?.finish();
+    for (const t of traces) t.stream.finish();
   } catch (e) {
     shots?.abort();
+    for (const t of traces) t.stream.abort();
+    if (e instanceof RunInterrupted) throw new RunInterrupted(e.signal, `${o.outDir} holds an unfinished run (run.json complete: false)`);
     throw e;
+  } finally {
+    await pool?.close();
   }
   if (shots) files.push('shots.arrow');
+  if (traces.length > 0) files.push('traces.arrow');
   provenance.engine = result.engine;
+  for (const p of result.points) {
+    // noise/sensor: a clipping digitizer makes the values non-linear in the noise
+    if (p.clippedSamples) {
+      const w = `point ${p.index}: the digitizer clipped ${p.clippedSamples} scored record samples (see signal.digitizer); the predicted σ does not include clipping`;
+      loaded.warnings.push(w);
+      o.onWarning?.(w);
+    }
+  }
   const unit = first.signal.unit;
-  writeFileAtomic(join(o.outDir, 'summary.arrow'), tableToIPC(summaryTable(result.points, unit, tableMetadata('summary', provenance)), 'file'));
-  files.push('summary.arrow');
-  writeFileAtomic(join(o.outDir, 'budget.arrow'), tableToIPC(budgetTable(result.points, tableMetadata('budget', provenance)), 'file'));
-  files.push('budget.arrow');
-  writeManifest(o.outDir, { complete: true, seed: first.seed, engine: result.engine, shard, files, scenario: loaded.canonical });
-  return { result, provenance, files, warnings: loaded.warnings };
+  const sweptUnits = points[0]!.units ?? {};
+  files.push(...writeResultTables(o.outDir, result.points, provenance, unit, sweptUnits));
+  // what `merge` needs to rebuild these tables from shards, bit for bit
+  const ranges = result.points.map((p) => shardRange(batchCount(p.scenario, 'score'), o.shard));
+  writeTallies(o.outDir, runTallies(result.points, ranges, { seed: first.seed, engine: result.engine, scenario: loaded.canonical }));
+  files.push(TALLIES);
+  writeManifest(o.outDir, { complete: true, seed: first.seed, engine: result.engine, engineReason: result.engineReason, shard, files, scenario: loaded.canonical });
+  const report = o.report === false ? null : (await writeReport(o.outDir)).path;
+  return { result, provenance, files, warnings: loaded.warnings, refinement, report, sweep: loaded.scenario.sweep };
 }

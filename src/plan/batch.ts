@@ -2,12 +2,17 @@
  * One batch of shots through the trace engine: hidden-state history, raw record, and the
  * integrated I/Q of every pipeline. Columnar output, one typed array per quantity.
  */
-import { applyFlip, drawPrepared } from '../physics/flips.ts';
-import { makePathBuffer, samplePath } from '../physics/chain.ts';
+import { makePathBuffer, type PathBuffer } from '../physics/chain.ts';
 import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../random/streams.ts';
+import type { RandomStream } from '../random/stream.ts';
 import { addWhiteNoise, writeSignal } from '../signal/trace.ts';
+import { writeRespondedSignal } from '../signal/response.ts';
+import { digitize } from '../signal/digitizer.ts';
+import { makeNoiseRuntime, type NoiseRuntime } from './compile-noise.ts';
 import { dotRange } from '../dsp/integrate.ts';
 import type { CompiledPoint } from './compile.ts';
+import { historyTables, makePathStore, sampleHistories, type HistoryTables, type PathStore } from './history.ts';
+import { makeShotCollector, type KeptBins, type KeptTraces } from './collect.ts';
 
 /** The truth and the integrated values of a batch of shots. */
 export interface ShotBatch {
@@ -31,75 +36,139 @@ export interface ShotBatch {
   jumpCause: Uint8Array;
   /** Per pipeline: integrated I and Q. */
   values: { inPhase: Float64Array; quadrature: Float64Array }[];
+  /** Per pipeline: the decimated bins of every shot, where calibration or scoring needs them (collect.ts). */
+  records?: (KeptBins | null)[];
+  /** Every scored shot's record, when the scenario asks to keep traces (collect.ts). */
+  traces?: KeptTraces;
+  /** Record samples the digitizer clipped in this batch (present when the point has a digitizer). */
+  clippedSamples?: number;
 }
 
-/** Scratch buffers reused across batches of one worker (no per-shot allocation). */
+/** Scratch buffers reused across batches of one point (no per-shot allocation). */
 export interface BatchScratch {
   record: Float64Array;
-  path: ReturnType<typeof makePathBuffer>;
+  path: PathBuffer;
+  /** The jumps of one seeding block's shots (histories are drawn a block at a time). */
+  store: PathStore;
+  /** History tables of `point` (rebuilt if the scratch is used with another point). */
+  history: HistoryTables;
+  point: CompiledPoint;
+  /** Slow-noise runtimes (timeline caches) of `noiseOf`, by point index and purpose. */
+  noise?: Map<string, NoiseRuntime>;
+  noiseOf?: CompiledPoint;
+}
+
+/** The slow-noise runtime of a point and purpose, kept in the scratch (its caches serve later batches). */
+function noiseRuntime(point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, scratch: BatchScratch): NoiseRuntime {
+  if (scratch.noiseOf !== point || !scratch.noise) {
+    scratch.noise = new Map();
+    scratch.noiseOf = point;
+  }
+  const key = `${pointIndex}/${purpose}`;
+  let r = scratch.noise.get(key);
+  if (!r) {
+    r = makeNoiseRuntime(point.noise, point.scenario.seed, pointIndex, purpose, point.grid.sampleRate, point.scenario.timing);
+    scratch.noise.set(key, r);
+  }
+  return r;
 }
 
 export function makeScratch(point: CompiledPoint): BatchScratch {
-  return { record: new Float64Array(point.grid.samples), path: makePathBuffer() };
+  return {
+    record: new Float64Array(point.grid.samples), path: makePathBuffer(), store: makePathStore(SEED_BLOCK),
+    history: historyTables(point), point,
+  };
 }
 
-/**
- * Runs shots [batch·batchSize, batch·batchSize + count) of one point and purpose. Shots draw
- * from the stream of their seeding block, in shot order, so the result does not depend on the
- * batch size (a multiple of SEED_BLOCK).
- */
-export function simulateBatch(
-  point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number,
-  scratch: BatchScratch = makeScratch(point),
-): ShotBatch {
-  const { scenario, grid, chain } = point;
-  const firstShot = batch * scenario.batchSize;
-  const blocks = new BlockStreams(scenario.seed, pointIndex, purpose, firstShot / SEED_BLOCK);
-  let stream = blocks.current();
-  const out: ShotBatch = {
-    point: pointIndex, purpose, batch, firstShot, count,
+/** The scratch's history tables, rebuilt when it last served another point. */
+export function scratchHistory(point: CompiledPoint, scratch: BatchScratch): HistoryTables {
+  if (scratch.point !== point) {
+    scratch.point = point;
+    scratch.history = historyTables(point);
+  }
+  return scratch.history;
+}
+
+/** An empty batch of `count` shots with every column allocated. */
+export function makeShotBatch(point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number): ShotBatch {
+  return {
+    point: pointIndex, purpose, batch, firstShot: batch * point.scenario.batchSize, count,
     intended: new Uint8Array(count), prepared: new Uint8Array(count), initial: new Uint8Array(count),
     atWindowStart: new Uint8Array(count), atWindowEnd: new Uint8Array(count),
     firstJump: new Float64Array(count), jumpCause: new Uint8Array(count),
     values: point.pipelines.map(() => ({ inPhase: new Float64Array(count), quadrature: new Float64Array(count) })),
   };
-  const { record, path } = scratch;
-  const fs = grid.sampleRate;
-  const recordLength = grid.samples / fs;
-  const windowStartTime = grid.windowLo / fs;
-  // the last window sample's time: a jump after it cannot change the integrated value
-  const lastWindowSample = (grid.windowHi - 1) / fs;
-  const nStates = scenario.states.length;
+}
+
+/**
+ * Calls `body(stream, from, to)` for each seeding block of a batch: shots [from, to) of the batch
+ * are one block and draw, in order, from that block's stream (see random/streams.ts).
+ */
+export function forEachBlock(
+  batch: ShotBatch, seed: number, body: (stream: RandomStream, from: number, to: number) => void,
+): void {
+  const blocks = new BlockStreams(seed, batch.point, batch.purpose, batch.firstShot / SEED_BLOCK);
+  for (let from = 0; from < batch.count; from += SEED_BLOCK) {
+    body(from === 0 ? blocks.current() : blocks.next(), from, Math.min(batch.count, from + SEED_BLOCK));
+  }
+}
+
+/** Copies shot j's jumps from a block's path store into a path buffer. */
+export function loadPath(store: PathStore, j: number, path: PathBuffer): void {
+  const a = store.offset[j]!, b = store.offset[j + 1]!;
+  if (b - a > path.times.length) {
+    path.times = new Float64Array(2 * (b - a));
+    path.entered = new Uint8Array(2 * (b - a));
+  }
+  for (let k = a; k < b; k++) {
+    path.times[k - a] = store.times[k]!;
+    path.entered[k - a] = store.entered[k]!;
+  }
+  path.jumps = b - a;
+}
+
+/**
+ * Runs shots [batch·batchSize, batch·batchSize + count) of one point and purpose through the
+ * trace engine. Each seeding block first draws its shots' histories (history.ts), then, shot by
+ * shot, the record's noise; the result does not depend on the batch size (a multiple of
+ * SEED_BLOCK).
+ */
+export function simulateBatch(
+  point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number,
+  scratch: BatchScratch = makeScratch(point),
+): ShotBatch {
+  const out = makeShotBatch(point, pointIndex, purpose, batch, count);
+  const tables = scratchHistory(point, scratch);
+  const { record, path, store } = scratch;
+  const fs = point.grid.sampleRate;
   const lo = point.synthLo, hi = point.synthHi;
-  for (let i = 0; i < count; i++) {
-    if (i > 0 && i % SEED_BLOCK === 0) stream = blocks.next();
-    const intended = drawPrepared(point.prepareCumulative, stream);
-    const prepared = applyFlip(intended, scenario.preparationError, stream);
-    const initial = applyFlip(prepared, scenario.mappingError, stream);
-    samplePath(chain, initial, recordLength, stream, path);
-    out.intended[i] = intended;
-    out.prepared[i] = prepared;
-    out.initial[i] = initial;
-    let atStart = initial;
-    for (let j = 0; j < path.jumps && path.times[j]! <= windowStartTime; j++) atStart = path.entered[j]!;
-    out.atWindowStart[i] = atStart;
-    // the state at the last window sample, which decides what the window saw
-    let atWindowEnd = initial;
-    for (let j = 0; j < path.jumps && path.times[j]! <= lastWindowSample; j++) atWindowEnd = path.entered[j]!;
-    out.atWindowEnd[i] = atWindowEnd;
-    if (path.jumps > 0) {
-      out.firstJump[i] = path.times[0]!;
-      if (path.times[0]! <= lastWindowSample) out.jumpCause[i] = point.jumpCause[initial * nStates + path.entered[0]!]!;
-    } else {
-      out.firstJump[i] = NaN;
+  const collector = makeShotCollector(point, pointIndex, purpose, out.firstShot, count);
+  // noise beyond white (noise/sensor hook): slow noise from its own streams, response, digitizer
+  const { response, digitizer } = point.noise;
+  const slow = point.noise.slow ? noiseRuntime(point, pointIndex, purpose, scratch) : null;
+  let clipped = 0;
+  forEachBlock(out, point.scenario.seed, (stream, from, to) => {
+    sampleHistories(tables, stream, out, from, to, store);
+    for (let i = from; i < to; i++) {
+      loadPath(store, i - from, path);
+      if (response) writeRespondedSignal(record, lo, hi, point.levelWaves, response, out.initial[i]!, path, fs);
+      else writeSignal(record, lo, hi, point.waveforms, out.initial[i]!, path, fs);
+      if (slow) slow.addSlowNoise(record, lo, hi, out.firstShot + i);
+      addWhiteNoise(record, lo, hi, point.whiteSigma, stream);
+      if (digitizer) clipped += digitize(record, lo, hi, digitizer);
+      for (let p = 0; p < point.pipelines.length; p++) {
+        const k = point.pipelines[p]!.kernels;
+        out.values[p]!.inPhase[i] = dotRange(k.inPhase, record, k.lo, k.hi);
+        out.values[p]!.quadrature[i] = k.quadrature ? dotRange(k.quadrature, record, k.lo, k.hi) : 0;
+      }
+      collector?.shot(i, record, out.initial[i]!, path);
     }
-    writeSignal(record, lo, hi, point.waveforms, initial, path, fs);
-    addWhiteNoise(record, lo, hi, point.whiteSigma, stream);
-    for (let p = 0; p < point.pipelines.length; p++) {
-      const k = point.pipelines[p]!.kernels;
-      out.values[p]!.inPhase[i] = dotRange(k.inPhase, record, k.lo, k.hi);
-      out.values[p]!.quadrature[i] = k.quadrature ? dotRange(k.quadrature, record, k.lo, k.hi) : 0;
-    }
+  });
+  if (digitizer) out.clippedSamples = clipped;
+  if (collector) {
+    const kept = collector.result();
+    if (kept.records) out.records = kept.records;
+    if (kept.traces) out.traces = kept.traces;
   }
   return out;
 }

@@ -11,6 +11,8 @@ export interface BatchTask {
   purpose: StreamPurpose;
   batch: number;
   count: number;
+  /** Engine that runs it (plan/engine.ts); default the trace engine. */
+  engine?: 'exact' | 'traces';
 }
 
 /** Number of batches of a point for a purpose. */

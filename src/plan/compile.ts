@@ -6,16 +6,21 @@ import { makeChain, type Chain } from '../physics/chain.ts';
 import { cumulativeMixture } from '../physics/flips.ts';
 import { carrierTables, stateWaveform } from '../signal/carrier.ts';
 import { makeGrid, type Grid } from '../signal/grid.ts';
-import { makeReference } from '../dsp/demodulate.ts';
-import { boxcarKernels, type LinearKernels } from '../dsp/integrate.ts';
+import type { LinearKernels } from '../dsp/integrate.ts';
+import { chainKernels, compileChain, type PipelineChain } from './compile-pipeline.ts';
 import { transitionCause } from '../analysis/causes.ts';
 import type { PipelineSpec, Scenario } from '../scenario/types.ts';
+import { applySensor } from '../physics/sensor-scenario.ts';
+import { respondedWaveform } from '../signal/response.ts';
+import { compileNoise, type NoisePlan } from './compile-noise.ts';
 
 export interface CompiledPipeline {
   spec: PipelineSpec;
   /** The demodulation reference phase actually used (rad). */
   referencePhase: number;
   kernels: LinearKernels;
+  /** The chain behind the kernels, for per-record processing (plan/process.ts). */
+  chain: PipelineChain;
 }
 
 export interface CompiledPoint {
@@ -33,6 +38,10 @@ export interface CompiledPoint {
   synthHi: number;
   /** Per state: the cause code of a jump out of it, per destination (for attribution). */
   jumpCause: Uint8Array;
+  /** Noise sources, analog response and digitizer (compile-noise.ts). */
+  noise: NoisePlan;
+  /** levelWaves[s][k]: state s's waveform before the analog response (equals waveforms without one). */
+  levelWaves: Float64Array[];
 }
 
 /** The mean level of each outcome group under the prepared mixture (for 'auto' phase). */
@@ -54,29 +63,37 @@ export function automaticReferencePhase(scenario: Scenario): number {
   return scenario.signal.carrier.phase + Math.atan2(m1!.im - m0!.im, m1!.re - m0!.re);
 }
 
-export function compilePoint(scenario: Scenario): CompiledPoint {
+export function compilePoint(input: Scenario): CompiledPoint {
+  // levels, rates and noise that a sensor section derives (a no-op without one)
+  const scenario = applySensor(input);
   const grid = makeGrid(scenario.timing);
   const { carrier, gain } = scenario.signal;
   const tables = carrierTables(carrier, grid.samples, grid.sampleRate);
-  const waveforms = scenario.states.map((s) => stateWaveform(tables, s.level.re, s.level.im, gain, new Float64Array(grid.samples)));
-  const whiteSigma = scenario.signal.white ? gain * scenario.signal.white.density * Math.sqrt(grid.sampleRate / 2) : 0;
+  const levelWaves = scenario.states.map((s) => stateWaveform(tables, s.level.re, s.level.im, gain, new Float64Array(grid.samples)));
   const pipelines = scenario.pipelines.map((spec) => {
     const referencePhase = spec.referencePhase === 'auto' ? automaticReferencePhase(scenario) : spec.referencePhase;
-    const reference = makeReference(grid.samples, grid.sampleRate, carrier.frequency, referencePhase);
-    return { spec, referencePhase, kernels: boxcarKernels(grid.samples, grid.windowLo, grid.windowHi, reference) };
+    const chain = compileChain(spec, grid, carrier.frequency, referencePhase);
+    return { spec, referencePhase, kernels: chainKernels(chain, grid.samples), chain };
   });
   const n = scenario.states.length;
   const jumpCause = new Uint8Array(n * n);
   for (const t of scenario.transitions) {
     jumpCause[t.from * n + t.to] = transitionCause(t.kind);
   }
+  const synthLo = Math.min(...pipelines.map((p) => p.kernels.lo));
+  const synthHi = Math.max(...pipelines.map((p) => p.kernels.hi));
+  const noise = compileNoise(scenario, grid, tables, synthLo, synthHi);
+  const response = noise.response;
+  const waveforms = response
+    ? levelWaves.map((w, s) => respondedWaveform(w, response, s, grid.sampleRate, new Float64Array(grid.samples)))
+    : levelWaves;
   return {
-    scenario, grid, waveforms, whiteSigma,
+    scenario, grid, waveforms, whiteSigma: noise.whiteSigma, noise, levelWaves,
     chain: makeChain(n, scenario.transitions),
     prepareCumulative: cumulativeMixture(scenario.prepare),
     pipelines,
-    synthLo: Math.min(...pipelines.map((p) => p.kernels.lo)),
-    synthHi: Math.max(...pipelines.map((p) => p.kernels.hi)),
+    synthLo,
+    synthHi,
     jumpCause,
   };
 }

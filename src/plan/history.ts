@@ -5,7 +5,6 @@
  * for the same scenario and seed the trace and exact engines see exactly the same histories
  * shot by shot, and the engines differ only in how the integrated value is obtained.
  */
-import { cumulativeMixture } from '../physics/flips.ts';
 import type { RandomStream } from '../random/stream.ts';
 import type { CompiledPoint } from './compile.ts';
 
@@ -54,7 +53,10 @@ export interface HistoryTables {
   anyPrep: boolean;
   anyMap: boolean;
   exitRate: Float64Array;
-  /** e^(−exit·recordLength)·(1 − 1e−6): a uniform below it certainly gives no jump in the record. */
+  /**
+   * Per state: a first-holding-time uniform below this certainly gives no jump inside the
+   * record: e^(−exit·recordLength)·(1 − 1e−6), or 2 (never reached) for a state that cannot leave.
+   */
   noJumpCut: Float64Array;
   cumulative: Float64Array;
   jumpCause: Uint8Array;
@@ -79,11 +81,11 @@ export function historyTables(point: CompiledPoint): HistoryTables {
   const recordLength = grid.samples / fs;
   return {
     states: n,
-    prepareCumulative: point.prepareCumulative ?? cumulativeMixture(scenario.prepare),
+    prepareCumulative: point.prepareCumulative,
     prepProbability: prep.probability, prepInto: prep.into, anyPrep: prep.any,
     mapProbability: map.probability, mapInto: map.into, anyMap: map.any,
     exitRate: chain.exitRate,
-    noJumpCut: Float64Array.from(chain.exitRate, (r) => (r > 0 ? Math.exp(-r * recordLength) * (1 - 1e-6) : 1)),
+    noJumpCut: Float64Array.from(chain.exitRate, (r) => (r > 0 ? Math.exp(-r * recordLength) * (1 - 1e-6) : 2)),
     cumulative: chain.cumulative,
     jumpCause: point.jumpCause,
     recordLength,
@@ -92,53 +94,80 @@ export function historyTables(point: CompiledPoint): HistoryTables {
   };
 }
 
+const INV_TWO_POW_32 = 1 / 4294967296;
+
 /**
  * Draws the histories of shots [from, to) of `out` (indices within the batch) from `stream`,
  * in shot order, and stores their jumps in `store` (store index = batch index − from).
  *
- * Per shot: the intended state (one uniform), a preparation flip and a mapping flip (one
- * uniform each, drawn only when the scenario has such flips), then the chain's path on
- * [0, record): exponential holding times −ln(u)/rate and the jump chain (Norris, "Markov
- * Chains", Cambridge 1997, §2.6). The logarithm is skipped when u is so small that the holding
- * time certainly outlasts the record (u < e^(−rate·remaining) with a margin); the result is the
- * same as computing it, which `test/plan/history.test.ts` checks against physics/chain.ts.
+ * Draws per shot, in this order: the intended state (one uniform); a preparation flip and a
+ * mapping flip (one uniform each, only when the scenario has such flips); the first holding
+ * time (one uniform u, always — ignored in a state that cannot leave); only when that holding
+ * time −ln(u)/rate ends inside the record, the jump chain: for each jump one uniform for the
+ * destination and, if the new state can leave, one for its holding time (exact sampling of a
+ * continuous-time Markov chain: Norris, "Markov Chains", Cambridge 1997, §2.6).
+ *
+ * Written for speed, since the exact engine spends most of its time here: the generator runs
+ * inline on local variables, and the common path has no data-dependent branches (a random
+ * 50/50 branch costs more than a whole draw); the logarithm is taken only when u is large
+ * enough for the holding time to end inside the record (u ≥ e^(−rate·record) with a margin).
  */
 export function sampleHistories(
   t: HistoryTables, stream: RandomStream, out: HistoryColumns, from: number, to: number, store: PathStore,
 ): void {
   const n = t.states;
-  const { prepareCumulative, exitRate, cumulative, jumpCause, recordLength, windowStartTime, lastWindowSample } = t;
   const last = n - 1;
+  const { prepareCumulative, exitRate, cumulative, jumpCause, recordLength, windowStartTime, lastWindowSample } = t;
+  const { prepProbability, prepInto, mapProbability, mapInto, anyPrep, anyMap, noJumpCut } = t;
+  const intendedCol = out.intended, preparedCol = out.prepared, initialCol = out.initial;
+  const atStartCol = out.atWindowStart, atEndCol = out.atWindowEnd, firstCol = out.firstJump, causeCol = out.jumpCause;
+  const offset = store.offset;
+  const st = stream.s;
+  let s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
+  let m = 0, r = 0, x = 0, n2 = 0, n3 = 0;
   let nj = 0;
   for (let i = from; i < to; i++) {
-    store.offset[i - from] = nj;
-    let u = stream.nextDouble();
+    offset[i - from] = nj;
+    // xoshiro128** step (as random/stream.ts nextInt32), inline
+    m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
+    x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
+    let u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
+    // the first k with u ≤ cumulative[k]: a count, without branches
     let intended = 0;
-    while (intended < last && u > prepareCumulative[intended]!) intended++;
+    for (let k = 0; k < last; k++) intended += +(u > prepareCumulative[k]!);
     let prepared = intended;
-    if (t.anyPrep) {
-      u = stream.nextDouble();
-      if (u < t.prepProbability[intended]!) prepared = t.prepInto[intended]!;
+    if (anyPrep) {
+      m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
+      x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
+      u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
+      prepared = intended + +(u < prepProbability[intended]!) * (prepInto[intended]! - intended);
     }
     let initial = prepared;
-    if (t.anyMap) {
-      u = stream.nextDouble();
-      if (u < t.mapProbability[prepared]!) initial = t.mapInto[prepared]!;
+    if (anyMap) {
+      m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
+      x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
+      u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
+      initial = prepared + +(u < mapProbability[prepared]!) * (mapInto[prepared]! - prepared);
     }
-    out.intended[i] = intended;
-    out.prepared[i] = prepared;
-    out.initial[i] = initial;
-    // the path
-    let state = initial, time = 0, atStart = initial, atEnd = initial, first = NaN, cause = 0;
-    const firstJumpIndex = nj;
-    for (;;) {
-      const exit = exitRate[state]!;
-      if (exit <= 0) break;
-      u = stream.nextDouble();
-      // quick exit: the holding time −ln(u)/exit certainly reaches past the record end
-      if (time === 0 && u < t.noJumpCut[state]!) break;
-      time += -Math.log(u) / exit;
-      if (time >= recordLength) break;
+    intendedCol[i] = intended;
+    preparedCol[i] = prepared;
+    initialCol[i] = initial;
+    atStartCol[i] = initial;
+    atEndCol[i] = initial;
+    firstCol[i] = NaN;
+    causeCol[i] = 0;
+    // the first holding time
+    m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
+    x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
+    u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
+    if (u < noJumpCut[initial]!) continue;
+    let time = -Math.log(u) / exitRate[initial]!;
+    if (time >= recordLength) continue;
+    // rare: jumps inside the record; the chain continues through the stream's own methods
+    st[0] = s0; st[1] = s1; st[2] = s2; st[3] = s3;
+    let state = initial, atStart = initial, atEnd = initial;
+    firstCol[i] = time;
+    for (let j = 0; ; j++) {
       const v = stream.nextDouble();
       let next = 0;
       const row = state * n;
@@ -146,19 +175,20 @@ export function sampleHistories(
       if (nj === store.times.length) growJumps(store);
       store.times[nj] = time;
       store.entered[nj] = next;
-      if (nj === firstJumpIndex) {
-        first = time;
-        if (time <= lastWindowSample) cause = jumpCause[state * n + next]!;
-      }
       nj++;
+      if (j === 0 && time <= lastWindowSample) causeCol[i] = jumpCause[row + next]!;
       if (time <= windowStartTime) atStart = next;
       if (time <= lastWindowSample) atEnd = next;
       state = next;
+      const exit = exitRate[state]!;
+      if (exit <= 0) break;
+      time += stream.nextExponential(exit);
+      if (time >= recordLength) break;
     }
-    out.atWindowStart[i] = atStart;
-    out.atWindowEnd[i] = atEnd;
-    out.firstJump[i] = first;
-    out.jumpCause[i] = cause;
+    atStartCol[i] = atStart;
+    atEndCol[i] = atEnd;
+    s0 = st[0]!; s1 = st[1]!; s2 = st[2]!; s3 = st[3]!;
   }
-  store.offset[to - from] = nj;
+  st[0] = s0; st[1] = s1; st[2] = s2; st[3] = s3;
+  offset[to - from] = nj;
 }

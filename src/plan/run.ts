@@ -4,20 +4,27 @@
  * Batches are processed and merged in their fixed order, so the result depends only on the
  * scenario and the seed.
  */
-import { analyticBudget, whiteNoiseVariance, type Budget } from '../analysis/budget.ts';
-import { summarise, type PointSummary } from '../analysis/summary.ts';
-import { addToTally, emptyTally, type Tally } from '../analysis/tally.ts';
+import { analyticBudget, type Budget } from '../analysis/budget.ts';
+import { predictNoise } from './predict-noise.ts';
+import { REPORT_CONFIDENCE, summarise, type PointSummary } from '../analysis/summary.ts';
+import { addPairs, comparePipelines, emptyPairTallies, type PairTally, type PipelineComparison } from '../analysis/compare.ts';
+import { addToTally, emptyTally, type Tally, type TallyInput } from '../analysis/tally.ts';
+import { foldStack, pushNode, sliceTallyInput, type TallyNode } from '../analysis/tally-tree.ts';
 import type { Scenario } from '../scenario/types.ts';
-import { simulateBatch, makeScratch, type ShotBatch } from './batch.ts';
-import { calibrate, type PipelineCalibration } from './calibrate.ts';
+import type { ShotBatch } from './batch.ts';
+import { calibrate, unavailableBudget, withCalibration, type PipelineCalibration } from './calibrate.ts';
 import { compilePoint, type CompiledPoint } from './compile.ts';
 import { scoreBatch, type ScoredPipeline } from './score.ts';
 import { batchPlan, type BatchTask } from './batches.ts';
 import { SEED_BLOCK } from '../random/streams.ts';
+import { chooseEngine, type EngineChoice, type EngineRequest } from './engine.ts';
+import { TaskRunner } from './task.ts';
 
 /** One point of a sweep: the swept values and the scenario with them applied. */
 export interface SweepPoint {
   parameters: Record<string, number>;
+  /** SI unit of each parameter ('' for plain numbers), for the tables' field metadata. */
+  units?: Record<string, string>;
   scenario: Scenario;
 }
 
@@ -31,17 +38,8 @@ export interface BatchExecutor {
 export function inProcessExecutor(): BatchExecutor {
   return {
     async *run(points, tasks) {
-      const compiled = new Map<number, CompiledPoint>();
-      const scratch = new Map<number, ReturnType<typeof makeScratch>>();
-      for (const t of tasks) {
-        let c = compiled.get(t.point);
-        if (!c) {
-          c = compilePoint(points[t.point]!.scenario);
-          compiled.set(t.point, c);
-          scratch.set(t.point, makeScratch(c));
-        }
-        yield simulateBatch(c, t.point, t.purpose, t.batch, t.count, scratch.get(t.point));
-      }
+      const runner = new TaskRunner(points.map((p) => p.scenario));
+      for (const t of tasks) yield runner.run(t);
     },
   };
 }
@@ -52,9 +50,21 @@ export interface PointResult {
   scenario: Scenario;
   compiled: CompiledPoint;
   calibrations: PipelineCalibration[];
+  /** Per pipeline: the fold of `tallyStacks` (filled by finishPoint). */
   tallies: Tally[];
+  /**
+   * Per pipeline: the pending nodes of the tally tree over the scored seeding blocks
+   * (analysis/tally-tree.ts); a shard saves them so that merged shards give identical bits.
+   */
+  tallyStacks: TallyNode[][];
   budgets: Budget[];
   summaries: PointSummary[];
+  /** Paired error counts of every pair of pipelines (a < b) on the same scored shots. */
+  pairs: PairTally[];
+  /** The pairs compared: difference of errors with interval, exact McNemar p. */
+  comparisons: PipelineComparison[];
+  /** Scored record samples the digitizer clipped (present when the point has a digitizer). */
+  clippedSamples?: number;
 }
 
 export interface RunOptions {
@@ -64,6 +74,12 @@ export interface RunOptions {
   /** Called for every scored batch, in order (e.g. to stream shots to a table). */
   onScoredBatch?: (point: PointResult, batch: ShotBatch, scored: ScoredPipeline[]) => void | Promise<void>;
   onProgress?: (doneShots: number, totalShots: number) => void;
+  /** Called once, after every point is calibrated and before the first scored batch. */
+  onCalibrated?: (points: readonly PointResult[]) => void | Promise<void>;
+  /** Engine: 'exact', 'traces', 'auto', or a choice already made (plan/engine.ts). Default 'traces'. */
+  engine?: EngineRequest | EngineChoice;
+  /** Run only points from this index on; earlier ones keep their indices (and seed streams) but are not run (default 0). */
+  firstPoint?: number;
 }
 
 export interface RunResult {
@@ -77,12 +93,14 @@ export function pointBudgets(c: CompiledPoint, calibrations: readonly PipelineCa
   const sc = c.scenario;
   return c.pipelines.map((p, i) => {
     const cal = calibrations[i]!;
+    if (p.chain.classifier === 'likelihood') return unavailableBudget(sc.states.length);
     const k = p.kernels;
     const kernel = new Float64Array(k.inPhase.length);
     for (let j = k.lo; j < k.hi; j++) kernel[j] = k.inPhase[j]! * cal.axis.cos + (k.quadrature ? k.quadrature[j]! * cal.axis.sin : 0);
     return analyticBudget({
       kernel, lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms,
-      noiseVariance: whiteNoiseVariance(kernel, k.lo, k.hi, c.whiteSigma),
+      // every noise source through the whole path, by the filter function (predict-noise.ts)
+      noiseVariance: predictNoise(c.noise, kernel, k.lo, k.hi, c.grid.sampleRate).variance,
       rate: c.chain.rate, jumpCause: c.jumpCause, prepare: sc.prepare,
       outcomeOf: sc.states.map((s) => s.outcome),
       preparation: sc.preparationError, mapping: sc.mappingError,
@@ -91,39 +109,98 @@ export function pointBudgets(c: CompiledPoint, calibrations: readonly PipelineCa
   });
 }
 
+/**
+ * The result of a calibrated point before scoring (shared by runs and by `merge`, which rebuilds
+ * points from the calibrations the shards saved).
+ */
+export function setUpPoint(
+  index: number, p: SweepPoint, calibrations: PipelineCalibration[], uncalibrated: CompiledPoint = compilePoint(p.scenario),
+): PointResult {
+  // matched/optimal weights enter the kernels of the scored shots through the scenario
+  const scored = withCalibration(p.scenario, calibrations);
+  const compiled = scored === p.scenario ? uncalibrated : compilePoint(scored);
+  return {
+    index, parameters: p.parameters, scenario: p.scenario, compiled, calibrations,
+    tallies: compiled.pipelines.map(() => emptyTally(p.scenario.states.length, p.scenario.outcomes.length)),
+    tallyStacks: compiled.pipelines.map(() => []),
+    budgets: pointBudgets(compiled, calibrations), summaries: [],
+    pairs: emptyPairTallies(compiled.pipelines.length), comparisons: [],
+  };
+}
+
+/** Adds a scored batch to a point's tallies: one leaf of the tally tree per seeding block and pipeline. */
+export function tallyBatch(r: PointResult, b: ShotBatch, scored: readonly ScoredPipeline[]): void {
+  const states = r.scenario.states.length, outcomes = r.scenario.outcomes.length;
+  const firstBlock = b.firstShot / SEED_BLOCK;
+  scored.forEach((s, p) => {
+    // every per-shot field that TallyInput reads
+    const input: TallyInput = {
+      count: b.count, intended: b.intended, prepared: b.prepared, initial: b.initial, jumpCause: s.jumpCause,
+      projected: s.projected, outcome: s.outcome, cause: s.cause, discarded: s.discarded,
+    };
+    for (let from = 0, block = firstBlock; from < b.count; from += SEED_BLOCK, block++) {
+      const leaf = addToTally(emptyTally(states, outcomes), sliceTallyInput(input, from, Math.min(b.count, from + SEED_BLOCK)), SEED_BLOCK);
+      pushNode(r.tallyStacks[p]!, { level: 0, index: block, tally: leaf });
+    }
+  });
+  addPairs(r.pairs, scored.map((s) => s.cause), b.count);
+}
+
+/** Folds a scored point's tally trees and fills its summaries and pipeline comparisons. */
+export function finishPoint(r: PointResult): void {
+  const sc = r.scenario;
+  r.tallies = r.tallyStacks.map((stack) => foldStack(stack, sc.states.length, sc.outcomes.length));
+  r.summaries = r.compiled.pipelines.map((p, i) => summarise(
+    p.spec.name, sc.states.map((s) => s.name), sc.states.map((s) => s.outcome), sc.prepare,
+    r.tallies[i]!, r.budgets[i]!, r.calibrations[i]!.rule.threshold, r.calibrations[i]!.rule.highIsOne,
+    p.chain.band !== null,
+  ));
+  r.comparisons = comparePipelines(r.compiled.pipelines.map((p) => p.spec.name), r.pairs, REPORT_CONFIDENCE);
+}
+
+/** The engine choice of a run (a request is resolved against every point's scenario). */
+export function resolveEngine(points: readonly SweepPoint[], engine: EngineRequest | EngineChoice | undefined): EngineChoice {
+  if (engine !== undefined && typeof engine === 'object') return engine;
+  return chooseEngine(points.map((p) => p.scenario), engine ?? 'traces');
+}
+
 export async function runPoints(points: readonly SweepPoint[], options: RunOptions = {}): Promise<RunResult> {
   const executor = options.executor ?? inProcessExecutor();
+  const choice = resolveEngine(points, options.engine);
+  const engine = choice.engine;
   const results: PointResult[] = [];
-  const calibrationTasks = points.flatMap((p, i) => batchPlan(p.scenario, i, 'calibrate'));
-  const calibrationBatches: ShotBatch[][] = points.map(() => []);
-  for await (const b of executor.run(points, calibrationTasks)) calibrationBatches[b.point]!.push(b);
-  points.forEach((p, i) => {
-    const compiled = compilePoint(p.scenario);
-    const calibrations = calibrate(compiled, calibrationBatches[i]!);
-    results.push({
-      index: i, parameters: p.parameters, scenario: p.scenario, compiled, calibrations,
-      tallies: compiled.pipelines.map(() => emptyTally(p.scenario.states.length, p.scenario.outcomes.length)),
-      budgets: pointBudgets(compiled, calibrations), summaries: [],
-    });
-  });
-  const scoreTasks = points.flatMap((p, i) => batchPlan(p.scenario, i, 'score', options.shard));
+  const first = options.firstPoint ?? 0;
+  const calibrationTasks = points.flatMap((p, i) => (i < first ? [] : batchPlan(p.scenario, i, 'calibrate').map((t) => ({ ...t, engine }))));
+  // batches arrive in task order, i.e. point by point: calibrate each point as soon as its
+  // batches are in, so only one point's calibration shots are held at a time
+  let pending: ShotBatch[] = [];
+  const calibratePending = () => {
+    if (pending.length === 0) return;
+    const i = pending[0]!.point;
+    const uncalibrated = compilePoint(points[i]!.scenario);
+    results.push(setUpPoint(i, points[i]!, calibrate(uncalibrated, pending), uncalibrated));
+    pending = [];
+  };
+  for await (const b of executor.run(points, calibrationTasks)) {
+    if (pending.length > 0 && pending[0]!.point !== b.point) calibratePending();
+    pending.push(b);
+  }
+  calibratePending();
+  if (options.onCalibrated) await options.onCalibrated(results);
+  const scorePoints = points.map((p, i) => (i < first ? p : { ...p, scenario: results[i - first]!.compiled.scenario }));
+  const scoreTasks = points.flatMap((p, i) => (i < first ? [] : batchPlan(p.scenario, i, 'score', options.shard).map((t) => ({ ...t, engine }))));
   const totalShots = scoreTasks.reduce((a, t) => a + t.count, 0);
   let done = 0;
-  for await (const b of executor.run(points, scoreTasks)) {
-    const r = results[b.point]!;
+  for await (const b of executor.run(scorePoints, scoreTasks)) {
+    const r = results[b.point - first]!;
     const scored = scoreBatch(r.compiled, r.calibrations, b);
-    scored.forEach((s, p) => addToTally(r.tallies[p]!, { ...b, ...s }, SEED_BLOCK));
+    tallyBatch(r, b, scored);
+    if (b.clippedSamples !== undefined) r.clippedSamples = (r.clippedSamples ?? 0) + b.clippedSamples;
     if (options.onScoredBatch) await options.onScoredBatch(r, b, scored);
     done += b.count;
     options.onProgress?.(done, totalShots);
   }
-  for (const r of results) {
-    const sc = r.scenario;
-    r.summaries = r.compiled.pipelines.map((p, i) => summarise(
-      p.spec.name, sc.states.map((s) => s.name), sc.states.map((s) => s.outcome), sc.prepare,
-      r.tallies[i]!, r.budgets[i]!, r.calibrations[i]!.rule.threshold, r.calibrations[i]!.rule.highIsOne,
-    ));
-  }
+  for (const r of results) finishPoint(r);
   await executor.close?.();
-  return { points: results, engine: 'traces', engineReason: 'every sample of every record is synthesised and processed' };
+  return { points: results, engine, engineReason: choice.reason };
 }

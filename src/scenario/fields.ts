@@ -109,6 +109,24 @@ export function signalQuantity(kind: 'signal' | 'noiseDensity', range: Range = {
   });
 }
 
+/** A quantity that says which accepted dimension it had: SI value, dimension index, plain or not. */
+export interface KindedValue {
+  value: number;
+  /** Index into DIMENSIONS[kind].dims (0 for a plain number). */
+  index: number;
+  plain: boolean;
+}
+
+/** A quantity of one of several dimensions (e.g. a signal or an energy); keeps which one was written. */
+export function kindedQuantity(kind: DimensionName, range: Range = {}, description?: string) {
+  const expected = expectedQuantity(kind);
+  return quantityInput(expected, kind, description).transform((input, ctx): KindedValue => {
+    const q = readQuantity(input, kind, range, expected, ctx);
+    if (q === undefined) return z.NEVER;
+    return { value: q.value, index: q.index, plain: typeof input === 'number' || parseQuantity(input).plain };
+  });
+}
+
 /** An integer in [min, max]; `expected` replaces the default message. */
 export function integer(min: number, max: number = Number.MAX_SAFE_INTEGER, expected?: string) {
   expected ??= max === Number.MAX_SAFE_INTEGER ? `an integer ≥ ${min}` : `an integer from ${min} to ${max}`;

@@ -13,7 +13,11 @@ import { resolvePrepare } from './sections/prepare.ts';
 import { resolveFlips } from './sections/flips.ts';
 import { resolveTransitions } from './sections/transitions.ts';
 import { resolveSignal } from './sections/signal.ts';
-import { resolvePipelines, warnThresholds } from './sections/processing.ts';
+import { resolveSensor } from './sections/sensor.ts';
+import { checkLimits } from './limits.ts';
+import { plausibilityWarnings } from './plausibility.ts';
+import { checkPipelines, resolvePipelines, warnThresholds } from './sections/processing.ts';
+import { resolveSweep } from './sections/sweep.ts';
 
 /**
  * Validates a parsed scenario document and resolves it to SI units, indices and defaults.
@@ -28,13 +32,18 @@ export function resolveScenario(doc: unknown, file: string): { scenario: Scenari
 
   const run = resolveRun(d, ctx);
   const timing = resolveTiming(d.timing, ctx);
-  const { states, outcomes, uses: levelUses } = resolveStates(d.states, ctx);
+  const { states, outcomes, uses: levelUses } = resolveStates(d.states, ctx, d.sensor !== undefined);
   const prepare = resolvePrepare(d.prepare, ctx);
+  const sensor = resolveSensor(d.sensor, ctx, states, prepare, levelUses);
   const { preparationError, mappingError } = resolveFlips(d, ctx);
   const transitions = resolveTransitions(d.transitions, ctx, timing.sampleRate);
   const { pipelines, uses: thresholdUses } = resolvePipelines(d, ctx);
-  const signal = resolveSignal(d.signal, ctx, { states, uses: [...levelUses, ...thresholdUses], timing });
+  const signal = resolveSignal(d.signal, ctx, {
+    states, uses: [...levelUses, ...thresholdUses], timing, shots: Math.max(run.shots, run.calibrationShots), hasSensor: sensor !== null,
+  });
   warnThresholds(pipelines, states, signal.unit, ctx, d.pipelines !== undefined);
+  checkPipelines(pipelines, timing, run.calibrationShots, ctx, d.pipelines !== undefined);
+  const sweep = resolveSweep(d.sweep, ctx);
 
   const scenario: Scenario = {
     ...run,
@@ -47,6 +56,10 @@ export function resolveScenario(doc: unknown, file: string): { scenario: Scenari
     transitions,
     signal,
     pipelines,
+    ...(sensor ? { sensor } : {}),
+    ...(sweep ? { sweep } : {}),
   };
+  checkLimits(scenario, ctx);
+  plausibilityWarnings(scenario, ctx);
   return { scenario, warnings: ctx.warnings };
 }

@@ -11,7 +11,9 @@ import { prepareShape } from './sections/prepare.ts';
 import { flipsShape } from './sections/flips.ts';
 import { transitionsShape } from './sections/transitions.ts';
 import { signalShape } from './sections/signal.ts';
+import { sensorShape } from './sections/sensor.ts';
 import { processingShape } from './sections/processing.ts';
+import { sweepShape } from './sections/sweep.ts';
 
 /** All top-level keys, in the order a file usually lists them. */
 export const scenarioShape = {
@@ -21,8 +23,10 @@ export const scenarioShape = {
   ...prepareShape,
   ...flipsShape,
   ...transitionsShape,
+  ...sensorShape,
   ...signalShape,
   ...processingShape,
+  ...sweepShape,
 };
 
 /** The zod schema of a scenario document (before resolution: units read, defaults not filled). */

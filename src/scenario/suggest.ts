@@ -18,12 +18,17 @@ export function editDistance(a: string, b: string): number {
   return previous[b.length]!;
 }
 
+/** Words longer than this get no suggestion. */
+export const MAX_SUGGESTED_LENGTH = 64;
+
 /**
  * The candidate closest to `word` (case-insensitive, ties by case), if it is close enough to be a likely
  * misspelling: at most a third of the word's letters changed (at least one), or differing only
  * in case.
  */
 export function closest(word: string, candidates: readonly string[]): string | undefined {
+  // long words are never misspellings of short names; the edit distance would cost |a|·|b|
+  if (word.length > MAX_SUGGESTED_LENGTH) return undefined;
   const w = word.toLowerCase();
   let best: string | undefined;
   let bestDistance = Infinity;

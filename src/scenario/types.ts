@@ -75,6 +75,113 @@ export interface SignalSpec {
   white: WhiteNoiseSpec | null;
   /** The unit of levels and noise: 'A', 'V' or '' (arbitrary). */
   unit: string;
+  /** White noise built from the parts of the chain (adds to `white`); absent or null for none. */
+  components?: NoiseComponentsSpec | null;
+  /** 1/f noise sources (absent: none). */
+  flicker?: FlickerNoiseSpec[];
+  /** Two-level fluctuators (absent: none). */
+  telegraph?: TelegraphNoiseSpec[];
+  /** First-order analog response on the level path (absent or null: instantaneous). */
+  response?: ResponseSpec | null;
+  /** Clipping range and resolution after the gain (absent or null: ideal). */
+  digitizer?: DigitizerSpec | null;
+}
+
+/**
+ * Where a noise source enters: at the sensor (it moves the operating point, so the carrier
+ * modulates it like the signal) or at the amplifier (added after the modulation).
+ */
+export type NoiseInjection = 'sensor' | 'amplifier';
+
+/** A 1/f^α noise source, one-sided S(f) = amplitude/f^α on [low, high]. */
+export interface FlickerNoiseSpec {
+  name: string;
+  /** A: signal unit²/Hz at 1 Hz, or J²/Hz at 1 Hz when `inDetuning`. */
+  amplitude: number;
+  exponent: number;
+  /** Band edges, Hz. */
+  low: number;
+  high: number;
+  injection: NoiseInjection;
+  /** The amplitude is detuning (charge) noise, turned into current by the sensor's slope. */
+  inDetuning: boolean;
+}
+
+/** A two-level fluctuator adding 0 or `amplitude`. */
+export interface TelegraphNoiseSpec {
+  name: string;
+  /** Signal unit, or J of detuning when `inDetuning`. */
+  amplitude: number;
+  /** 0→1 and 1→0 rates, 1/s. */
+  rateUp: number;
+  rateDown: number;
+  injection: NoiseInjection;
+  inDetuning: boolean;
+}
+
+/** White-noise parts of a current readout (each adds 4kT/R, 2eIF, (e_n/R)², i_n² to S). */
+export interface NoiseComponentsSpec {
+  /** Sense resistor, Ω (Johnson noise, and the resistance that refers e_n to current). */
+  resistance: number | null;
+  /** Temperature of the resistor, K. */
+  temperature: number;
+  /** Current carrying shot noise, A, or 'sensor' (the sensor's current at the operating point). */
+  current: number | 'sensor' | null;
+  /** Fano factor of the shot noise. */
+  fano: number;
+  /** Amplifier input voltage noise e_n, V/√Hz. */
+  amplifierVoltage: number | null;
+  /** Amplifier input current noise i_n, A/√Hz. */
+  amplifierCurrent: number | null;
+}
+
+/** First-order response on the level path. */
+export interface ResponseSpec {
+  /** τ = 1/(2π·bandwidth), s. */
+  timeConstant: number;
+  /** 'settled': y(0) is the initial level; 'zero': y(0) = 0 (ring-up). */
+  from: 'settled' | 'zero';
+}
+
+/** Digitizer after the gain. */
+export interface DigitizerSpec {
+  /** Input range in signal units (after the gain). */
+  low: number;
+  high: number;
+  /** ADC bits, or null for clipping only. */
+  bits: number | null;
+}
+
+/** A bias-dependent, readout-induced relaxation law (phenomenological, no source). */
+export type ReadoutRelaxationLaw =
+  | { kind: 'power'; rate0: number; bias0: number; exponent: number }
+  | { kind: 'exponential'; rate0: number; scale: number };
+
+/** Readout-induced relaxation between two states, rising with the sensor bias. */
+export interface ReadoutRelaxationSpec {
+  from: number;
+  to: number;
+  law: ReadoutRelaxationLaw;
+  /** 'add': adds to the transition's rate; 'replace': replaces it. */
+  combine: 'add' | 'replace';
+}
+
+/** A single-level sensor dot (Beenakker 1991) that sets the state levels. */
+export interface SensorSpec {
+  /** Tunnel rates to the left and right leads, 1/s. */
+  tunnelLeft: number;
+  tunnelRight: number;
+  /** Electron temperature, K. */
+  temperature: number;
+  /** Source–drain bias, V. */
+  bias: number;
+  /** Operating detuning ε0, J, or 'steepest' (maximum |dI/dε| on the positive flank). */
+  operatingPoint: number | 'steepest';
+  /** Detuning shift of each state (J), in state order. */
+  shifts: number[];
+  readoutRelaxation: ReadoutRelaxationSpec[];
+  /** Set once the derived values (levels, rates, converted noise) are in the scenario. */
+  derived?: boolean;
 }
 
 export type ThresholdMethod = 'midpoint' | 'optimal' | 'fixed';
@@ -120,6 +227,31 @@ export interface PipelineSpec {
   calibratedWeights?: number[];
 }
 
+/** One swept scenario value: its key path, table column, SI unit and values. */
+export interface SweepAxis {
+  /** Key path as written in messages, e.g. `transitions[0].lifetime`. */
+  key: string;
+  path: (string | number)[];
+  /** Column name in the tables (letters, digits, '_'). */
+  column: string;
+  /** SI unit of the values ('' for plain numbers). */
+  unit: string;
+  /** Values in SI units, in sweep order. */
+  values: number[];
+  /** The values as written in the file (empty for a range). */
+  written: (number | string)[];
+  /** 'list' for written values, else the range's spacing. */
+  spacing: 'list' | 'linear' | 'log';
+  /** Whether the key holds an integer (seed, shots, …): never refined continuously. */
+  integer: boolean;
+}
+
+/** The sweep section: values to vary and how to combine them. */
+export interface SweepSpec {
+  combine: 'grid' | 'zip';
+  axes: SweepAxis[];
+}
+
 export interface Scenario {
   name: string;
   description: string;
@@ -144,6 +276,10 @@ export interface Scenario {
   transitions: TransitionSpec[];
   signal: SignalSpec;
   pipelines: PipelineSpec[];
+  /** Optional sensor front end (absent or null: levels as given). */
+  sensor?: SensorSpec | null;
+  /** The sweep section of the file (absent when nothing is swept; absent in each point's scenario). */
+  sweep?: SweepSpec;
   /** Set by the run command, never by a file: copy each scored shot's record for traces.arrow. */
   keepTraces?: 'raw' | 'baseband';
 }

@@ -101,6 +101,25 @@ export const DIMENSIONS = {
     label: 'a noise density',
     example: '2 fA/rtHz',
   },
+  // noise and sensor keys (sections/noise.ts, sections/sensor.ts)
+  current: { dims: [[0, 1, 0, 0, 0]], label: 'a current', example: '1 nA' },
+  voltage: { dims: [[-1, -1, 1, 0, 0]], label: 'a voltage', example: '50 uV' },
+  currentDensity: { dims: [[0.5, 1, 0, 0, 0]], label: 'a current noise density', example: '10 fA/rtHz' },
+  voltageDensity: { dims: [[-0.5, -1, 1, 0, 0]], label: 'a voltage noise density', example: '1 nV/rtHz' },
+  /** A level change: a signal level, or (with a sensor) a detuning energy. */
+  signalOrEnergy: {
+    dims: [[0, 1, 0, 0, 0], [-1, -1, 1, 0, 0], [0, 0, 1, 0, 0]],
+    label: 'a signal level or a detuning energy',
+    example: '20 pA',
+  },
+  /** A noise density of the signal, or (with a sensor) of the detuning. */
+  densityOrEnergyDensity: {
+    dims: [[0.5, 1, 0, 0, 0], [-0.5, -1, 1, 0, 0], [0.5, 0, 1, 0, 0]],
+    label: 'a noise density (signal or detuning)',
+    example: '5 pA/rtHz',
+  },
+  /** A detuning: an energy, or a gate voltage (times the lever arm). */
+  energyOrVoltage: { dims: [[0, 0, 1, 0, 0], [-1, -1, 1, 0, 0]], label: 'an energy or a gate voltage', example: '40 ueV' },
 } satisfies Record<string, DimensionKind>;
 
 /** Name of a dimension a key can ask for. */

@@ -38,13 +38,14 @@
  * chunked; and because the blocks are independent, the joint distribution of the requested
  * samples is the same as if every block had been drawn (skipping is exact in distribution).
  *
- * Memory: about 60·N bytes (≈ 250 MB at the 2^22 cap), dominated by the FFT buffers.
+ * Memory: about 60·N bytes (≈ 63 MB at the 2^20 cap), dominated by the FFT buffers. The engine
+ * uses the random-access, multi-rate timeline of flicker-timeline.ts, whose blocks are small.
  */
-import { makeFft, nextPowerOfTwo } from './fft.ts';
+import { makeFft, nextPowerOfTwo, type Fft } from './fft.ts';
 import type { NoiseStream } from './stream.ts';
 
 /** Largest block length (FFT size) the generator will use. */
-export const FLICKER_MAX_BLOCK = 2 ** 22;
+export const FLICKER_MAX_BLOCK = 2 ** 20;
 
 /** Smallest block length the generator will use. */
 export const FLICKER_MIN_BLOCK = 64;
@@ -109,8 +110,8 @@ export function flickerVariance(amplitude: number, exponent: number, a: number, 
 
 /**
  * Chooses the block length and effective band: N ≥ 4·fs/fLo, a power of two, at least
- * FLICKER_MIN_BLOCK and at most FLICKER_MAX_BLOCK. If 4·fs/fLo exceeds 2^22 (fLo below
- * 4·fs/2^22), fLo is raised to 4·fs/2^22 and a warning says so; fHi above fs/2 is clipped
+ * FLICKER_MIN_BLOCK and at most FLICKER_MAX_BLOCK. If 4·fs/fLo exceeds 2^20 (fLo below
+ * 4·fs/2^20), fLo is raised to 4·fs/2^20 and a warning says so; fHi above fs/2 is clipped
  * with a warning. Throws RangeError on invalid parameters or when the raised fLo reaches fHi.
  */
 export function planFlickerBlocks(spec: FlickerSpec): FlickerPlan {
@@ -133,8 +134,8 @@ export function planFlickerBlocks(spec: FlickerSpec): FlickerPlan {
   if (needed > FLICKER_MAX_BLOCK) {
     const raised = (4 * sampleRate) / FLICKER_MAX_BLOCK;
     warnings.push(
-      `flicker: fLo ${fLo} Hz needs blocks longer than 2^22 samples at fs = ${sampleRate} Hz; ` +
-        `raised to 4·fs/2^22 = ${raised} Hz`,
+      `flicker: fLo ${fLo} Hz needs blocks longer than 2^20 samples at fs = ${sampleRate} Hz; ` +
+        `raised to 4·fs/2^20 = ${raised} Hz`,
     );
     fLo = raised;
     blockLength = FLICKER_MAX_BLOCK;
@@ -158,8 +159,66 @@ export function planFlickerBlocks(spec: FlickerSpec): FlickerPlan {
 }
 
 /**
+ * Per-bin standard deviation of the real and of the imaginary part of the random spectrum of a
+ * block of length `size` at `sampleRate`, indexed by |k| ≤ N/2: bin k gets the exact integral of
+ * A/f^α over [f_k − Δf/2, f_k + Δf/2] ∩ [fLo, fHi] times `weight(f_k)` (a power gain, e.g.
+ * |H(f)|² of a filter the noise passes; default 1). A bin 0 < k < N/2 contributes
+ * P_k/2 + P_(N−k)/2 = P_k to the variance of the real part; bins 0 and N/2 have no partner, so
+ * they carry twice their band integral to contribute it once.
+ */
+export function flickerBinSigmas(
+  amplitude: number, exponent: number, fLo: number, fHi: number, sampleRate: number, size: number,
+  weight?: (f: number) => number,
+): Float64Array {
+  const hop = size / 2;
+  const binWidth = sampleRate / size;
+  const partSigma = new Float64Array(hop + 1);
+  for (let k = 0; k <= hop; k++) {
+    const lo = Math.max(fLo, (k - 0.5) * binWidth);
+    const hi = Math.min(fHi, (k + 0.5) * binWidth, sampleRate / 2);
+    let power = flickerVariance(amplitude, exponent, lo, hi);
+    if (power > 0 && weight) power *= weight(k * binWidth);
+    if (k === 0 || k === hop) power *= 2;
+    partSigma[k] = Math.sqrt(power / 2);
+  }
+  return partSigma;
+}
+
+/** The rising half of the cross-fade window: window[m] = sin(πm/N), m = 0 … N/2 (window[N/2] = 1). */
+export function flickerWindow(size: number): Float64Array {
+  const hop = size / 2;
+  const window = new Float64Array(hop + 1);
+  for (let m = 0; m <= hop; m++) window[m] = Math.sin((Math.PI * m) / size);
+  window[hop] = 1;
+  return window;
+}
+
+/**
+ * Draws one block pair: 2N normals from `stream` (bin by bin, real part then imaginary part)
+ * scaled by `partSigma`, one forward FFT into `pair` (interleaved; real parts = even block,
+ * imaginary parts = odd block). `spectrum` is scratch of length 2N.
+ */
+export function drawFlickerPair(
+  partSigma: Float64Array, fft: Fft, spectrum: Float64Array, pair: Float64Array, stream: NoiseStream,
+): Float64Array {
+  const size = fft.size;
+  const hop = size / 2;
+  for (let k = 0; k < size; k++) {
+    const sigma = partSigma[k <= hop ? k : size - k]!;
+    if (sigma > 0) {
+      spectrum[2 * k] = sigma * stream.nextNormal();
+      spectrum[2 * k + 1] = sigma * stream.nextNormal();
+    } else {
+      spectrum[2 * k] = 0;
+      spectrum[2 * k + 1] = 0;
+    }
+  }
+  return fft.complexForward(spectrum, pair);
+}
+
+/**
  * Makes a flicker-noise source on a continuous timeline starting at sample 0 (see the file
- * comment for the method). fLo below 4·fs/2^22 is raised and fHi above fs/2 clipped; the
+ * comment for the method). fLo below 4·fs/FLICKER_MAX_BLOCK is raised and fHi above fs/2 clipped; the
  * returned `warnings` list every change. Draws from `stream` lazily, block pair by block pair.
  */
 export function makeFlickerSource(spec: FlickerSpec, stream: NoiseStream): FlickerSource {
@@ -167,25 +226,10 @@ export function makeFlickerSource(spec: FlickerSpec, stream: NoiseStream): Flick
   const { blockLength: size, fLo, fHi } = plan;
   const { amplitude, exponent, sampleRate } = spec;
   const hop = size / 2;
-  const binWidth = sampleRate / size;
-
-  // Per-bin standard deviation of the real and of the imaginary part, indexed by |k| ≤ N/2.
-  // A bin 0 < k < N/2 contributes P_k/2 + P_(N−k)/2 = P_k to the variance of the real part; bins
-  // 0 and N/2 have no partner, so they carry twice their band integral to contribute it once.
-  const partSigma = new Float64Array(hop + 1);
-  for (let k = 0; k <= hop; k++) {
-    const lo = Math.max(fLo, (k - 0.5) * binWidth);
-    const hi = Math.min(fHi, (k + 0.5) * binWidth, sampleRate / 2);
-    let power = flickerVariance(amplitude, exponent, lo, hi);
-    if (k === 0 || k === hop) power *= 2;
-    partSigma[k] = Math.sqrt(power / 2);
-  }
+  const partSigma = flickerBinSigmas(amplitude, exponent, fLo, fHi, sampleRate, size);
   const variance = flickerVariance(amplitude, exponent, fLo, fHi);
-
   // window[m] = sin(πm/N) for m = 0 … N/2; the falling weight cos(πm/N) is window[N/2 − m].
-  const window = new Float64Array(hop + 1);
-  for (let m = 0; m <= hop; m++) window[m] = Math.sin((Math.PI * m) / size);
-  window[hop] = 1;
+  const window = flickerWindow(size);
 
   const fft = makeFft(size);
   const spectrum = new Float64Array(2 * size);
@@ -197,17 +241,7 @@ export function makeFlickerSource(spec: FlickerSpec, stream: NoiseStream): Flick
   let clock = hop;
 
   function drawPair(q: number): void {
-    for (let k = 0; k < size; k++) {
-      const sigma = partSigma[k <= hop ? k : size - k]!;
-      if (sigma > 0) {
-        spectrum[2 * k] = sigma * stream.nextNormal();
-        spectrum[2 * k + 1] = sigma * stream.nextNormal();
-      } else {
-        spectrum[2 * k] = 0;
-        spectrum[2 * k + 1] = 0;
-      }
-    }
-    fft.complexForward(spectrum, pair);
+    drawFlickerPair(partSigma, fft, spectrum, pair, stream);
     pairIndex = q;
   }
 

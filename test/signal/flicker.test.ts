@@ -56,11 +56,11 @@ describe('planFlickerBlocks', () => {
     expect(plan.warnings).toEqual([]);
   });
 
-  it('raises fLo below 4·fs/2^22 and says so', () => {
+  it('raises fLo below 4·fs/FLICKER_MAX_BLOCK and says so', () => {
     const fs = 100e6;
     const plan = planFlickerBlocks({ amplitude: 1, exponent: 1, fLo: 1, fHi: 1e6, sampleRate: fs });
     expect(plan.blockLength).toBe(FLICKER_MAX_BLOCK);
-    expect(plan.fLo).toBeCloseTo((4 * fs) / 2 ** 22, 9);
+    expect(plan.fLo).toBeCloseTo((4 * fs) / FLICKER_MAX_BLOCK, 9);
     expect(plan.warnings.join(' ')).toMatch(/raised/);
   });
 
@@ -77,7 +77,7 @@ describe('planFlickerBlocks', () => {
   it('rejects invalid parameters', () => {
     expect(() => planFlickerBlocks({ amplitude: 1, exponent: 1, fLo: 0, fHi: 10, sampleRate: 100 })).toThrow(RangeError);
     expect(() => planFlickerBlocks({ amplitude: 1, exponent: 1, fLo: 20, fHi: 10, sampleRate: 100 })).toThrow(RangeError);
-    // raised fLo (4·fs/2^22 ≈ 954 Hz) above fHi
+    // raised fLo (4·fs/2^20 ≈ 3815 Hz) above fHi
     expect(() => planFlickerBlocks({ amplitude: 1, exponent: 1, fLo: 1, fHi: 500, sampleRate: 1e9 })).toThrow(RangeError);
   });
 });

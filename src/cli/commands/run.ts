@@ -3,6 +3,22 @@ import { Command, InvalidArgumentError } from 'commander';
 import { runToDirectory } from '../../io/run-to-directory.ts';
 import { resultToJson } from '../../io/json.ts';
 import { formatResult } from '../format.ts';
+import { makeProgress } from '../progress.ts';
+import { formatOperatingPoints } from '../format-operating.ts';
+import { operatingPointJson, runOperatingPoints } from '../../io/operating-json.ts';
+import { withInterruptSignals } from '../signals.ts';
+import { describeEstimate } from '../../io/resource-guard.ts';
+import { defaultWorkers } from '../../plan/pool.ts';
+import type { EngineRequest } from '../../plan/engine.ts';
+
+/** Runs longer than this (estimated, seconds) get a note with the estimate on stderr. */
+const ESTIMATE_NOTE_SECONDS = 60;
+
+/** Parses the --keep-traces kind. */
+export function traceKind(v: string): 'raw' | 'baseband' {
+  if (v !== 'raw' && v !== 'baseband') throw new InvalidArgumentError(`--keep-traces takes "raw" or "baseband", found "${v}"`);
+  return v;
+}
 
 /** Parses a positive integer option. */
 export function positiveInteger(name: string) {
@@ -18,6 +34,12 @@ export function seedNumber(v: string): number {
   const n = Number(v);
   if (!Number.isSafeInteger(n) || n < 0) throw new InvalidArgumentError(`the seed must be a whole number ≥ 0, found "${v}"`);
   return n;
+}
+
+/** Parses the --engine choice. */
+export function engineOption(v: string): EngineRequest {
+  if (v !== 'exact' && v !== 'traces' && v !== 'auto') throw new InvalidArgumentError(`--engine takes exact, traces or auto, found "${v}"`);
+  return v;
 }
 
 /** Parses "K/N" (1 ≤ K ≤ N) into a 0-based shard. */
@@ -38,15 +60,32 @@ export function makeRunCommand(): Command {
     .option('--shard <K/N>', 'run only part K of N of the shots (merge the parts with `singleshot merge`)', shardOption)
     .option('--no-shots-table', 'do not write shots.arrow')
     .option('--json', 'print the result as one JSON object on stdout')
-    .option('--force', 'replace the files of a non-empty --out folder')
+    .option('--keep-traces <kind>', 'also write traces.arrow: every scored record, "raw" or demodulated "baseband" I/Q', traceKind)
+    .option('--force', 'replace the files of a non-empty --out folder, and run even if the estimate exceeds free memory or disk')
     .option('--quiet', 'no progress or warnings on stderr')
-    .action(async (file: string, opts: { out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; force?: boolean; quiet?: boolean }) => {
-      const { result, files } = await runToDirectory({
+    .option('--refine [key]', 'after a sweep, add golden-section points along one swept value (key path; default: the only or first range) to refine the error minimum')
+    .option('--refine-points <n>', 'points --refine adds (default 6)', positiveInteger('--refine-points'))
+    .option('--no-report', 'do not write report.html')
+    .option('--engine <kind>', 'exact (draw each integrated value from its exact distribution), traces (synthesise every sample), or auto: exact when valid', engineOption, 'auto')
+    .option('--workers <n>', `simulation threads (default: all ${defaultWorkers()} cores)`, positiveInteger('--workers'))
+    .action(async (file: string, opts: { engine: EngineRequest; workers?: number; out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; force?: boolean; quiet?: boolean; keepTraces?: 'raw' | 'baseband'; refine?: string | true; refinePoints?: number; report: boolean }) => {
+      const progress = makeProgress({ quiet: opts.quiet });
+      const { result, files, refinement, report, sweep } = await withInterruptSignals((signal) => runToDirectory({
+        refine: opts.refine === undefined ? undefined : { key: opts.refine, points: opts.refinePoints },
+        report: opts.report, onProgress: (done, total) => progress.update(done, total),
         scenarioPath: file, outDir: opts.out, force: opts.force, shots: opts.shots, seed: opts.seed,
-        shard: opts.shard, shotsTable: opts.shotsTable,
+        shard: opts.shard, shotsTable: opts.shotsTable, signal, keepTraces: opts.keepTraces,
+        engine: opts.engine, workers: opts.workers ?? defaultWorkers(),
         onWarning: (w) => { if (!opts.quiet) process.stderr.write(`warning: ${w}\n`); },
-      });
-      if (opts.json) process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files })) + '\n');
-      else process.stdout.write(formatResult(result) + `\ntables written to ${opts.out}: ${files.join(', ')}\n`);
+        onEstimate: (e) => {
+          if (!opts.quiet && e.seconds > ESTIMATE_NOTE_SECONDS) process.stderr.write(`note: this run needs ${describeEstimate(e)} (estimated)\n`);
+        },
+      })).finally(() => progress.stop());
+      if (opts.json) {
+        process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, report: report ?? null, operatingPoint: operatingPointJson(result, sweep, refinement) })) + '\n');
+      } else {
+        const op = formatOperatingPoints(runOperatingPoints(result, refinement), sweep, refinement);
+        process.stdout.write(formatResult(result) + (op ? `\n${op}` : '') + `\ntables written to ${opts.out}: ${files.join(', ')}\n` + (report ? `report: ${report}\n` : ''));
+      }
     });
 }

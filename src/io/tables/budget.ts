@@ -35,14 +35,14 @@ function totalOf(errors: number, shots: number, simulated: CauseComparison['simu
   return { cause: 'total', errors, analytic, alone: linear, simulated, wide: simulated, agrees };
 }
 
-export function budgetColumns(points: readonly PointResult[]): ColumnSpec[] {
+export function budgetColumns(points: readonly PointResult[], sweptUnits: Readonly<Record<string, string>> = {}): ColumnSpec[] {
   const rows = rowsOf(points);
   const swept = Object.keys(points[0]!.parameters);
   const col = (name: string, kind: ColumnSpec['kind'], unit: string | null, f: (r: BudgetRow) => ColumnSpec['values'][number]): ColumnSpec =>
     ({ name, kind, unit, values: rows.map(f) });
   return [
     col('point', 'u32', null, (r) => r.point.index),
-    ...swept.map((n) => col(n, 'f64', '', (r) => r.point.parameters[n] ?? null)),
+    ...swept.map((n) => col(n, 'f64', sweptUnits[n] ?? '', (r) => r.point.parameters[n] ?? null)),
     col('pipeline', 'str', null, (r) => r.pipeline),
     col('state', 'str', null, (r) => r.state),
     col('cause', 'str', null, (r) => r.c.cause),
@@ -57,6 +57,6 @@ export function budgetColumns(points: readonly PointResult[]): ColumnSpec[] {
   ];
 }
 
-export function budgetTable(points: readonly PointResult[], metadata: Map<string, string>): Table {
-  return buildTable(budgetColumns(points), metadata);
+export function budgetTable(points: readonly PointResult[], metadata: Map<string, string>, sweptUnits: Readonly<Record<string, string>> = {}): Table {
+  return buildTable(budgetColumns(points, sweptUnits), metadata);
 }

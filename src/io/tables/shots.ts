@@ -4,7 +4,7 @@
  * pipeline reported (I, Q, projected value, outcome, correct, cause).
  */
 import { Float64, RecordBatch, Schema, Struct, Uint32, Bool, makeData } from 'apache-arrow';
-import { CAUSES } from '../../analysis/causes.ts';
+import { CAUSE_DISCARDED, CAUSES } from '../../analysis/causes.ts';
 import type { ShotBatch } from '../../plan/batch.ts';
 import type { ScoredPipeline } from '../../plan/score.ts';
 import type { Scenario } from '../../scenario/types.ts';
@@ -63,9 +63,17 @@ export function shotRecordBatches(
       uint32Data(point), uint32Data(shot), dictionaryData(layout.pipelines, new Uint8Array(n).fill(p)),
       ...stateData, jump,
       float64Data(b.values[p]!.inPhase), float64Data(b.values[p]!.quadrature), float64Data(s.projected),
-      dictionaryData(layout.outcomes, s.outcome), boolData(correct), dictionaryData(layout.causes, s.cause),
+      dictionaryData(layout.outcomes, s.outcome), boolData(correct), dictionaryData(layout.causes, shownCause(s)),
     ];
     const data = makeData({ type: new Struct(layout.schema.fields), length: n, nullCount: 0, children });
     return new RecordBatch(layout.schema, data);
   });
+}
+
+/** The cause column: 'discarded' for shots inside the ambiguous band (outcome and correct stay the plain decision's). */
+function shownCause(s: ScoredPipeline): Uint8Array {
+  if (!s.discarded) return s.cause;
+  const out = Uint8Array.from(s.cause);
+  for (let i = 0; i < out.length; i++) if (s.discarded[i]) out[i] = CAUSE_DISCARDED;
+  return out;
 }

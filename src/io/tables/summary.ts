@@ -5,10 +5,14 @@
 import type { Table } from 'apache-arrow';
 import type { PointResult } from '../../plan/run.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
+import { pointNoiseOf } from '../../plan/predict-noise.ts';
 
 /** Plain rows, shared by the Arrow table and the JSON output. */
-export function summaryColumns(points: readonly PointResult[], unit: string): ColumnSpec[] {
-  const rows = points.flatMap((p) => p.summaries.map((s, i) => ({ p, s, cal: p.calibrations[i]! })));
+export function summaryColumns(points: readonly PointResult[], unit: string, sweptUnits: Readonly<Record<string, string>> = {}): ColumnSpec[] {
+  const rows = points.flatMap((p) => p.summaries.map((s, i) => ({ p, s, cal: p.calibrations[i]!, noise: pointNoiseOf(p)[i] ?? null })));
+  // noise budget columns: one σ and one share per source (noise/sensor helper)
+  const sources = [...new Set(rows.flatMap((r) => r.noise?.sources.map((x) => x.name) ?? []))];
+  const source = (r: (typeof rows)[number], name: string) => r.noise?.sources.find((x) => x.name === name);
   const first = points[0]!;
   const states = first.scenario.states.map((s) => s.name);
   const outcomes = first.scenario.outcomes;
@@ -17,7 +21,7 @@ export function summaryColumns(points: readonly PointResult[], unit: string): Co
     ({ name, kind, unit: u, values: rows.map(f) });
   return [
     col('point', 'u32', null, (r) => r.p.index),
-    ...sweptNames.map((n) => col(n, 'f64', '', (r) => r.p.parameters[n] ?? null)),
+    ...sweptNames.map((n) => col(n, 'f64', sweptUnits[n] ?? '', (r) => r.p.parameters[n] ?? null)),
     col('pipeline', 'str', null, (r) => r.s.pipeline),
     col('shots', 'u32', null, (r) => r.s.shots),
     col('mean_error', 'f64', '', (r) => r.s.meanError.rate),
@@ -36,13 +40,25 @@ export function summaryColumns(points: readonly PointResult[], unit: string): Co
     col('analytic_snr', 'f64', '', (r) => r.s.analyticSnr),
     col('sigma', 'f64', unit, (r) => r.s.sigma),
     col('analytic_sigma', 'f64', unit, (r) => r.s.analyticSigma),
+    col('predicted_sigma', 'f64', unit, (r) => r.noise?.sigma ?? null),
+    ...sources.flatMap((n) => [
+      col(`predicted_sigma_${n}`, 'f64', unit, (r) => source(r, n)?.sigma ?? null),
+      col(`noise_share_${n}`, 'f64', '', (r) => source(r, n)?.share ?? null),
+    ]),
+    col('clipped_samples', 'f64', '', (r) => r.p.clippedSamples ?? null),
     col('threshold', 'f64', unit, (r) => r.s.threshold),
     col('axis_angle', 'f64', 'rad', (r) => Math.atan2(r.cal.axis.sin, r.cal.axis.cos)),
     col('discard_fraction', 'f64', '', (r) => r.s.discardFraction),
+    col('post_selected_error', 'f64', '', (r) => r.s.postSelectedError.rate),
+    col('post_selected_error_low', 'f64', '', (r) => r.s.postSelectedError.low),
+    col('post_selected_error_high', 'f64', '', (r) => r.s.postSelectedError.high),
+    col('discards_as_failures_error', 'f64', '', (r) => r.s.discardsAsFailuresError.rate),
+    col('discards_as_failures_error_low', 'f64', '', (r) => r.s.discardsAsFailuresError.low),
+    col('discards_as_failures_error_high', 'f64', '', (r) => r.s.discardsAsFailuresError.high),
     col('agreement', 'bool', null, (r) => r.s.agreement),
   ];
 }
 
-export function summaryTable(points: readonly PointResult[], unit: string, metadata: Map<string, string>): Table {
-  return buildTable(summaryColumns(points, unit), metadata);
+export function summaryTable(points: readonly PointResult[], unit: string, metadata: Map<string, string>, sweptUnits: Readonly<Record<string, string>> = {}): Table {
+  return buildTable(summaryColumns(points, unit, sweptUnits), metadata);
 }

@@ -9,6 +9,8 @@ import type { ResolveContext } from '../context.ts';
 import type { SignalUse } from './states.ts';
 import { formatPath } from '../issues.ts';
 import { formatQuantity } from '../units.ts';
+import { noiseKeys, resolveNoiseExtras } from './noise.ts';
+import { chainKeys, resolveChain } from './response.ts';
 
 const positive = { min: 0, minExclusive: true } as const;
 
@@ -35,7 +37,8 @@ const signalSchema = section({
   unit: oneOf(['A', 'V', 'none']).optional().meta({ description: 'Signal unit (default: inferred from the levels)' }),
   carrier: carrierSchema.optional(),
   gain: number(positive).optional().meta({ description: 'Gain applied before digitisation (default 1)' }),
-  noise: section({ white: whiteSchema.optional() }).optional().meta({ description: 'Additive noise' }),
+  noise: section({ white: whiteSchema.optional(), ...noiseKeys }).optional().meta({ description: 'Additive noise' }),
+  ...chainKeys,
 })
   .optional()
   .meta({ description: 'Signal chain: unit, carrier, gain, noise' });
@@ -52,6 +55,10 @@ export interface SignalInputs {
   /** Where levels (and thresholds) were written, with their units. */
   uses: SignalUse[];
   timing: TimingSpec;
+  /** Scored shots per point (sizes the 1/f timeline). */
+  shots?: number;
+  /** Whether a sensor section exists (noise in detuning units). */
+  hasSensor?: boolean;
 }
 
 /** Resolves the carrier, noise and unit; makes levels real at baseband; warns on aliasing. */
@@ -78,6 +85,8 @@ export function resolveSignal(doc: SignalDoc, ctx: ResolveContext, inputs: Signa
       ctx.fail(whiteAt, 'either density or perSample', white.density === undefined ? 'neither' : 'both');
     }
   }
+  const extras = resolveNoiseExtras(s.noise, ctx, { timing: inputs.timing, shots: inputs.shots ?? 0, hasSensor: inputs.hasSensor ?? false }, uses);
+  const chain = resolveChain(s, ctx, inputs.timing.sampleRate, uses);
   const unit = agreeUnit(s.unit, uses, ctx);
 
   if (carrier.shape === 'none') {
@@ -99,7 +108,14 @@ export function resolveSignal(doc: SignalDoc, ctx: ResolveContext, inputs: Signa
       ctx.warn(key, `one carrier period (${formatQuantity(1 / f, 's')}) is longer than the window (${formatQuantity(windowLength, 's')})`);
     }
   }
-  return { carrier, gain: s.gain ?? 1, white: density === null ? null : { density }, unit };
+  return {
+    carrier, gain: s.gain ?? 1, white: density === null ? null : { density }, unit,
+    ...(extras.components ? { components: extras.components } : {}),
+    ...(extras.flicker.length ? { flicker: extras.flicker } : {}),
+    ...(extras.telegraph.length ? { telegraph: extras.telegraph } : {}),
+    ...(chain.response ? { response: chain.response } : {}),
+    ...(chain.digitizer ? { digitizer: chain.digitizer } : {}),
+  };
 }
 
 /** The one signal unit: the declared one, else the first written; every written unit must agree. */

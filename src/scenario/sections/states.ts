@@ -20,7 +20,7 @@ const levelSchema = z
 
 const stateSchema = section({
   name: name().meta({ description: 'Unique state name' }),
-  level: levelSchema,
+  level: levelSchema.optional(),
   outcome: label().meta({ description: 'What a perfect readout reports for this state' }),
 });
 
@@ -51,8 +51,11 @@ export interface ResolvedStates {
 /** Number of distinct outcome labels the engine supports for now. */
 export const OUTCOME_COUNT = 2;
 
-/** Checks names and outcomes, turns levels into complex amplitudes. */
-export function resolveStates(doc: StatesDoc, ctx: ResolveContext): ResolvedStates {
+/**
+ * Checks names and outcomes, turns levels into complex amplitudes. With `levelsFromSensor`
+ * (a sensor section exists) no state may give a level: the sensor sets them (sections/sensor.ts).
+ */
+export function resolveStates(doc: StatesDoc, ctx: ResolveContext, levelsFromSensor = false): ResolvedStates {
   const states: StateSpec[] = [];
   const outcomes: string[] = [];
   const uses: SignalUse[] = [];
@@ -68,7 +71,10 @@ export function resolveStates(doc: StatesDoc, ctx: ResolveContext): ResolvedStat
       }
       outcome = outcomes.push(outcomeLabel) - 1;
     }
-    states.push({ name: s.name, level: toComplex(s.level, ['states', i, 'level'], uses), outcome });
+    if (s.level === undefined && !levelsFromSensor) ctx.fail(['states', i, 'level'], 'a signal level (e.g. "120 pA"), or a sensor section that sets the levels', 'nothing');
+    if (s.level !== undefined && levelsFromSensor) ctx.fail(['states', i, 'level'], 'no level: the sensor section sets it from the detuning shift');
+    const level = s.level === undefined ? { re: 0, im: 0 } : toComplex(s.level, ['states', i, 'level'], uses);
+    states.push({ name: s.name, level, outcome });
   });
   if (outcomes.length < OUTCOME_COUNT) {
     const last = doc.length - 1;
@@ -81,7 +87,7 @@ export function resolveStates(doc: StatesDoc, ctx: ResolveContext): ResolvedStat
   return { states, outcomes, uses };
 }
 
-type Level = StatesDoc[number]['level'];
+type Level = NonNullable<StatesDoc[number]['level']>;
 
 function toComplex(level: Level, path: KeyPath, uses: SignalUse[]): Complex {
   if ('value' in level) {

@@ -1,0 +1,20 @@
+/** `singleshot merge DIR... --out DIR`: put the folders of a sharded run back together. */
+import { Command } from 'commander';
+import { mergeRuns } from '../../io/merge.ts';
+import { resultToJson } from '../../io/json.ts';
+import { formatResult } from '../format.ts';
+
+export function makeMergeCommand(): Command {
+  return new Command('merge')
+    .description('merge the folders of `run --shard K/N` into the tables the unsharded run would have written')
+    .argument('<dirs...>', 'shard folders (every K of the same N, in any order)')
+    .requiredOption('--out <dir>', 'folder for the merged tables (must be empty unless --force)')
+    .option('--force', 'replace the files of a non-empty --out folder')
+    .option('--json', 'print the merged result as one JSON object on stdout')
+    .option('--no-report', 'do not write report.html')
+    .action(async (dirs: string[], opts: { out: string; force?: boolean; json?: boolean; report: boolean }) => {
+      const { result, files, shards } = await mergeRuns({ dirs, outDir: opts.out, force: opts.force, report: opts.report });
+      if (opts.json) process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, mergedFrom: shards })) + '\n');
+      else process.stdout.write(formatResult(result) + `\nmerged ${shards.length} shard${shards.length === 1 ? '' : 's'} into ${opts.out}: ${files.join(', ')}\n`);
+    });
+}

@@ -1,0 +1,137 @@
+/**
+ * Plots of one point: the histogram of integrated values per prepared state with the
+ * threshold and the analytic mixture, and example records (raw and demodulated) re-simulated
+ * on the point's 'aux' stream. Values come from shots.arrow when the run kept it; otherwise
+ * the histogram is drawn from re-simulated shots, and the caption says so.
+ */
+import { extent, envelope, histogramCounts, movingAverage } from '../../analysis/plot-data.ts';
+import { mixtureDensity, valueMixture } from '../../analysis/value-density.ts';
+import { CAUSES } from '../../analysis/causes.ts';
+import { makeReference } from '../../dsp/demodulate.ts';
+import { project } from '../../classify/project.ts';
+import { exampleShots } from '../../plan/examples.ts';
+import { makeScratch, simulateBatch } from '../../plan/batch.ts';
+import type { CompiledPoint } from '../../plan/compile.ts';
+import { SEED_BLOCK } from '../../random/streams.ts';
+import { displayUnit, showValue, withUnit } from './display.ts';
+import { demodulatedSpec, histogramSpec, rawTracesSpec, type TracePlot } from './plots.ts';
+import type { PlotSpec } from './svg.ts';
+import { causeColour, stateColour } from './theme.ts';
+
+/** Bins of the value histogram. */
+export const HISTOGRAM_BINS = 90;
+/** Shots re-simulated for the histogram when the run wrote no shots table. */
+export const FALLBACK_BLOCKS = 16;
+
+/** The calibrated reading of one pipeline at the point, from the summary table. */
+export interface PointReading {
+  pipeline: number;
+  axisAngle: number;
+  threshold: number;
+  sigma: number;
+}
+
+/** The projected kernel of a pipeline along the calibrated axis. */
+export function projectedKernel(c: CompiledPoint, r: PointReading): Float64Array {
+  const k = c.pipelines[r.pipeline]!.kernels;
+  const cos = Math.cos(r.axisAngle), sin = Math.sin(r.axisAngle);
+  const out = new Float64Array(k.inPhase.length);
+  for (let j = k.lo; j < k.hi; j++) out[j] = k.inPhase[j]! * cos + (k.quadrature ? k.quadrature[j]! * sin : 0);
+  return out;
+}
+
+/** Integrated values per intended state from re-simulated 'aux' shots (when no shots table exists). */
+export function resimulatedValues(c: CompiledPoint, pointIndex: number, r: PointReading): Float64Array[] {
+  const parts: number[][] = c.scenario.states.map(() => []);
+  const oneBlock: CompiledPoint = { ...c, scenario: { ...c.scenario, batchSize: SEED_BLOCK } };
+  const scratch = makeScratch(oneBlock);
+  const axis = { cos: Math.cos(r.axisAngle), sin: Math.sin(r.axisAngle) };
+  // blocks far from those the examples use, so the two never share shots
+  for (let b = 0; b < FALLBACK_BLOCKS; b++) {
+    const batch = simulateBatch(oneBlock, pointIndex, 'aux', 1024 + b, SEED_BLOCK, scratch);
+    const v = batch.values[r.pipeline]!;
+    const projected = project(v.inPhase, v.quadrature, axis, new Float64Array(batch.count));
+    for (let i = 0; i < batch.count; i++) parts[batch.intended[i]!]!.push(projected[i]!);
+  }
+  return parts.map((p) => Float64Array.from(p));
+}
+
+/** The histogram plot of a point's values per intended state. */
+export function histogramView(c: CompiledPoint, r: PointReading, values: Float64Array[]): PlotSpec | null {
+  const sc = c.scenario;
+  const [lo0, hi0] = extent(values);
+  if (!Number.isFinite(lo0) || !(hi0 > lo0)) return null;
+  const pad = 0.03 * (hi0 - lo0);
+  const lo = lo0 - pad, hi = hi0 + pad;
+  const width = (hi - lo) / HISTOGRAM_BINS;
+  const unit = displayUnit(sc.signal.unit, Math.max(Math.abs(lo), Math.abs(hi)));
+  const kernel = projectedKernel(c, r);
+  const k = c.pipelines[r.pipeline]!.kernels;
+  const input = {
+    kernel, lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms, rate: c.chain.rate,
+    preparation: sc.preparationError, mapping: sc.mappingError,
+  };
+  const xs = Float64Array.from({ length: 4 * HISTOGRAM_BINS + 1 }, (_, i) => lo + (i * (hi - lo)) / (4 * HISTOGRAM_BINS));
+  let yMax = 1;
+  const states = sc.states.map((s, i) => {
+    const counts = histogramCounts(values[i]!, lo, hi, HISTOGRAM_BINS);
+    const n = values[i]!.length;
+    const density = n > 0 && r.sigma > 0 ? mixtureDensity(valueMixture(input, i), r.sigma, xs, new Float64Array(xs.length)) : new Float64Array(xs.length);
+    counts.forEach((x) => { yMax = Math.max(yMax, x); });
+    return {
+      name: s.name, colour: stateColour(i),
+      bars: Array.from(counts, (count, b) => ({ x0: (lo + b * width) * unit.factor, x1: (lo + (b + 1) * width) * unit.factor, count })),
+      curve: Array.from(xs, (x, j) => ({ x: x * unit.factor, expected: n * width * density[j]! })),
+    };
+  }).filter((_, i) => values[i]!.length > 0);
+  return histogramSpec({
+    xTitle: withUnit('integrated value along the separation axis', unit), states,
+    threshold: r.threshold * unit.factor, domain: [lo * unit.factor, hi * unit.factor], yMax: yMax * 3,
+  });
+}
+
+/** Example-record plots (raw and demodulated), or null when the point has no example shots. */
+export function traceViews(c: CompiledPoint, pointIndex: number, r: PointReading): { raw: PlotSpec; demodulated: PlotSpec; note: string } | null {
+  const shots = exampleShots(c, pointIndex);
+  if (shots.length === 0) return null;
+  const sc = c.scenario;
+  const fs = c.grid.sampleRate, n = c.grid.samples;
+  const time = displayUnit('s', n / fs);
+  const pipeline = c.pipelines[r.pipeline]!;
+  const carrier = sc.signal.carrier.frequency;
+  const cos = Math.cos(r.axisAngle), sin = Math.sin(r.axisAngle);
+  const reference = makeReference(n, fs, carrier, pipeline.referencePhase);
+  const width = carrier > 0 ? Math.max(1, Math.round(fs / carrier)) : Math.max(1, Math.round((c.grid.windowHi - c.grid.windowLo) / 25));
+  let size = 0;
+  for (const s of shots) for (let k = 0; k < n; k++) size = Math.max(size, Math.abs(s.record[k]!));
+  const signal = displayUnit(sc.signal.unit, Math.max(size, Math.abs(r.threshold)));
+  const demod = new Float64Array(n), smooth = new Float64Array(n);
+  const plot: TracePlot = {
+    timeTitle: withUnit('time from the record start', time),
+    rawTitle: signal.label || 'signal',
+    demodTitle: withUnit('demodulated, along the axis', signal),
+    window: [(c.grid.windowLo / fs) * time.factor, (c.grid.windowHi / fs) * time.factor],
+    threshold: r.threshold * signal.factor,
+    shots: shots.map((s) => {
+      for (let k = 0; k < n; k++) {
+        demod[k] = reference ? s.record[k]! * (reference.inPhase[k]! * cos + reference.quadrature[k]! * sin) : s.record[k]!;
+      }
+      movingAverage(demod, 0, n, width, smooth);
+      const raw = envelope(s.record, 0, n, 700);
+      const dm = envelope(smooth, 0, n, 500);
+      const name = sc.states[s.intended]!.name;
+      const cause = CAUSES[s.jumpCause] ?? 'jump';
+      const label = s.kind === 'clean'
+        ? `${name} prepared, no jump`
+        : `${name} prepared, ${cause} to ${sc.states[s.atWindowEnd]!.name} at ${showValue(s.firstJump, 's')}`;
+      return {
+        label, colour: s.kind === 'clean' ? stateColour(s.intended) : causeColour(cause),
+        raw: raw.index.map((k, j) => ({ t: (k / fs) * time.factor, v: raw.value[j]! * signal.factor })),
+        demod: dm.index.map((k, j) => ({ t: (k / fs) * time.factor, v: dm.value[j]! * signal.factor })),
+        value: (s.values[r.pipeline]!.inPhase * cos + s.values[r.pipeline]!.quadrature * sin) * signal.factor,
+      };
+    }),
+  };
+  const smoothing = carrier > 0 ? `a moving average over one carrier period (${showValue(width / fs, 's')})` : `a moving average over ${showValue(width / fs, 's')}`;
+  return { raw: rawTracesSpec(plot), demodulated: demodulatedSpec(plot), note: smoothing };
+}

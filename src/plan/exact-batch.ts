@@ -1,0 +1,284 @@
+/**
+ * The exact-statistic engine: when every pipeline is a linear functional of the record
+ * (value = Σ_k K[k]·record[k], CompiledPipeline.kernels) and the noise is white Gaussian, the
+ * integrated values of a shot are its noise-free signal part plus one draw of a joint Gaussian.
+ * No record is synthesised:
+ * - signal: from the shot's path, by prefix sums of K·waveform per state (O(1) per jump);
+ * - noise: the outputs of ALL pipelines (I and Q each) share one record, so their white parts
+ *   are jointly Gaussian with covariance σ²·Σ_k K_a[k]·K_b[k]; they are drawn together through
+ *   the Cholesky factor of that matrix, which keeps paired comparisons between pipelines valid.
+ * Histories come from the same code and the same block streams as the trace engine
+ * (history.ts), so both engines see identical histories; the distributions of the values agree
+ * exactly (tests: test/plan/exact-engine.test.ts).
+ *
+ * Noise correlated ACROSS shots (1/f on the continuous timeline) is not handled yet: engine.ts
+ * keeps such scenarios on the trace engine. The place for it is `addAcrossShotNoise` below: the
+ * outputs' slow parts form a stationary Gaussian sequence over shot index m with covariance
+ * C_ab(m) = ∫ S(f)·H_a(f)·H_b(f)*·e^(i2πf·m·shotPeriod) df (H the kernel's transfer function),
+ * to be drawn from the point's 'slow-noise' streams (never the per-shot stream), after which the
+ * within-shot white part is drawn as here.
+ */
+import { choleskyLower } from '../analysis/cholesky.ts';
+import { kernelPrefixSums, whiteCovariance, type SupportedKernel } from '../analysis/linear-statistic.ts';
+import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../random/streams.ts';
+import type { RandomStream } from '../random/stream.ts';
+import { makeScratch, makeShotBatch, scratchHistory, type BatchScratch, type ShotBatch } from './batch.ts';
+import type { CompiledPoint } from './compile.ts';
+import { sampleHistories } from './history.ts';
+
+/** Normals per addNormals call (its rejection scratch holds 256 entries). */
+const NORMAL_PIECE = 256;
+
+/** Per-point tables of the exact engine. */
+export interface ExactTables {
+  /** Number of nonzero outputs (I of every pipeline, Q of those with a carrier). */
+  outputs: number;
+  /** For output d: its pipeline and whether it is Q. */
+  pipeline: Int32Array;
+  isQuadrature: Uint8Array;
+  /** Support [lo, hi) of output d's kernel. */
+  lo: Int32Array;
+  hi: Int32Array;
+  /** prefix[d·S + s]: prefix sums of output d's kernel times state s's waveform. */
+  prefix: Float64Array[];
+  /** full[d·S + s]: the noise-free value of a shot that stays in s. */
+  full: Float64Array;
+  /** Lower Cholesky factor of the outputs' white-noise covariance, outputs×outputs row-major. */
+  factor: Float64Array;
+  /** Its nonzero columns (normals drawn per shot). */
+  columns: Int32Array;
+  sampleRate: number;
+  /** The analog response's tables, or null without one. */
+  response: ExactResponse | null;
+}
+
+/**
+ * The first-order analog response (signal/response.ts) in closed form: between jumps the
+ * responded level is L + D·e^(−(t − t_ref)/τ), so a segment of samples [u, v) adds
+ * e^(−(u/fs − t_ref)/τ)·(Re D·S_c − Im D·S_s) to an output, with
+ * S_c = Σ_{u≤k<v} K[k]·g·c_k·a^(k−u) = E_c[u] − a^(v−u)·E_c[v] (a = e^(−1/(fs·τ))) and E the
+ * decayed suffix sums E[u] = K[u]·g·c_u + a·E[u+1]. O(1) per segment again.
+ */
+export interface ExactResponse {
+  timeConstant: number;
+  fromZero: boolean;
+  levelRe: Float64Array;
+  levelIm: Float64Array;
+  /** levelPrefix[d·S + s]: prefix sums of output d's kernel times state s's unresponded waveform. */
+  levelPrefix: Float64Array[];
+  /** Decayed suffix sums of output d's kernel times gain·c_k and gain·s_k, over [lo, hi]. */
+  decayI: Float64Array[];
+  decayQ: Float64Array[];
+}
+
+/** E[j] = Σ_{k ≥ lo+j} kernel[k]·carrier[k]·a^(k−lo−j) over k < hi, for j = 0 … hi−lo (E at hi is 0). */
+function decayedSuffixSums(kernel: Float64Array, carrier: Float64Array, lo: number, hi: number, a: number): Float64Array {
+  const e = new Float64Array(hi - lo + 1);
+  for (let k = hi - 1; k >= lo; k--) e[k - lo] = kernel[k]! * carrier[k]! + a * e[k - lo + 1]!;
+  return e;
+}
+
+/** Builds the exact engine's tables for one compiled point. */
+export function exactTables(point: CompiledPoint): ExactTables {
+  const kernels: SupportedKernel[] = [];
+  const pipeline: number[] = [], isQ: number[] = [];
+  point.pipelines.forEach((p, i) => {
+    const k = p.kernels;
+    kernels.push({ kernel: k.inPhase, lo: k.lo, hi: k.hi }); pipeline.push(i); isQ.push(0);
+    if (k.quadrature) { kernels.push({ kernel: k.quadrature, lo: k.lo, hi: k.hi }); pipeline.push(i); isQ.push(1); }
+  });
+  const n = kernels.length;
+  const states = point.waveforms.length;
+  const prefix: Float64Array[] = [];
+  const full = new Float64Array(n * states);
+  kernels.forEach((k, d) => {
+    for (let s = 0; s < states; s++) {
+      const p = kernelPrefixSums(k.kernel, point.waveforms[s]!, k.lo, k.hi);
+      prefix.push(p);
+      full[d * states + s] = p[k.hi - k.lo]!;
+    }
+  });
+  const { factor } = choleskyLower(whiteCovariance(kernels, point.whiteSigma), n);
+  const columns: number[] = [];
+  for (let j = 0; j < n; j++) if (factor[j * n + j]! > 0) columns.push(j);
+  const r = point.noise.response;
+  let response: ExactResponse | null = null;
+  if (r) {
+    const fs = point.grid.sampleRate;
+    const a = Math.exp(-1 / (fs * r.timeConstant));
+    response = {
+      timeConstant: r.timeConstant, fromZero: r.fromZero, levelRe: r.levelRe, levelIm: r.levelIm,
+      levelPrefix: kernels.flatMap((k) => point.levelWaves.map((w) => kernelPrefixSums(k.kernel, w, k.lo, k.hi))),
+      decayI: kernels.map((k) => decayedSuffixSums(k.kernel, r.inPhase, k.lo, k.hi, a)),
+      decayQ: kernels.map((k) => decayedSuffixSums(k.kernel, r.quadrature, k.lo, k.hi, a)),
+    };
+  }
+  return {
+    response,
+    outputs: n, pipeline: Int32Array.from(pipeline), isQuadrature: Uint8Array.from(isQ),
+    lo: Int32Array.from(kernels, (k) => k.lo), hi: Int32Array.from(kernels, (k) => k.hi),
+    prefix, full, factor, columns: Int32Array.from(columns), sampleRate: point.grid.sampleRate,
+  };
+}
+
+/** Scratch of the exact engine: the trace engine's (histories) plus the tables and normals. */
+export interface ExactScratch extends BatchScratch {
+  exact: ExactTables;
+  /** The point `exact` was built for. */
+  exactPoint: CompiledPoint;
+  normals: Float64Array;
+}
+
+export function makeExactScratch(point: CompiledPoint): ExactScratch {
+  const exact = exactTables(point);
+  return { ...makeScratch(point), exact, exactPoint: point, normals: new Float64Array(Math.max(1, exact.columns.length) * SEED_BLOCK) };
+}
+
+/**
+ * Runs shots [batch·batchSize, batch·batchSize + count) through the exact engine. Same
+ * ShotBatch as `simulateBatch`; each block draws its histories first (identical to the trace
+ * engine's), then its normals: column j of the Cholesky factor for all the block's shots, j in
+ * increasing order.
+ */
+export function simulateExactBatch(
+  point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number,
+  scratch: ExactScratch = makeExactScratch(point),
+): ShotBatch {
+  const out = makeShotBatch(point, pointIndex, purpose, batch, count);
+  if (scratch.exactPoint !== point) {
+    scratch.exact = exactTables(point);
+    scratch.exactPoint = point;
+    scratch.normals = new Float64Array(Math.max(1, scratch.exact.columns.length) * SEED_BLOCK);
+  }
+  const history = scratchHistory(point, scratch);
+  const t = scratch.exact;
+  const { store, normals } = scratch;
+  const n = t.outputs, nCols = t.columns.length;
+  const states = point.waveforms.length;
+  const targets = Array.from({ length: n }, (_, d) => {
+    const v = out.values[t.pipeline[d]!]!;
+    return t.isQuadrature[d] ? v.quadrature : v.inPhase;
+  });
+  const blocks = new BlockStreams(point.scenario.seed, pointIndex, purpose, out.firstShot / SEED_BLOCK);
+  for (let from = 0; from < count; from += SEED_BLOCK) {
+    const stream = from === 0 ? blocks.current() : blocks.next();
+    const to = Math.min(count, from + SEED_BLOCK);
+    sampleHistories(history, stream, out, from, to, store);
+    for (let d = 0; d < n; d++) {
+      if (t.response) respondedSignalPart(t, d, states, out.initial, store, from, to, targets[d]!);
+      else signalPart(t.prefix, t.full, d * states, t.lo[d]!, t.hi[d]!, t.sampleRate, out.initial, store.offset, store.times, store.entered, from, to, targets[d]!);
+    }
+    if (nCols === 0) continue;
+    const len = to - from;
+    drawNormals(stream, normals, nCols * len);
+    for (let d = 0; d < n; d++) {
+      for (let c = 0; c < nCols; c++) {
+        const j = t.columns[c]!;
+        if (j > d) break;
+        const coefficient = t.factor[d * n + j]!;
+        if (coefficient !== 0) addScaled(targets[d]!, from, to, coefficient, normals, c * len);
+      }
+    }
+  }
+  addAcrossShotNoise(point, out);
+  return out;
+}
+
+/**
+ * Fills out[0 … count) with standard normals from the stream, in pieces of at most
+ * NORMAL_PIECE so the generator's rejection scratch is never reallocated.
+ */
+function drawNormals(stream: RandomStream, out: Float64Array, count: number): void {
+  out.fill(0, 0, count);
+  for (let i = 0; i < count; i += NORMAL_PIECE) stream.addNormals(out, i, Math.min(NORMAL_PIECE, count - i), 1);
+}
+
+/** y[i] += c·z[z0 + i − from] for i in [from, to). */
+function addScaled(y: Float64Array, from: number, to: number, c: number, z: Float64Array, z0: number): void {
+  const shift = z0 - from;
+  for (let i = from; i < to; i++) y[i] += c * z[shift + i]!;
+}
+
+/** Writes the noise-free value of one output for shots [from, to) of a block. */
+function signalPart(
+  prefix: readonly Float64Array[], full: Float64Array, base: number, lo: number, hi: number, fs: number,
+  initial: Uint8Array, offset: Int32Array, times: Float64Array, entered: Uint8Array,
+  from: number, to: number, y: Float64Array,
+): void {
+  for (let i = from; i < to; i++) {
+    const a = offset[i - from]!, b = offset[i - from + 1]!;
+    const start = initial[i]!;
+    y[i] = full[base + start]!;
+    if (a !== b) y[i] = pathValue(prefix, base, lo, hi, fs, start, times, entered, a, b);
+  }
+}
+
+/** Σ over the path's segments of the prefix-sum differences (a jump at t switches at sample ⌈t·fs⌉, as signal/trace.ts). */
+function pathValue(
+  prefix: readonly Float64Array[], base: number, lo: number, hi: number, fs: number, start: number,
+  times: Float64Array, entered: Uint8Array, a: number, b: number,
+): number {
+  let state = start, k = lo, v = 0;
+  for (let j = a; j < b; j++) {
+    const u = Math.min(hi, Math.max(lo, Math.ceil(times[j]! * fs)));
+    if (u > k) {
+      const p = prefix[base + state]!;
+      v += p[u - lo]! - p[k - lo]!;
+      k = u;
+    }
+    state = entered[j]!;
+  }
+  const p = prefix[base + state]!;
+  return v + (p[hi - lo]! - p[k - lo]!);
+}
+
+/** Like signalPart, with the analog response (see ExactResponse). */
+function respondedSignalPart(
+  t: ExactTables, d: number, states: number, initial: Uint8Array,
+  store: { offset: Int32Array; times: Float64Array; entered: Uint8Array }, from: number, to: number, y: Float64Array,
+): void {
+  const r = t.response!;
+  const lo = t.lo[d]!, hi = t.hi[d]!, fs = t.sampleRate, tau = r.timeConstant;
+  const base = d * states;
+  const eI = r.decayI[d]!, eQ = r.decayQ[d]!;
+  // deviation D = dRe + i·dIm at time tRef, over samples [k, u)
+  const deviation = (k: number, u: number, dRe: number, dIm: number, tRef: number): number => {
+    if ((dRe === 0 && dIm === 0) || u <= k) return 0;
+    const g = Math.exp(-(k / fs - tRef) / tau);
+    const decay = Math.exp(-(u - k) / (fs * tau));
+    return g * (dRe * (eI[k - lo]! - decay * eI[u - lo]!) - dIm * (eQ[k - lo]! - decay * eQ[u - lo]!));
+  };
+  for (let i = from; i < to; i++) {
+    const a = store.offset[i - from]!, b = store.offset[i - from + 1]!;
+    let state = initial[i]!;
+    if (a === b) {
+      y[i] = t.full[base + state]!;
+      continue;
+    }
+    let dRe = r.fromZero ? -r.levelRe[state]! : 0, dIm = r.fromZero ? -r.levelIm[state]! : 0, tRef = 0;
+    let k = lo, v = 0;
+    for (let j = a; j < b; j++) {
+      const tj = store.times[j]!;
+      const u = Math.min(hi, Math.max(lo, Math.ceil(tj * fs)));
+      if (u > k) {
+        const p = r.levelPrefix[base + state]!;
+        v += p[u - lo]! - p[k - lo]! + deviation(k, u, dRe, dIm, tRef);
+        k = u;
+      }
+      const f = Math.exp(-(tj - tRef) / tau);
+      const next = store.entered[j]!;
+      dRe = dRe * f + r.levelRe[state]! - r.levelRe[next]!;
+      dIm = dIm * f + r.levelIm[state]! - r.levelIm[next]!;
+      tRef = tj;
+      state = next;
+    }
+    const p = r.levelPrefix[base + state]!;
+    y[i] = v + (p[hi - lo]! - p[k - lo]!) + deviation(k, hi, dRe, dIm, tRef);
+  }
+}
+
+/**
+ * Hook for Gaussian noise correlated across shots (1/f): adds each shot's slow part to the
+ * outputs. Nothing to add while engine.ts keeps such scenarios on the trace engine.
+ */
+function addAcrossShotNoise(_point: CompiledPoint, _out: ShotBatch): void {}

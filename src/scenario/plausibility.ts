@@ -1,0 +1,106 @@
+/**
+ * Plausibility warnings on a resolved scenario: things that are legal but probably not what the
+ * user meant. Warnings never stop a run; `run` and `check` print each on stderr as one line
+ * "warning: FILE: key.path: text". Checks that belong to one section live in that section
+ * (carrier vs sample rate and window in signal.ts, lifetimes in transitions.ts, fixed thresholds
+ * in processing.ts); the ones here need several sections at once.
+ */
+import type { Scenario, StateSpec } from './types.ts';
+import type { ResolveContext } from './context.ts';
+
+/** Direction (rad) from the mean level of outcome 0 to that of outcome 1, prepare-weighted. */
+function separationPhase(s: Scenario): number {
+  const mean = (o: number) => {
+    let re = 0, im = 0, w = 0;
+    s.states.forEach((st, i) => {
+      if (st.outcome !== o) return;
+      const p = s.prepare[i]! > 0 ? s.prepare[i]! : 1e-300;
+      re += p * st.level.re; im += p * st.level.im; w += p;
+    });
+    return { re: re / w, im: im / w };
+  };
+  const a = mean(0), b = mean(1);
+  return Math.atan2(b.im - a.im, b.re - a.re);
+}
+
+/**
+ * The states' levels projected on a pipeline's decision axis: the real levels at baseband,
+ * else along the separation ('auto') or the given reference phase relative to the carrier.
+ */
+function projectedLevels(s: Scenario, referencePhase: number | 'auto'): number[] {
+  const real = s.states.every((st) => st.level.im === 0);
+  const phase = real ? 0 : referencePhase === 'auto' ? separationPhase(s) : referencePhase - s.signal.carrier.phase;
+  return s.states.map((st) => st.level.re * Math.cos(phase) + st.level.im * Math.sin(phase));
+}
+
+const quote = (st: StateSpec) => `"${st.name}"`;
+
+/**
+ * Why a threshold on the projected value cannot separate the outcomes, or null when it can:
+ * two states of one outcome on both sides of a state of the other, or states of different
+ * outcomes at the same level.
+ */
+export function separationProblem(s: Scenario, projected: readonly number[]): string | null {
+  const outcomeName = (o: number) => JSON.stringify(s.outcomes[o]);
+  for (let o = 0; o < 2; o++) {
+    const mine = s.states.map((_, i) => i).filter((i) => s.states[i]!.outcome === o);
+    const other = s.states.map((_, i) => i).filter((i) => s.states[i]!.outcome !== o);
+    for (const c of other) {
+      const x = projected[c]!;
+      const below = mine.find((i) => projected[i]! < x);
+      const above = mine.find((i) => projected[i]! > x);
+      if (below !== undefined && above !== undefined) {
+        return `states ${quote(s.states[below]!)} and ${quote(s.states[above]!)} (outcome ${outcomeName(o)}) lie on both sides of ${quote(s.states[c]!)} (outcome ${outcomeName(1 - o)})`;
+      }
+      const same = mine.find((i) => projected[i]! === x);
+      if (same !== undefined) {
+        return `states ${quote(s.states[same]!)} (outcome ${outcomeName(o)}) and ${quote(s.states[c]!)} (outcome ${outcomeName(1 - o)}) have the same level`;
+      }
+    }
+  }
+  return null;
+}
+
+/** Warns when no threshold on a pipeline's decision axis can separate the two outcomes. */
+export function warnInseparableStates(s: Scenario, ctx: ResolveContext): void {
+  const seen = new Set<string>();
+  for (const p of s.pipelines) {
+    const problem = separationProblem(s, projectedLevels(s, p.referencePhase));
+    if (problem === null || seen.has(problem)) continue;
+    seen.add(problem);
+    const which = s.pipelines.length > 1 ? ` of pipeline "${p.name}"` : '';
+    ctx.warn(['states'], `${problem} along the decision axis${which}: no threshold separates the outcomes`);
+  }
+}
+
+/** Warns when the calibration is expected to see fewer than this many shots of an outcome. */
+export const MIN_CALIBRATION_SHOTS_PER_OUTCOME = 10;
+
+/** Warns when the prepared mixture leaves an outcome with (almost) no calibration shots. */
+export function warnThinCalibration(s: Scenario, ctx: ResolveContext): void {
+  for (let o = 0; o < s.outcomes.length; o++) {
+    const weight = s.states.reduce((a, st, i) => a + (st.outcome === o ? s.prepare[i]! : 0), 0);
+    const expected = weight * s.calibrationShots;
+    if (expected < MIN_CALIBRATION_SHOTS_PER_OUTCOME) {
+      ctx.warn(['prepare'], `about ${Number(expected.toPrecision(2))} of ${s.calibrationShots} calibration shots are prepared with outcome ${JSON.stringify(s.outcomes[o])}: the threshold will be poorly set (or the run fails if there are none)`);
+    }
+  }
+}
+
+/** Warns when a preparation or mapping error flips at least half of the shots it applies to. */
+export function warnLikelyFlips(s: Scenario, ctx: ResolveContext): void {
+  for (const [key, flips] of [['preparationError', s.preparationError], ['mappingError', s.mappingError]] as const) {
+    flips.forEach((f, i) => {
+      if (f && f.probability >= 0.5) {
+        ctx.warn([key, s.states[i]!.name], `probability ${Number(f.probability.toPrecision(3))} (${f.origin}): at least half of these shots end up in ${quote(s.states[f.into]!)}`);
+      }
+    });
+  }
+}
+
+/** All cross-section plausibility warnings. */
+export function plausibilityWarnings(s: Scenario, ctx: ResolveContext): void {
+  warnInseparableStates(s, ctx);
+  warnThinCalibration(s, ctx);
+  warnLikelyFlips(s, ctx);
+}
