@@ -62,10 +62,18 @@ export function foldStack(stack: readonly TallyNode[], states: number, outcomes:
 
 /** Shots [from, to) of a tally input (per-shot typed arrays are viewed, not copied). */
 export function sliceTallyInput(b: TallyInput, from: number, to: number): TallyInput {
-  const out: Record<string, unknown> = {};
+  const cut = <T extends Uint8Array | Float64Array>(v: T): T => v.subarray(from, to) as T;
+  // a literal with TallyInput's fields first, so the tally loop reads a fast object
+  const out: TallyInput = {
+    count: to - from, intended: cut(b.intended), prepared: cut(b.prepared), initial: cut(b.initial),
+    jumpCause: cut(b.jumpCause), projected: cut(b.projected), outcome: cut(b.outcome), cause: cut(b.cause),
+    discarded: b.discarded ? cut(b.discarded) : b.discarded,
+  };
+  // any field added to TallyInput later: per-shot arrays are cut too
+  const extra = out as unknown as Record<string, unknown>;
   for (const [k, v] of Object.entries(b)) {
-    out[k] = ArrayBuffer.isView(v) && (v as Uint8Array).length === b.count ? (v as Uint8Array).subarray(from, to) : v;
+    if (k in extra) continue;
+    extra[k] = ArrayBuffer.isView(v) && (v as Uint8Array).length === b.count ? (v as Uint8Array).subarray(from, to) : v;
   }
-  out.count = to - from;
-  return out as unknown as TallyInput;
+  return out;
 }

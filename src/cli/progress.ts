@@ -8,6 +8,7 @@ import cliProgress from 'cli-progress';
 /** A stream the bar can draw on (process.stderr, or a test's stand-in). */
 export type ProgressStream = NodeJS.WritableStream & { isTTY?: boolean; columns?: number };
 
+/** Where and when the bar may draw. */
 export interface ProgressOptions {
   /** Where to draw (default process.stderr). */
   stream?: ProgressStream;

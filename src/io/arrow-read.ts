@@ -5,7 +5,8 @@
  * rerun) goes through `readArrowFile`.
  */
 import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
-import { tableFromIPC, Type, type Table } from 'apache-arrow';
+import { open } from 'node:fs/promises';
+import { RecordBatchReader, tableFromIPC, Type, type Schema, type Table } from 'apache-arrow';
 import { InputError } from '../errors.ts';
 import { META_PREFIX } from './metadata.ts';
 
@@ -95,6 +96,67 @@ export function tableFromArrowBytes(bytes: Uint8Array, path: string): Table {
   return table;
 }
 
+/** Checks the schema of a table against the expected table name and columns (InputError otherwise). */
+function checkSchema(path: string, schema: Schema, expectedTable: string, requiredColumns: readonly ColumnRequirement[]): void {
+  if (expectedTable !== '') {
+    const found = schema.metadata.get(`${META_PREFIX}table`);
+    if (found !== expectedTable) {
+      throw new InputError(path, '', `a singleshot ${expectedTable} table`,
+        found === undefined ? 'an Arrow file without singleshot metadata' : `a ${JSON.stringify(found).slice(0, 40)} table`);
+    }
+  }
+  for (const req of requiredColumns) {
+    const { name, kind } = typeof req === 'string' ? { name: req, kind: 'any' as const } : req;
+    const field = schema.fields.find((f) => f.name === name);
+    if (!field) throw new InputError(path, name, `a column "${name}"`, 'no such column');
+    if (kind !== 'any') {
+      const actual = kindOf(field.type.typeId);
+      if (actual !== kind) throw new InputError(path, name, `a column of ${kind} values`, `${String(field.type)} values`);
+    }
+  }
+}
+
+/**
+ * Checks a (possibly huge) table file without reading it whole, for commands that stream it:
+ * both magic markers, a readable schema with the expected table name and columns. Damage in the
+ * middle of the body shows only when the batches are read.
+ */
+export async function checkArrowFile(path: string, expectedTable: string, requiredColumns: readonly ColumnRequirement[] = []): Promise<void> {
+  let handle;
+  try {
+    handle = await open(path, 'r');
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === 'ENOENT') throw new InputError(path, '', 'an Arrow table file', 'no such file');
+    if (code === 'EACCES' || code === 'EPERM') throw new InputError(path, '', 'a readable Arrow table file', 'no permission to read it');
+    throw e;
+  }
+  try {
+    const { size } = await handle.stat();
+    if (size === 0) throw new InputError(path, '', 'an Arrow table file', 'an empty file (0 bytes)');
+    const head = new Uint8Array(MAGIC.length);
+    const tail = new Uint8Array(MAGIC.length);
+    await handle.read(head, 0, head.length, 0);
+    await handle.read(tail, 0, tail.length, Math.max(0, size - MAGIC.length));
+    if (!bytesEqual(head, 0, MAGIC)) throw new InputError(path, '', 'an Arrow table file (starting with "ARROW1")', 'a file in another format');
+    if (size < MIN_FILE_BYTES || !bytesEqual(tail, 0, MAGIC)) {
+      throw new InputError(path, '', 'a complete Arrow table file', `a truncated file (${size} bytes, no closing footer)`);
+    }
+    let schema: Schema;
+    try {
+      const reader = await RecordBatchReader.from(handle);
+      await reader.open();
+      schema = reader.schema;
+    } catch (e) {
+      const reason = e instanceof Error ? e.message.split('\n')[0]! : String(e);
+      throw new InputError(path, '', 'a readable Arrow table file', `a damaged file (${reason.slice(0, 120)})`);
+    }
+    checkSchema(path, schema, expectedTable, requiredColumns);
+  } finally {
+    await handle.close();
+  }
+}
+
 /**
  * Reads one of singleshot's tables: `expectedTable` is its `singleshot.table` metadata
  * ("shots", "summary", "budget", …; '' accepts any Arrow file) and `requiredColumns` the
@@ -106,22 +168,7 @@ export function readArrowFile(
   maxBytes = MAX_TABLE_BYTES,
 ): Table {
   const table = tableFromArrowBytes(readBytes(path, maxBytes), path);
-  if (expectedTable !== '') {
-    const found = table.schema.metadata.get(`${META_PREFIX}table`);
-    if (found !== expectedTable) {
-      throw new InputError(path, '', `a singleshot ${expectedTable} table`,
-        found === undefined ? 'an Arrow file without singleshot metadata' : `a ${JSON.stringify(found).slice(0, 40)} table`);
-    }
-  }
-  for (const req of requiredColumns) {
-    const { name, kind } = typeof req === 'string' ? { name: req, kind: 'any' as const } : req;
-    const field = table.schema.fields.find((f) => f.name === name);
-    if (!field) throw new InputError(path, name, `a column "${name}"`, 'no such column');
-    if (kind !== 'any') {
-      const actual = kindOf(field.type.typeId);
-      if (actual !== kind) throw new InputError(path, name, `a column of ${kind} values`, `${String(field.type)} values`);
-    }
-  }
+  checkSchema(path, table.schema, expectedTable, requiredColumns);
   return table;
 }
 

@@ -22,6 +22,7 @@ import { batchCount } from '../plan/batches.ts';
 import { finishPoint, setUpPoint, type PointResult, type RunResult } from '../plan/run.ts';
 import { resolveScenario } from '../scenario/resolve.ts';
 import { ArrowFileStream } from './arrow-sink.ts';
+import { checkArrowFile } from './arrow-read.ts';
 import { readManifest, writeManifest, MANIFEST, type Manifest } from './manifest.ts';
 import { META_PREFIX, TOOL_VERSION, type RunProvenance } from './metadata.ts';
 import { prepareOutputDir } from './output-dir.ts';
@@ -175,6 +176,8 @@ function withDictionaries(batch: RecordBatch, schema: Schema, dictionaries: Map<
 
 /** Concatenates one streamed table of the shards, point by point, shard by shard. */
 async function concatenateTable(name: string, shards: readonly Shard[], pointOrder: readonly number[], outDir: string): Promise<void> {
+  // hostile files (empty, truncated, foreign, wrong table) are InputErrors before anything is read
+  for (const s of shards) await checkArrowFile(join(s.dir, name), name.replace(/\.arrow$/, ''), ['point']);
   const readers = await Promise.all(shards.map(async (s) => {
     const handle = await open(join(s.dir, name), 'r');
     const reader = await RecordBatchReader.from(handle);
@@ -191,7 +194,9 @@ async function concatenateTable(name: string, shards: readonly Shard[], pointOrd
     if (!r.peeked && !r.done) {
       const next = await r.it.next();
       if (next.done) r.done = true;
-      else r.peeked = next.value as RecordBatch;
+      // a file without record batches reads as one empty placeholder batch: nothing to copy
+      else if ((next.value as RecordBatch).numRows > 0) r.peeked = next.value as RecordBatch;
+      else return peek(r);
     }
     return r.peeked;
   };
@@ -199,7 +204,7 @@ async function concatenateTable(name: string, shards: readonly Shard[], pointOrd
   try {
     for (const p of pointOrder) {
       for (const r of readers) {
-        for (let b = await peek(r); b && (b.numRows === 0 || pointOf(b) === p); b = await peek(r)) {
+        for (let b = await peek(r); b && pointOf(b) === p; b = await peek(r)) {
           out.write(withDictionaries(b, schema, dictionaries));
           r.peeked = null;
         }

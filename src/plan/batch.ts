@@ -108,8 +108,12 @@ export function forEachBlock(
   batch: ShotBatch, seed: number, body: (stream: RandomStream, from: number, to: number) => void,
 ): void {
   const blocks = new BlockStreams(seed, batch.point, batch.purpose, batch.firstShot / SEED_BLOCK);
+  // one stream object for the whole batch, moved to each block's start: the generator's
+  // rejection scratch (grown to a record's length) is then allocated once per batch, not per block
+  const stream = blocks.current();
   for (let from = 0; from < batch.count; from += SEED_BLOCK) {
-    body(from === 0 ? blocks.current() : blocks.next(), from, Math.min(batch.count, from + SEED_BLOCK));
+    if (from > 0) stream.s.set(blocks.next().s);
+    body(stream, from, Math.min(batch.count, from + SEED_BLOCK));
   }
 }
 

@@ -152,7 +152,8 @@ export function simulateExactBatch(
   }
   const history = scratchHistory(point, scratch);
   const t = scratch.exact;
-  const { store, normals } = scratch;
+  const { store } = scratch;
+  const normals = scratch.normals;
   const n = t.outputs, nCols = t.columns.length;
   const states = point.waveforms.length;
   const targets = Array.from({ length: n }, (_, d) => {
@@ -160,23 +161,35 @@ export function simulateExactBatch(
     return t.isQuadrature[d] ? v.quadrature : v.inPhase;
   });
   const blocks = new BlockStreams(point.scenario.seed, pointIndex, purpose, out.firstShot / SEED_BLOCK);
+  const offset = store.offset;
   for (let from = 0; from < count; from += SEED_BLOCK) {
     const stream = from === 0 ? blocks.current() : blocks.next();
     const to = Math.min(count, from + SEED_BLOCK);
-    sampleHistories(history, stream, out, from, to, store);
-    for (let d = 0; d < n; d++) {
-      if (t.response) respondedSignalPart(t, d, states, out.initial, store, from, to, targets[d]!);
-      else signalPart(t.prefix, t.full, d * states, t.lo[d]!, t.hi[d]!, t.sampleRate, out.initial, store.offset, store.times, store.entered, from, to, targets[d]!);
-    }
-    if (nCols === 0) continue;
     const len = to - from;
-    drawNormals(stream, normals, nCols * len);
+    sampleHistories(history, stream, out, from, to, store);
+    // (the jump arrays may have grown while sampling)
+    const times = store.times, entered = store.entered;
+    if (nCols > 0) drawNormals(stream, normals, nCols * len);
     for (let d = 0; d < n; d++) {
-      for (let c = 0; c < nCols; c++) {
+      const y = targets[d]!;
+      // the no-jump signal and the noise in one pass: y = full[state] + Σ_j L[d][j]·z_j
+      const c0 = nCols > 0 && t.columns[0]! <= d ? t.factor[d * n + t.columns[0]!]! : 0;
+      const c1 = nCols > 1 && t.columns[1]! <= d ? t.factor[d * n + t.columns[1]!]! : 0;
+      noJumpPart(y, from, to, t.full, d * states, out.initial, c0, normals, 0, c1, normals, len);
+      for (let c = 2; c < nCols; c++) {
         const j = t.columns[c]!;
         if (j > d) break;
-        const coefficient = t.factor[d * n + j]!;
-        if (coefficient !== 0) addScaled(targets[d]!, from, to, coefficient, normals, c * len);
+        addScaled(y, from, to, t.factor[d * n + j]!, normals, c * len);
+      }
+      // shots with jumps inside the record: replace the no-jump signal by the path's
+      for (let i = from; i < to; i++) {
+        const a = offset[i - from]!, b = offset[i - from + 1]!;
+        if (a === b) continue;
+        const start = out.initial[i]!;
+        const value = t.response
+          ? respondedPathValue(t, d, states, start, times, entered, a, b)
+          : pathValue(t.prefix, d * states, t.lo[d]!, t.hi[d]!, t.sampleRate, start, times, entered, a, b);
+        y[i] += value - t.full[d * states + start]!;
       }
     }
   }
@@ -199,17 +212,19 @@ function addScaled(y: Float64Array, from: number, to: number, c: number, z: Floa
   for (let i = from; i < to; i++) y[i] += c * z[shift + i]!;
 }
 
-/** Writes the noise-free value of one output for shots [from, to) of a block. */
-function signalPart(
-  prefix: readonly Float64Array[], full: Float64Array, base: number, lo: number, hi: number, fs: number,
-  initial: Uint8Array, offset: Int32Array, times: Float64Array, entered: Uint8Array,
-  from: number, to: number, y: Float64Array,
+/**
+ * y[i] = full[base + initial[i]] + c0·z0[i − from] + c1·z1[len + i − from] for the shots [from, to)
+ * of a block (the first two Cholesky columns; c = 0 where a column does not reach this output).
+ */
+function noJumpPart(
+  y: Float64Array, from: number, to: number, full: Float64Array, base: number, initial: Uint8Array,
+  c0: number, z0: Float64Array, z0Start: number, c1: number, z1: Float64Array, len: number,
 ): void {
-  for (let i = from; i < to; i++) {
-    const a = offset[i - from]!, b = offset[i - from + 1]!;
-    const start = initial[i]!;
-    y[i] = full[base + start]!;
-    if (a !== b) y[i] = pathValue(prefix, base, lo, hi, fs, start, times, entered, a, b);
+  const s0 = z0Start - from, s1 = len - from;
+  if (c1 === 0) {
+    for (let i = from; i < to; i++) y[i] = full[base + initial[i]!]! + c0 * z0[s0 + i]!;
+  } else {
+    for (let i = from; i < to; i++) y[i] = full[base + initial[i]!]! + c0 * z0[s0 + i]! + c1 * z1[s1 + i]!;
   }
 }
 
@@ -232,49 +247,41 @@ function pathValue(
   return v + (p[hi - lo]! - p[k - lo]!);
 }
 
-/** Like signalPart, with the analog response (see ExactResponse). */
-function respondedSignalPart(
-  t: ExactTables, d: number, states: number, initial: Uint8Array,
-  store: { offset: Int32Array; times: Float64Array; entered: Uint8Array }, from: number, to: number, y: Float64Array,
-): void {
+/** The noise-free value of output d for a path with jumps, with the analog response (see ExactResponse). */
+function respondedPathValue(
+  t: ExactTables, d: number, states: number, start: number, times: Float64Array, entered: Uint8Array, a: number, b: number,
+): number {
   const r = t.response!;
   const lo = t.lo[d]!, hi = t.hi[d]!, fs = t.sampleRate, tau = r.timeConstant;
   const base = d * states;
   const eI = r.decayI[d]!, eQ = r.decayQ[d]!;
-  // deviation D = dRe + i·dIm at time tRef, over samples [k, u)
+  // the deviation D = dRe + i·dIm (at time tRef) summed over samples [k, u)
   const deviation = (k: number, u: number, dRe: number, dIm: number, tRef: number): number => {
     if ((dRe === 0 && dIm === 0) || u <= k) return 0;
     const g = Math.exp(-(k / fs - tRef) / tau);
     const decay = Math.exp(-(u - k) / (fs * tau));
     return g * (dRe * (eI[k - lo]! - decay * eI[u - lo]!) - dIm * (eQ[k - lo]! - decay * eQ[u - lo]!));
   };
-  for (let i = from; i < to; i++) {
-    const a = store.offset[i - from]!, b = store.offset[i - from + 1]!;
-    let state = initial[i]!;
-    if (a === b) {
-      y[i] = t.full[base + state]!;
-      continue;
+  let state = start;
+  let dRe = r.fromZero ? -r.levelRe[state]! : 0, dIm = r.fromZero ? -r.levelIm[state]! : 0, tRef = 0;
+  let k = lo, v = 0;
+  for (let j = a; j < b; j++) {
+    const tj = times[j]!;
+    const u = Math.min(hi, Math.max(lo, Math.ceil(tj * fs)));
+    if (u > k) {
+      const p = r.levelPrefix[base + state]!;
+      v += p[u - lo]! - p[k - lo]! + deviation(k, u, dRe, dIm, tRef);
+      k = u;
     }
-    let dRe = r.fromZero ? -r.levelRe[state]! : 0, dIm = r.fromZero ? -r.levelIm[state]! : 0, tRef = 0;
-    let k = lo, v = 0;
-    for (let j = a; j < b; j++) {
-      const tj = store.times[j]!;
-      const u = Math.min(hi, Math.max(lo, Math.ceil(tj * fs)));
-      if (u > k) {
-        const p = r.levelPrefix[base + state]!;
-        v += p[u - lo]! - p[k - lo]! + deviation(k, u, dRe, dIm, tRef);
-        k = u;
-      }
-      const f = Math.exp(-(tj - tRef) / tau);
-      const next = store.entered[j]!;
-      dRe = dRe * f + r.levelRe[state]! - r.levelRe[next]!;
-      dIm = dIm * f + r.levelIm[state]! - r.levelIm[next]!;
-      tRef = tj;
-      state = next;
-    }
-    const p = r.levelPrefix[base + state]!;
-    y[i] = v + (p[hi - lo]! - p[k - lo]!) + deviation(k, hi, dRe, dIm, tRef);
+    const f = Math.exp(-(tj - tRef) / tau);
+    const next = entered[j]!;
+    dRe = dRe * f + r.levelRe[state]! - r.levelRe[next]!;
+    dIm = dIm * f + r.levelIm[state]! - r.levelIm[next]!;
+    tRef = tj;
+    state = next;
   }
+  const p = r.levelPrefix[base + state]!;
+  return v + (p[hi - lo]! - p[k - lo]!) + deviation(k, hi, dRe, dIm, tRef);
 }
 
 /**

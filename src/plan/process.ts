@@ -43,8 +43,14 @@ export function processRecord(
   const first = chain.windowLo + factor - 1;
   const parts: Float64Array[] = withQ ? [scratch.inPhase, scratch.quadrature] : [scratch.inPhase];
   const outs: Float64Array[] = withQ ? [outI, outQ!] : [outI];
+  const coefficients = chain.filter?.coefficients;
   for (let c = 0; c < parts.length; c++) {
     const y = parts[c]!;
+    if (coefficients?.kind === 'taps') {
+      // an FIR (or the block average) decimated: only the bins' outputs, Σ_k taps[k]·y[t_b − k]
+      convolveAtBins(coefficients.taps, y, processLo, first, factor, bins, outs[c]!, offset);
+      continue;
+    }
     if (chain.filter) {
       scratch.state.fill(0);
       const span = y.subarray(processLo, processHi);
@@ -53,6 +59,28 @@ export function processRecord(
     decimate(y.subarray(first, processHi), factor, outs[c]!.subarray(offset, offset + bins));
   }
   if (outQ !== null && !withQ) outQ.fill(0, offset, offset + bins);
+}
+
+/**
+ * out[offset + b] = Σ_k taps[k]·y[t_b − k] for t_b = first + b·factor, with y taken as zero
+ * before `lo` (the filter at rest there): the FIR's outputs at the bin samples only.
+ */
+function convolveAtBins(
+  taps: Float64Array, y: Float64Array, lo: number, first: number, factor: number, bins: number, out: Float64Array, offset: number,
+): void {
+  const n = taps.length;
+  for (let b = 0; b < bins; b++) {
+    const t = first + b * factor;
+    const kMax = Math.min(n - 1, t - lo);
+    let s0 = 0, s1 = 0;
+    let k = 0;
+    for (; k + 1 <= kMax; k += 2) {
+      s0 += taps[k]! * y[t - k]!;
+      s1 += taps[k + 1]! * y[t - k - 1]!;
+    }
+    if (k <= kMax) s0 += taps[k]! * y[t - k]!;
+    out[offset + b] = s0 + s1;
+  }
 }
 
 /** Σ_b weights[b]·bins[offset + b]: the integrated value of one record's bins. */

@@ -9,7 +9,22 @@
  * (period 2^128 − 1). The base state comes from the run seed (hashed by seedrandom); stream g
  * starts g·2^64 steps later (jump.ts), and a block draws far fewer than 2^64 numbers, so stream
  * g stays inside [g·2^64, (g+1)·2^64) and never reaches another stream's stretch. The stream
- * index g is a fixed function of (sweep point, purpose, block index).
+ * index g is a fixed function of (sweep point, purpose, block index) with disjoint bit fields,
+ * so distinct triples give distinct g.
+ *
+ * The numbers behind "far fewer": a block is SEED_BLOCK = 1024 shots; a shot draws about one
+ * 32-bit word per record sample for white noise (the ziggurat rejects a few per cent of draws, each
+ * costing a few more) plus a handful for the preparation, mapping and each jump. With the
+ * record capped at 2^27 samples (scenario/limits.ts) and at most 10^6 expected jumps, a block
+ * draws below 2^10 · 2^28 ≈ 2^38 words — a factor 2^26 short of 2^64. Index g < 2^40, so all
+ * stretches lie within the first 2^104 steps after the base state, well inside one period.
+ *
+ * Across different seeds the base states are unrelated points of the same period, so two
+ * runs' streams are independent in the probabilistic sense only: for two stretches of 2^38
+ * words to meet, base states 2^128 apart at random would have to fall within 2^39 of each
+ * other — odds of about 2^-89 per pair of blocks. Tests: test/random/stream-independence
+ * (correlations) and jump-consistency (the jump against plain stepping and the reference
+ * jump polynomial); bench/dieharder.sh runs the raw output through dieharder.
  */
 import seedrandom from 'seedrandom';
 import { jumpStreams, STREAM_INDEX_BITS } from './jump.ts';

@@ -7,6 +7,8 @@
  */
 import type { Scenario, StateSpec } from './types.ts';
 import type { ResolveContext } from './context.ts';
+import { formatQuantity } from './units.ts';
+import { valueAt } from './issues.ts';
 
 /** Direction (rad) from the mean level of outcome 0 to that of outcome 1, prepare-weighted. */
 function separationPhase(s: Scenario): number {
@@ -98,9 +100,32 @@ export function warnLikelyFlips(s: Scenario, ctx: ResolveContext): void {
   }
 }
 
+/**
+ * Warns when a pipeline decimates by D behind a low-pass whose cutoff lies above the Nyquist
+ * frequency of the decimated samples, fs/(2D): noise between the two folds into the bins. (A
+ * cutoff at or above fs/2 itself is an error of the processing section: no digital design
+ * can place it there.)
+ */
+export function warnDecimationAliasing(s: Scenario, ctx: ResolveContext): void {
+  const fs = s.timing.sampleRate;
+  const fromList = valueAt(ctx.raw, ['pipelines']) !== undefined;
+  s.pipelines.forEach((p, i) => {
+    const factor = p.decimate ?? 1;
+    const f = p.filter;
+    if (factor <= 1 || !f || !('cutoff' in f)) return;
+    const nyquist = fs / (2 * factor);
+    if (f.cutoff > nyquist && f.cutoff < fs / 2) {
+      const key = f.kind === 'single-pole' ? 'singlePole' : f.kind;
+      ctx.warn([...(fromList ? ['pipelines', i] : ['processing']), 'filter', key, 'cutoff'],
+        `${formatQuantity(f.cutoff, 'Hz')} is above the Nyquist frequency after decimating by ${factor} (${formatQuantity(nyquist, 'Hz')}): noise in between folds into the bins`);
+    }
+  });
+}
+
 /** All cross-section plausibility warnings. */
 export function plausibilityWarnings(s: Scenario, ctx: ResolveContext): void {
   warnInseparableStates(s, ctx);
   warnThinCalibration(s, ctx);
   warnLikelyFlips(s, ctx);
+  warnDecimationAliasing(s, ctx);
 }

@@ -194,15 +194,25 @@ export function flickerWindow(size: number): Float64Array {
 }
 
 /**
- * Draws one block pair: 2N normals from `stream` (bin by bin, real part then imaginary part)
- * scaled by `partSigma`, one forward FFT into `pair` (interleaved; real parts = even block,
- * imaginary parts = odd block). `spectrum` is scratch of length 2N.
+ * Draws one block pair: normals from `stream` scaled by `partSigma`, one forward FFT into `pair`
+ * (interleaved; real parts = even block, imaginary parts = odd block). `spectrum` is scratch of
+ * length 2N. With a bulk `fillNormals` the stream gives all 2N normals at once (bin by bin, real
+ * part then imaginary part); otherwise they are drawn one by one, only for bins with power.
  */
 export function drawFlickerPair(
   partSigma: Float64Array, fft: Fft, spectrum: Float64Array, pair: Float64Array, stream: NoiseStream,
 ): Float64Array {
   const size = fft.size;
   const hop = size / 2;
+  if (stream.fillNormals) {
+    stream.fillNormals(spectrum, 0, 2 * size);
+    for (let k = 0; k < size; k++) {
+      const sigma = partSigma[k <= hop ? k : size - k]!;
+      spectrum[2 * k] *= sigma;
+      spectrum[2 * k + 1] *= sigma;
+    }
+    return fft.complexForward(spectrum, pair);
+  }
   for (let k = 0; k < size; k++) {
     const sigma = partSigma[k <= hop ? k : size - k]!;
     if (sigma > 0) {

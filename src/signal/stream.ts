@@ -11,4 +11,9 @@ export interface NoiseStream {
   nextDouble(): number;
   /** Standard normal variate N(0, 1). */
   nextNormal(): number;
+  /**
+   * Optional bulk form: writes `count` standard normals into out[start …]. Generators use it when
+   * present (faster); the values then differ from `count` calls of nextNormal, deterministically.
+   */
+  fillNormals?(out: Float64Array, start: number, count: number): void;
 }

@@ -19,10 +19,19 @@ export const FUZZ_SEED = Number(process.env.FUZZ_SEED ?? 20261201);
 
 const ROOT = join(import.meta.dirname, '..', '..');
 
-/** The valid documents that mutations start from, by name. */
+const file = (...parts: string[]) => parseScenarioText(readFileSync(join(ROOT, ...parts), 'utf8'), parts[parts.length - 1]!);
+
+/**
+ * The valid documents that mutations start from, by name: the starter, the demos (white noise at
+ * a carrier; sensor, components, 1/f, response and digitizer; a sweep) and a fixture with
+ * several processing pipelines (filters, decimation, matched weights, an ambiguous band).
+ */
 export const BASES: Record<string, unknown> = {
   starter: parseScenarioText(starterScenario(), 'starter.yaml'),
-  demo: parseScenarioText(readFileSync(join(ROOT, 'scenarios', 'demo.yaml'), 'utf8'), 'demo.yaml'),
+  demo: file('scenarios', 'demo.yaml'),
+  components: file('scenarios', 'demo-components.yaml'),
+  sweep: file('scenarios', 'demo-sweep.yaml'),
+  pipelines: file('test', 'fixtures', 'scenarios', 'pipelines.yaml'),
 };
 export const BASE_NAMES = Object.keys(BASES);
 

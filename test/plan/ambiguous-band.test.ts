@@ -68,7 +68,7 @@ describe('ambiguous band', () => {
     const twin = point.comparisons.find((c) => c.a === 'plain' && c.b === 'banded')!;
     expect(twin.onlyAWrong + twin.onlyBWrong).toBe(0);
     expect(twin.pValue).toBe(1);
-  });
+  }, 30_000);
 
   it('a band width in signal units discards |value − threshold| < width/2', async () => {
     const sc = twoStateScenario({ carrier: 'none', sampleRate: 10e6, recordLength: 5e-6, sigmaPerSample: 2, shots: 4096, seed: 42, batchSize: 4096 });
@@ -84,5 +84,5 @@ describe('ambiguous band', () => {
     const wide = wilsonInterval(s.discarded, s.shots, 0.999);
     expect(expected, `discarded ${s.discarded}/${s.shots}, interval [${wide.low}, ${wide.high}]`).toBeGreaterThanOrEqual(wide.low);
     expect(expected).toBeLessThanOrEqual(wide.high);
-  });
+  }, 30_000);
 });

@@ -30,14 +30,15 @@ async function run(o: { t1: number; sigma: number; shots: number; calibrationSho
 }
 
 describe('matched weights from calibration shots fall as e^(−t/T1) (Gambetta et al. 2007)', () => {
-  // 10 MS/s, 20 µs record = 2·T1, bins of 1 µs; 32 768 calibration shots: the fitted decay time
-  // scatters by ≈1 % between seeds (the survival curve of ~16 000 excited shots), the test allows 5 %.
+  // 10 MS/s, 20 µs record = 2·T1, bins of 1 µs. The fitted decay time scatters between seeds by
+  // ≈1 % (32 768 calibration shots) to ≈1.5 % (16 384): the survival curve of the excited half
+  // of the shots. The test allows 5 %.
   it.each([
-    { carrier: 'none' as const, seed: 21 },
-    { carrier: 'sine' as const, seed: 22 },
-  ])('carrier $carrier', async ({ carrier, seed }) => {
+    { carrier: 'none' as const, seed: 21, calibrationShots: 32768 },
+    { carrier: 'sine' as const, seed: 22, calibrationShots: 16384 },
+  ])('carrier $carrier, $calibrationShots calibration shots', async ({ carrier, seed, calibrationShots }) => {
     const t1 = 10e-6;
-    const p = await run({ t1, sigma: 1, shots: 1024, calibrationShots: 32768, decimate: 10, carrier, seed });
+    const p = await run({ t1, sigma: 1, shots: 1024, calibrationShots, decimate: 10, carrier, seed });
     const w = p.calibrations[1]!.weights!;
     expect(w.length).toBe(20);
     const dt = 1e-6;
@@ -48,7 +49,7 @@ describe('matched weights from calibration shots fall as e^(−t/T1) (Gambetta e
     const o = p.calibrations[2]!.weights!;
     const fitOptimal = fitExponentialDecay(Array.from(o, (_, b) => (b + 0.5) * dt), o);
     expect(Math.abs(fitOptimal.decayTime / t1 - 1), `optimal weights decay ${fitOptimal.decayTime}`).toBeLessThan(0.1);
-  });
+  }, 30_000);
 });
 
 describe('matched and optimal weights against the boxcar over the same record (paired, same shots)', () => {
@@ -63,7 +64,7 @@ describe('matched and optimal weights against the boxcar over the same record (p
       const s = p.summaries.find((x) => x.pipeline === name)!;
       expect(s.agreement, `${name}: simulated ${s.meanError.rate}, analytic ${s.analyticMean}`).toBe(true);
     }
-  });
+  }, 30_000);
 
   it('T1 = 20 × record: neither is significantly worse than the boxcar', async () => {
     const p = await run({ t1: 400e-6, sigma: 4, shots: 20480, calibrationShots: 8192, decimate: 10, seed: 24 });
@@ -72,5 +73,5 @@ describe('matched and optimal weights against the boxcar over the same record (p
       const worse = c.difference < 0 && c.pValue < 0.01;
       expect(worse, `${name}: boxcar ${c.errorA}, ${name} ${c.errorB}, p ${c.pValue}`).toBe(false);
     }
-  });
+  }, 30_000);
 });

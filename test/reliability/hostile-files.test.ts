@@ -22,8 +22,13 @@ const base = mkdtempSync(join(tmpdir(), 'singleshot-hostile-'));
 const run = join(base, 'run');
 afterAll(() => rmSync(base, { recursive: true, force: true }));
 
+const shards = [join(base, 'shard-1'), join(base, 'shard-2')];
 beforeAll(async () => {
-  await runToDirectory({ scenarioPath: TINY, outDir: run, report: false, free: { memoryBytes: 2 ** 40, diskBytes: 2 ** 40 } });
+  const free = { memoryBytes: 2 ** 40, diskBytes: 2 ** 40 };
+  await runToDirectory({ scenarioPath: TINY, outDir: run, report: false, free });
+  for (const [index, dir] of shards.entries()) {
+    await runToDirectory({ scenarioPath: TINY, outDir: dir, report: false, free, shard: { index, count: 2 } });
+  }
 });
 
 /** The four kinds of hostile file, made from a good table; each with what the message must say. */
@@ -109,9 +114,15 @@ const COMMANDS: { name: string; args(dir: string, file: string): string[]; place
     args: (dir) => ['analyze', join(dir, 'traces.arrow'), '--pipeline', join(dir, 'pipeline.yaml'), '--out', join(dir, 'analysis')],
   },
   {
+    // merge streams shots.arrow of each shard: damage the first shard's
     name: 'merge',
-    place: (dir, bytes) => { writeFileSync(join(dir, 'summary.arrow'), bytes); return join(dir, 'summary.arrow'); },
-    args: (dir) => ['merge', dir, dir, '--out', join(dir, 'merged')],
+    place: (dir, bytes) => {
+      cpSync(shards[0]!, join(dir, 'a'), { recursive: true });
+      cpSync(shards[1]!, join(dir, 'b'), { recursive: true });
+      writeFileSync(join(dir, 'a', 'shots.arrow'), bytes);
+      return join(dir, 'a', 'shots.arrow');
+    },
+    args: (dir) => ['merge', join(dir, 'a'), join(dir, 'b'), '--out', join(dir, 'merged'), '--no-report'],
   },
 ];
 const present = new Set(makeProgram().commands.map((c) => c.name()));
@@ -132,5 +143,5 @@ describe.each(COMMANDS.filter((c) => present.has(c.name)))('$name given hostile 
 
 it('the test covers every command that reads tables which exists now', () => {
   // a reminder for whoever adds a table-reading command: list it in COMMANDS
-  for (const c of ['report', 'analyze']) expect(present.has(c), c).toBe(true);
+  for (const c of ['report', 'analyze', 'merge']) expect(present.has(c), c).toBe(true);
 });

@@ -37,6 +37,7 @@ export interface HistogramPlot {
 /** The floor of the log count axis: bars start here, curves below it are clipped. */
 const COUNT_FLOOR = 0.1;
 
+/** Histogram spec: bars per state on a log count axis, analytic curves, the threshold. */
 export function histogramSpec(p: HistogramPlot): PlotSpec {
   const names = p.states.map((s) => s.name);
   const colour = { field: 'state', type: 'nominal', scale: { domain: names, range: p.states.map((s) => s.colour) }, legend: { title: 'prepared state', orient: 'top-left', direction: 'vertical', fillColor: '#ffffffd9', padding: 6 } };
@@ -89,6 +90,7 @@ const windowBand = (w: [number, number]) => ({
   encoding: { x: { field: 'a', type: 'quantitative' }, x2: { field: 'b' } },
 });
 
+/** Raw-record spec: one small panel per example shot, the window shaded. */
 export function rawTracesSpec(p: TracePlot): PlotSpec {
   return {
     spacing: 6,
@@ -109,6 +111,7 @@ export function rawTracesSpec(p: TracePlot): PlotSpec {
   };
 }
 
+/** Demodulated-record spec: all example shots together, each integrated value and the threshold. */
 export function demodulatedSpec(p: TracePlot): PlotSpec {
   const labels = p.shots.map((s) => s.label);
   const colour = { field: 'shot', type: 'nominal', scale: { domain: labels, range: p.shots.map((s) => s.colour) }, legend: { title: null, orient: 'bottom', direction: 'vertical', labelLimit: 600 } };
@@ -148,6 +151,7 @@ export interface SweepLinePlot {
   yDomain: [number, number];
 }
 
+/** Error-along-a-swept-value spec: simulated points with interval bars and analytic lines per cause. */
 export function sweepLineSpec(p: SweepLinePlot): PlotSpec {
   const xs = [...new Set(p.simulated.map((d) => d.x))].sort((a, b) => a - b);
   const xAxis = p.logX && xs.length <= 12 ? { values: xs, format: '.3~g', labelAngle: 0 } : { format: '.3~g' };
@@ -224,6 +228,7 @@ function heatLayer(p: HeatPlot, field: 'error' | 'snr', title: string, ramp: str
   };
 }
 
+/** The two maps (mean error above, SNR below) over two swept values. */
 export function heatMapsSpec(p: HeatPlot): PlotSpec {
   return {
     vconcat: [heatLayer(p, 'error', 'simulated mean error', ERROR_RAMP, true), heatLayer(p, 'snr', 'simulated SNR (separation / σ)', SNR_RAMP, false)],
@@ -238,6 +243,7 @@ export interface SpectrumPlot {
   components: { name: string; f: number; psd: number }[];
 }
 
+/** Noise spectrum spec: one line per component, log–log. */
 export function spectrumSpec(p: SpectrumPlot): PlotSpec {
   const names = [...new Set(p.components.map((c) => c.name))];
   return {

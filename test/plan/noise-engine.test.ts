@@ -1,0 +1,151 @@
+/**
+ * The noise sources inside the engine: telegraph histograms, independence of batching, the
+ * noise budget adding up, and the run's analytic σ being the prediction.
+ */
+import { describe, expect, it } from 'vitest';
+import { compilePoint } from '../../src/plan/compile.ts';
+import { makeScratch, simulateBatch } from '../../src/plan/batch.ts';
+import { runPoints } from '../../src/plan/run.ts';
+import { chiSquareTest } from '../../src/analysis/chi-square.ts';
+import { wilsonInterval } from '../../src/analysis/intervals.ts';
+import { normalCdf } from '../../src/analysis/special.ts';
+import { parseScenarioText } from '../../src/scenario/parse.ts';
+import { resolveScenario } from '../../src/scenario/resolve.ts';
+import type { Scenario } from '../../src/scenario/types.ts';
+import { flicker, noiseScenario, runNoise } from './noise-helpers.ts';
+
+describe('telegraph noise through the engine (two-level fluctuator; Machlup, J. Appl. Phys. 25, 341 (1954))', () => {
+  it('the histogram has the side peak at the amplitude with the weight the occupation predicts (χ², fixed seed)', () => {
+    const up = 300, down = 700, a = 1; // π = 0.3
+    const sigmaValue = 0.1; // σ of the integrated value from white noise: per-sample σ·/√200
+    const sc = noiseScenario({
+      carrier: 'none', white: sigmaValue * Math.sqrt(200), shotPeriod: 10e-3, levels: [0, 5],
+      signal: { telegraph: [{ name: 'trap', amplitude: a, rateUp: up, rateDown: down, injection: 'amplifier', inDetuning: false }] },
+    });
+    sc.prepare = [1, 0]; // the ground state only: its histogram is the fluctuator's
+    const run = runNoise(sc);
+    const v = run.values[0]!;
+    const pi = up / (up + down);
+    const R = 20e-6;
+    // no switch during the record: at 0 or at a; one switch (the rest, O((λR)²) neglected): the
+    // value a·(time in the upper state)/R is uniform on [0, a]
+    const p0 = (1 - pi) * Math.exp(-up * R), p1 = pi * Math.exp(-down * R), pSwitch = 1 - p0 - p1;
+    const uniformCdf = (x: number) => {
+      let s = 0;
+      const m = 400;
+      for (let i = 0; i < m; i++) s += normalCdf(x, ((i + 0.5) / m) * a, sigmaValue);
+      return s / m;
+    };
+    const cdf = (x: number) => p0 * normalCdf(x, 0, sigmaValue) + p1 * normalCdf(x, a, sigmaValue) + pSwitch * uniformCdf(x);
+    const edges = Array.from({ length: 41 }, (_, i) => -0.5 + i * 0.05);
+    const observed = new Array<number>(edges.length + 1).fill(0);
+    for (const x of v) {
+      let b = 0;
+      while (b < edges.length && x >= edges[b]!) b++;
+      observed[b]!++;
+    }
+    const probabilities = observed.map((_, b) => (b === edges.length ? 1 : cdf(edges[b]!)) - (b === 0 ? 0 : cdf(edges[b - 1]!)));
+    const test = chiSquareTest(observed, probabilities);
+    expect(test.pValue, `χ² ${test.statistic} on ${test.dof} dof, p ${test.pValue} (need > 0.001)`).toBeGreaterThan(0.001);
+    // the side peak's weight: P(value > a/2) = p1 + pSwitch/2
+    const high = v.filter((x) => x > a / 2).length;
+    const ci = wilsonInterval(high, v.length, 0.999);
+    const expected = p1 + pSwitch / 2;
+    expect(expected, `side peak ${high}/${v.length}, interval [${ci.low}, ${ci.high}]`).toBeGreaterThan(ci.low);
+    expect(expected).toBeLessThan(ci.high);
+  });
+});
+
+describe('slow noise does not depend on batching (continuous timelines, random access)', () => {
+  it('batch size 1024 and 4096 give identical values, for scored and calibration shots', () => {
+    const make = (batchSize: number): Scenario => noiseScenario({
+      carrier: 'sine', white: 0.5, t1: 50e-6, shots: 4096, batchSize, shotPeriod: 37e-6,
+      signal: {
+        flicker: [flicker('sensor', 1e-3, 50, 300e3), flicker('amplifier', 2e-3, 10, 100e3, 1.2)],
+        telegraph: [
+          { name: 'fast', amplitude: 0.2, rateUp: 2e4, rateDown: 3e4, injection: 'sensor', inDetuning: false },
+          { name: 'slow', amplitude: -0.3, rateUp: 20, rateDown: 50, injection: 'amplifier', inDetuning: false },
+        ],
+        response: { timeConstant: 0.3e-6, from: 'zero' },
+        digitizer: { low: -4, high: 4, bits: 10 },
+      },
+    });
+    const collect = (sc: Scenario, purpose: 'score' | 'calibrate') => {
+      const point = compilePoint(sc);
+      const scratch = makeScratch(point);
+      const inPhase: number[] = [], quadrature: number[] = [];
+      for (let b = 0; b * sc.batchSize < sc.shots; b++) {
+        const r = simulateBatch(point, 0, purpose, b, Math.min(sc.batchSize, sc.shots - b * sc.batchSize), scratch);
+        inPhase.push(...r.values[0]!.inPhase);
+        quadrature.push(...r.values[0]!.quadrature);
+      }
+      return [...inPhase, ...quadrature];
+    };
+    for (const purpose of ['score', 'calibrate'] as const) {
+      const small = collect(make(1024), purpose);
+      const large = collect(make(4096), purpose);
+      expect(small.length).toBe(2 * 4096);
+      let differ = 0;
+      for (let i = 0; i < small.length; i++) if (small[i] !== large[i]) differ++;
+      expect(differ, `${purpose}: values that differ between batch sizes`).toBe(0);
+    }
+  });
+
+  it('a batch run alone (a worker or shard) gives the values it gives in sequence', () => {
+    const sc = noiseScenario({ carrier: 'none', shots: 8192, batchSize: 2048, shotPeriod: 50e-6, signal: { flicker: [flicker('sensor', 1e-3, 5, 100e3)] } });
+    const point = compilePoint(sc);
+    const scratch = makeScratch(point);
+    const sequence = [0, 1, 2, 3].map((b) => simulateBatch(point, 0, 'score', b, 2048, scratch).values[0]!.inPhase);
+    const alone = simulateBatch(compilePoint(sc), 0, 'score', 3, 2048).values[0]!.inPhase;
+    expect(Array.from(alone)).toEqual(Array.from(sequence[3]!));
+  });
+});
+
+describe('noise budget from components', () => {
+  const yaml = `
+name: components
+seed: 9
+shots: 20480
+calibrationShots: 4096
+timing: { sampleRate: 10 MHz, recordLength: 20 us }
+states:
+  - { name: low, level: 0 nA, outcome: "0" }
+  - { name: high, level: 1 nA, outcome: "1" }
+signal:
+  noise:
+    white: { density: 10 fA/rtHz }
+    components:
+      senseResistor: 1 MOhm
+      temperature: 4 K
+      sensorCurrent: 1 nA
+      amplifierVoltage: 8 nV/rtHz
+      amplifierCurrent: 6 fA/rtHz
+    flicker: { name: charge, density: 2 pA/rtHz, low: 100 Hz, high: 200 kHz, injection: sensor }
+`;
+  const scenario = resolveScenario(parseScenarioText(yaml, 'components.yaml'), 'components.yaml').scenario;
+
+  it('Johnson and shot densities are those of CHECKS.md; the sources add up to the total', () => {
+    const run = runNoise({ ...scenario, timing: { ...scenario.timing, shotPeriod: 100e-6 } });
+    const by = Object.fromEntries(run.prediction.sources.map((s) => [s.name, s]));
+    // Johnson, Phys. Rev. 32, 97 (1928): 1 MΩ at 4 K → 14.86 fA/√Hz; Schottky, Ann. Phys. 57, 541 (1918): 1 nA → 17.90 fA/√Hz
+    expect(by.johnson!.density).toBeCloseTo(14.86e-15, 17);
+    expect(by.shot!.density).toBeCloseTo(17.90e-15, 17);
+    expect(by.amplifierVoltage!.density).toBeCloseTo(8e-15, 20); // 8 nV/√Hz over 1 MΩ
+    expect(Object.keys(by).sort()).toEqual(['amplifierCurrent', 'amplifierVoltage', 'charge', 'johnson', 'shot', 'white']);
+    const sum = run.prediction.sources.reduce((a, s) => a + s.variance, 0);
+    const shares = run.prediction.sources.reduce((a, s) => a + s.share, 0);
+    expect(Math.abs(sum / run.prediction.variance - 1)).toBeLessThan(1e-12);
+    expect(Math.abs(shares - 1)).toBeLessThan(1e-12);
+    // and the simulated σ with all of them on is their root-sum-square (3 %)
+    expect(Math.abs(run.sigma / run.prediction.sigma - 1), `simulated ${run.sigma}, predicted ${run.prediction.sigma}`).toBeLessThan(0.03);
+  });
+
+  it('the run\'s analytic budget uses the predicted total σ', async () => {
+    const sc = { ...scenario, timing: { ...scenario.timing, shotPeriod: 100e-6 } };
+    const result = await runPoints([{ parameters: {}, scenario: sc }]);
+    const s = result.points[0]!.summaries[0]!;
+    const predicted = runNoise({ ...sc, shots: 1024 }).prediction.sigma;
+    expect(Math.abs(s.analyticSigma / predicted - 1), `analytic σ ${s.analyticSigma}, prediction ${predicted}`).toBeLessThan(1e-9);
+    expect(Math.abs(s.sigma / s.analyticSigma - 1), `simulated σ ${s.sigma}, analytic ${s.analyticSigma}`).toBeLessThan(0.03);
+  });
+});
