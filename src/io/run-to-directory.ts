@@ -23,7 +23,7 @@ import { checkRefineRequest, refineWithin, type RefineRequest, type RefineOutcom
 import { writeReport } from './report/build.ts';
 import { resolveEngine } from '../plan/run.ts';
 import type { EngineRequest } from '../plan/engine.ts';
-import { workerPoolExecutor } from '../plan/pool.ts';
+import { defaultWorkers, workerPoolExecutor } from '../plan/pool.ts';
 import { batchCount, shardRange } from '../plan/batches.ts';
 import { writeResultTables } from './result-tables.ts';
 import { runTallies, TALLIES, writeTallies } from './tallies.ts';
@@ -52,7 +52,11 @@ export interface RunToDirectoryOptions extends ScenarioOverrides {
   report?: boolean;
   /** Engine: exact, traces or auto (default traces; the CLI's default is auto). */
   engine?: EngineRequest;
-  /** Simulation threads (default 1: this thread); ignored when `executor` is given. */
+  /**
+   * Simulation threads; ignored when `executor` is given. Default: every core for a trace-engine
+   * run estimated to take over POOL_MIN_SECONDS, else 1 (this thread) — starting a worker costs
+   * about a second, and the exact engine's time goes mostly into scoring on this thread.
+   */
   workers?: number;
 }
 
@@ -68,6 +72,9 @@ export interface RunToDirectoryResult {
   /** The scenario's sweep section (absent when nothing is swept). */
   sweep?: SweepSpec;
 }
+
+/** Runs estimated shorter than this (s) stay on one thread unless `workers` is given. */
+export const POOL_MIN_SECONDS = 2;
 
 /** Turns a loaded scenario into sweep points (a single point when nothing is swept). */
 export type SweepExpander = (loaded: Awaited<ReturnType<typeof loadScenarioFile>>, file: string) => SweepPoint[];
@@ -105,7 +112,8 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   const files: string[] = [];
   writeManifest(o.outDir, { complete: false, seed: first.seed, engine: provenance.engine, engineReason: choice.reason, shard, files, scenario: loaded.canonical });
   const scoredBatches = points.reduce((n, p) => n + batchCount(p.scenario, 'score'), 0);
-  const pool = !o.executor && (o.workers ?? 1) > 1 && scoredBatches > 1 ? workerPoolExecutor(Math.min(o.workers!, scoredBatches)) : null;
+  const workers = o.workers ?? (choice.engine === 'traces' && estimate.seconds > POOL_MIN_SECONDS ? defaultWorkers() : 1);
+  const pool = !o.executor && workers > 1 && scoredBatches > 1 ? workerPoolExecutor(Math.min(workers, scoredBatches)) : null;
   const executor = o.executor ?? pool ?? inProcessExecutor();
   const outcomeOf = first.states.map((s) => s.outcome);
   const layout = shotsLayout(first, tableMetadata('shots', provenance));

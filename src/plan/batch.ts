@@ -157,14 +157,23 @@ export function simulateBatch(
       loadPath(store, i - from, path);
       if (response) writeRespondedSignal(record, lo, hi, point.levelWaves, response, out.initial[i]!, path, fs);
       else writeSignal(record, lo, hi, point.waveforms, out.initial[i]!, path, fs);
-      if (slow) slow.addSlowNoise(record, lo, hi, out.firstShot + i);
+      if (slow) {
+        // 1/f goes into the record only when the digitizer needs it there; otherwise it enters
+        // each value through its carried kernel (compile-noise.ts), the same linear map
+        slow.shot(out.firstShot + i);
+        slow.addTelegraph(record, lo, hi);
+        if (digitizer) slow.addFlicker(record, lo, hi);
+      }
       addWhiteNoise(record, lo, hi, point.whiteSigma, stream);
       if (digitizer) clipped += digitize(record, lo, hi, digitizer);
+      const carried = slow !== null && slow.hasFlicker && digitizer === null;
       for (let p = 0; p < point.pipelines.length; p++) {
         const k = point.pipelines[p]!.kernels;
-        out.values[p]!.inPhase[i] = dotRange(k.inPhase, record, k.lo, k.hi);
-        out.values[p]!.quadrature[i] = k.quadrature ? dotRange(k.quadrature, record, k.lo, k.hi) : 0;
+        out.values[p]!.inPhase[i] = dotRange(k.inPhase, record, k.lo, k.hi) + (carried ? slow.flickerValue(p, false) : 0);
+        out.values[p]!.quadrature[i] = k.quadrature ? dotRange(k.quadrature, record, k.lo, k.hi) + (carried ? slow.flickerValue(p, true) : 0) : 0;
       }
+      // kept traces and bins see the whole record (after the values, which do not depend on them)
+      if (carried && collector) slow.addFlicker(record, lo, hi);
       collector?.shot(i, record, out.initial[i]!, path);
     }
   });

@@ -103,6 +103,35 @@ export interface FlickerPlan {
    * is taken modulo this, so shots beyond the scenario's (examples, report views) wrap around.
    */
   capacity: number;
+  /**
+   * Per injection, per pipeline: its I and Q kernels carried onto the base-sample window
+   * (G_j = Σ_k K[k]·weight of entry j at sample k), so that the 1/f part of a value is Σ_j G_j·w_j
+   * (null where no source enters, or Q at baseband).
+   */
+  carried: Record<NoiseInjection, { inPhase: Float64Array; quadrature: Float64Array | null }[] | null>;
+}
+
+/** A pipeline's kernels as compile-noise needs them. */
+export interface KernelPair {
+  inPhase: Float64Array;
+  quadrature: Float64Array | null;
+  lo: number;
+  hi: number;
+}
+
+/**
+ * Carries a record-grid functional x (on [lo, hi)) onto the 1/f base-sample window through the
+ * interpolation: G[j] += x[k]·(1 − u_k) at j = index[k], G[j + 1] += x[k]·u_k. Σ_k x[k]·n(t_k)
+ * of the interpolated noise n then equals Σ_j G[j]·w[j] of its window values w.
+ */
+export function carryKernel(f: Pick<FlickerPlan, 'index' | 'fraction' | 'width'>, x: Float64Array, lo: number, hi: number): Float64Array {
+  const g = new Float64Array(f.width + 1);
+  for (let k = lo; k < hi; k++) {
+    const j = f.index[k]!;
+    g[j] += x[k]! * (1 - f.fraction[k]!);
+    g[j + 1] += x[k]! * f.fraction[k]!;
+  }
+  return g;
 }
 
 /** The telegraph part of the plan. */
@@ -160,7 +189,9 @@ export function whiteSources(scenario: Scenario, sampleRate: number): WhiteSourc
  * Compiles the noise plan of a point whose sensor has been applied (physics/sensor-scenario.ts):
  * `tables` are the carrier tables, [synthLo, synthHi) the samples that are synthesised.
  */
-export function compileNoise(scenario: Scenario, grid: Grid, tables: CarrierTables, synthLo: number, synthHi: number): NoisePlan {
+export function compileNoise(
+  scenario: Scenario, grid: Grid, tables: CarrierTables, synthLo: number, synthHi: number, kernels: readonly KernelPair[] = [],
+): NoisePlan {
   const { signal } = scenario;
   const gain = signal.gain;
   const fs = grid.sampleRate;
@@ -190,7 +221,7 @@ export function compileNoise(scenario: Scenario, grid: Grid, tables: CarrierTabl
   const d = signal.digitizer ?? null;
   const digitizer: DigitizerTables | null = d ? { low: d.low, high: d.high, codes: d.bits === null ? 0 : 2 ** d.bits } : null;
 
-  const flicker = compileFlicker(scenario, grid, sensorWeight, gain, synthLo, synthHi, response?.timeConstant ?? null);
+  const flicker = compileFlicker(scenario, grid, sensorWeight, gain, synthLo, synthHi, response?.timeConstant ?? null, kernels);
 
   const tel = signal.telegraph ?? [];
   const telegraph: TelegraphPlan | null = tel.length === 0 ? null : {
@@ -206,7 +237,7 @@ export function compileNoise(scenario: Scenario, grid: Grid, tables: CarrierTabl
 
 function compileFlicker(
   scenario: Scenario, grid: Grid, sensorWeight: Float64Array, gain: number, synthLo: number, synthHi: number,
-  timeConstant: number | null,
+  timeConstant: number | null, kernels: readonly KernelPair[],
 ): FlickerPlan | null {
   const specs = scenario.signal.flicker ?? [];
   if (specs.length === 0 || synthHi <= synthLo) return null;
@@ -247,10 +278,24 @@ function compileFlicker(
     }
     return w;
   };
+  const carried = (injection: NoiseInjection) => {
+    if (!sources.some((s) => s.injection === injection)) return null;
+    const tablesOf = { index, fraction, width };
+    const weighted = (kernel: Float64Array, lo: number, hi: number) => {
+      const x = new Float64Array(n);
+      for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? sensorWeight[k]! : gain);
+      return carryKernel(tablesOf, x, lo, hi);
+    };
+    return kernels.map((k) => ({
+      inPhase: weighted(k.inPhase, k.lo, k.hi),
+      quadrature: k.quadrature ? weighted(k.quadrature, k.lo, k.hi) : null,
+    }));
+  };
   return {
     sources, step, baseRate, offset, width, index, fraction, capacity,
     below: { sensor: weights('sensor', 'below'), amplifier: weights('amplifier', 'below') },
     above: { sensor: weights('sensor', 'above'), amplifier: weights('amplifier', 'above') },
+    carried: { sensor: carried('sensor'), amplifier: carried('amplifier') },
   };
 }
 
@@ -264,10 +309,25 @@ function addInterpolatedNoise(
   }
 }
 
-/** The per-shot slow-noise hook of one point and purpose (holds the timelines' caches). */
+/**
+ * The per-shot slow-noise hook of one point and purpose (holds the timelines' caches). Per shot:
+ * `shot(i)` draws the shot's 1/f window values and telegraph switches; `addTelegraph` and
+ * `addFlicker` add them to the record; `flickerValue` gives the 1/f part of a
+ * pipeline's value directly from the window (Σ_j G_j·w_j, the same linear map as adding it to the
+ * record and integrating, at a fraction of the cost). batch.ts adds the 1/f noise to the record
+ * only where the record itself is used beyond the linear values (digitizer, kept traces or bins).
+ */
 export interface NoiseRuntime {
-  /** Adds the 1/f and telegraph noise of shot `shot` (index within its purpose) to record[lo … hi). */
-  addSlowNoise(record: Float64Array, lo: number, hi: number, shot: number): void;
+  /** Draws shot `shot`'s slow noise (index within its purpose). */
+  shot(shot: number): void;
+  /** Adds the current shot's telegraph noise to record[lo … hi). */
+  addTelegraph(record: Float64Array, lo: number, hi: number): void;
+  /** Adds the current shot's 1/f noise to record[lo … hi). */
+  addFlicker(record: Float64Array, lo: number, hi: number): void;
+  /** The current shot's 1/f contribution to pipeline p's I (or Q) value. */
+  flickerValue(pipeline: number, quadrature: boolean): number;
+  /** Whether the point has 1/f noise. */
+  readonly hasFlicker: boolean;
 }
 
 /** Makes the slow-noise runtime of a point's plan for one purpose's timeline. */
@@ -286,22 +346,28 @@ export function makeNoiseRuntime(plan: NoisePlan, seed: number, point: number, p
     : null;
   const telegraphRecord: TelegraphRecord | null = tp ? makeTelegraphRecord(tp.fluctuators.length) : null;
 
-  function addFlicker(record: Float64Array, lo: number, hi: number, shot: number): void {
+  function drawFlicker(shot: number): void {
     const f = fl!;
     // shots beyond the planned ones (auxiliary shots, benchmarks) wrap around the timeline
     const J0 = (shot % f.capacity) * f.step + f.offset;
     for (const injection of ['sensor', 'amplifier'] as const) {
-      const below = f.below[injection], above = f.above[injection];
-      if (!below || !above) continue;
+      if (!f.below[injection]) continue;
       const w = windows[injection];
       w.fill(0);
       f.sources.forEach((s, i) => { if (s.injection === injection) timelines[i]!.addRange(w, 0, J0, f.width); });
-      addInterpolatedNoise(record, lo, hi, w, f.index, below, above);
     }
   }
 
-  function addTelegraph(record: Float64Array, lo: number, hi: number, shot: number): void {
-    const r = telegraph!.record(shot, telegraphRecord!);
+  function addFlicker(record: Float64Array, lo: number, hi: number): void {
+    const f = fl!;
+    for (const injection of ['sensor', 'amplifier'] as const) {
+      const below = f.below[injection], above = f.above[injection];
+      if (below && above) addInterpolatedNoise(record, lo, hi, windows[injection], f.index, below, above);
+    }
+  }
+
+  function addTelegraph(record: Float64Array, lo: number, hi: number): void {
+    const r = telegraphRecord!;
     const p = tp!;
     let e = 0;
     for (let fi = 0; fi < p.fluctuators.length; fi++) {
@@ -330,9 +396,35 @@ export function makeNoiseRuntime(plan: NoisePlan, seed: number, point: number, p
   }
 
   return {
-    addSlowNoise(record, lo, hi, shot) {
-      if (fl) addFlicker(record, lo, hi, shot);
-      if (telegraph) addTelegraph(record, lo, hi, shot);
+    hasFlicker: fl !== null,
+    shot(shot) {
+      if (fl) drawFlicker(shot);
+      if (telegraph) telegraph.record(shot, telegraphRecord!);
+    },
+    addTelegraph(record, lo, hi) {
+      if (telegraph) addTelegraph(record, lo, hi);
+    },
+    addFlicker(record, lo, hi) {
+      if (fl) addFlicker(record, lo, hi);
+    },
+    flickerValue(p, quadrature) {
+      if (!fl) return 0;
+      let v = 0;
+      for (const injection of ['sensor', 'amplifier'] as const) {
+        const c = fl.carried[injection]?.[p];
+        const g = c ? (quadrature ? c.quadrature : c.inPhase) : null;
+        if (!g) continue;
+        const w = windows[injection];
+        let s0 = 0, s1 = 0;
+        let j = 0;
+        for (; j + 1 < g.length; j += 2) {
+          s0 += g[j]! * w[j]!;
+          s1 += g[j + 1]! * w[j + 1]!;
+        }
+        if (j < g.length) s0 += g[j]! * w[j]!;
+        v += s0 + s1;
+      }
+      return v;
     },
   };
 }

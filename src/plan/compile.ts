@@ -82,7 +82,7 @@ export function compilePoint(input: Scenario): CompiledPoint {
   }
   const synthLo = Math.min(...pipelines.map((p) => p.kernels.lo));
   const synthHi = Math.max(...pipelines.map((p) => p.kernels.hi));
-  const noise = compileNoise(scenario, grid, tables, synthLo, synthHi);
+  const noise = compileNoise(scenario, grid, tables, synthLo, synthHi, pipelines.map((p) => p.kernels));
   const response = noise.response;
   const waveforms = response
     ? levelWaves.map((w, s) => respondedWaveform(w, response, s, grid.sampleRate, new Float64Array(grid.samples)))

@@ -21,7 +21,7 @@ import { exponentialQuadraticForm, squaredSum } from '../signal/filter-function.
 import { flickerFunctionalVariance } from '../signal/flicker-timeline.ts';
 import { quantisationStep } from '../signal/digitizer.ts';
 import type { NoiseInjection } from '../scenario/types.ts';
-import type { NoisePlan } from './compile-noise.ts';
+import { carryKernel, type NoisePlan } from './compile-noise.ts';
 
 /** One source's entry in the noise budget. */
 export interface NoiseSourceBudget {
@@ -67,13 +67,7 @@ export function predictNoise(plan: NoisePlan, kernel: Float64Array, lo: number, 
     for (const s of fl.sources) {
       let g = carried[s.injection];
       if (!g) {
-        const x = effective(s.injection);
-        g = new Float64Array(fl.width + 1);
-        for (let k = lo; k < hi; k++) {
-          const j = fl.index[k]!;
-          g[j] += x[k]! * (1 - fl.fraction[k]!);
-          g[j + 1] += x[k]! * fl.fraction[k]!;
-        }
+        g = carryKernel(fl, effective(s.injection), lo, hi);
         carried[s.injection] = g;
       }
       const v = flickerFunctionalVariance(s.bands, g, fl.step, fl.offset).total;

@@ -4,8 +4,8 @@
  * Batches are processed and merged in their fixed order, so the result depends only on the
  * scenario and the seed.
  */
-import { analyticBudget, type Budget } from '../analysis/budget.ts';
-import { predictNoise } from './predict-noise.ts';
+import type { Budget } from '../analysis/budget.ts';
+import { budgetWithNoise } from './noise-budget.ts';
 import { REPORT_CONFIDENCE, summarise, type PointSummary } from '../analysis/summary.ts';
 import { addPairs, comparePipelines, emptyPairTallies, type PairTally, type PipelineComparison } from '../analysis/compare.ts';
 import { addToTally, emptyTally, type Tally, type TallyInput } from '../analysis/tally.ts';
@@ -97,15 +97,14 @@ export function pointBudgets(c: CompiledPoint, calibrations: readonly PipelineCa
     const k = p.kernels;
     const kernel = new Float64Array(k.inPhase.length);
     for (let j = k.lo; j < k.hi; j++) kernel[j] = k.inPhase[j]! * cal.axis.cos + (k.quadrature ? k.quadrature[j]! * cal.axis.sin : 0);
-    return analyticBudget({
+    // every noise source through the whole path, by the filter function (noise-budget.ts)
+    return budgetWithNoise({
       kernel, lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms,
-      // every noise source through the whole path, by the filter function (predict-noise.ts)
-      noiseVariance: predictNoise(c.noise, kernel, k.lo, k.hi, c.grid.sampleRate).variance,
       rate: c.chain.rate, jumpCause: c.jumpCause, prepare: sc.prepare,
       outcomeOf: sc.states.map((s) => s.outcome),
       preparation: sc.preparationError, mapping: sc.mappingError,
       threshold: cal.rule.threshold, highIsOne: cal.rule.highIsOne,
-    });
+    }, c.noise);
   });
 }
 

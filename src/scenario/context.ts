@@ -39,7 +39,7 @@ export class ResolveContext {
     const i = this.stateNames.indexOf(name);
     if (i < 0) {
       const names = this.stateNames.map((n) => `"${n}"`).join(', ');
-      this.fail(path, `the name of a state (${names})${didYouMean(name, this.stateNames)}`, found ?? JSON.stringify(name));
+      this.fail(path, `the name of a state (${names})${didYouMean(name, this.stateNames)}`, found !== undefined && found.length <= 60 ? found : describeFound(name));
     }
     return i;
   }

@@ -14,8 +14,12 @@ export function formatPath(path: KeyPath): string {
   let out = '';
   for (const part of path) {
     if (typeof part === 'number') out += `[${part}]`;
-    else if (typeof part === 'string' && IDENTIFIER.test(part)) out += out ? `.${part}` : part;
-    else out += `[${JSON.stringify(String(part))}]`;
+    else if (typeof part === 'string' && IDENTIFIER.test(part) && part.length <= 40) out += out ? `.${part}` : part;
+    else {
+      // a key can be any length; a message names it by its first 40 characters
+      const key = String(part);
+      out += `[${JSON.stringify(key.length > 40 ? `${key.slice(0, 37)}...` : key)}]`;
+    }
   }
   return out;
 }

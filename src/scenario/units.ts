@@ -125,6 +125,11 @@ export const DIMENSIONS = {
 /** Name of a dimension a key can ask for. */
 export type DimensionName = keyof typeof DIMENSIONS;
 
+/** Quotes user text for a message, cut to 40 characters (a unit text may be any length). */
+function shortQuote(text: string): string {
+  return `"${text.length > 40 ? `${text.slice(0, 37)}...` : text}"`;
+}
+
 /** A unit text that could not be read; the message is a short phrase ("unknown unit \"x\""). */
 export class UnitSyntaxError extends Error {}
 
@@ -153,7 +158,7 @@ function lookupSymbol(symbol: string): Factor {
     const unit = UNITS[symbol.slice(prefix.length)];
     if (unit && unit.prefixable) return { pow10, scale: unit.factor, dim: unit.dim };
   }
-  throw new UnitSyntaxError(`unknown unit "${symbol}"${didYouMean(symbol, unitSpellings())}`);
+  throw new UnitSyntaxError(`unknown unit ${shortQuote(symbol)}${didYouMean(symbol, unitSpellings())}`);
 }
 
 /** Every unit as it may be written, with and without prefixes (for suggestions). */
@@ -173,7 +178,7 @@ class UnitReader {
 
   read(): Factor {
     const result = this.expression();
-    if (this.pos < this.text.length) throw new UnitSyntaxError(`unexpected "${this.text.slice(this.pos)}"`);
+    if (this.pos < this.text.length) throw new UnitSyntaxError(`unexpected ${shortQuote(this.text.slice(this.pos))}`);
     return result;
   }
 
@@ -230,7 +235,7 @@ class UnitReader {
 
   private atom(): Factor {
     const m = /^(?:1(?![0-9])|[A-Za-zµμΩ°]+)/.exec(this.text.slice(this.pos));
-    if (!m) throw new UnitSyntaxError(this.pos < this.text.length ? `unexpected "${this.text.slice(this.pos)}"` : 'missing unit');
+    if (!m) throw new UnitSyntaxError(this.pos < this.text.length ? `unexpected ${shortQuote(this.text.slice(this.pos))}` : 'missing unit');
     this.pos += m[0].length;
     if (m[0] === '1') return ONE;
     return lookupSymbol(m[0]);
@@ -269,7 +274,10 @@ export function parseQuantity(input: number | string): Quantity {
   const unitText = m[2]!;
   if (unitText === '') return { value: number, dim: NONE, plain: true };
   const unit = new UnitReader(unitText).read();
-  return { value: timesPow10(number, unit.pow10) * unit.scale, dim: unit.dim, plain: false };
+  const value = timesPow10(number, unit.pow10) * unit.scale;
+  // "1e308 GHz" overflows once the prefix is applied
+  if (!Number.isFinite(value)) throw new UnitSyntaxError('too large once the unit is applied');
+  return { value, dim: unit.dim, plain: false };
 }
 
 /**

@@ -99,7 +99,7 @@ export const hostileString = fc.oneof(
     '5 Ohm', '5 Ω', '5 ueV', '5 meV/ns', '5 K', '5 mK', '5 pA', '5 nV', '5 (', '5 )', '5 ^', '5 s^999', '5 s^-999',
     '1e-320 s', '1e308 Gs', '1e300 THz', '1e-300 fs', '', ' ', '\u0000', '\uFFFD', 'é', '🙂', 'midpoint', 'optimal', 'auto',
     'none', 'sine', 'square', 'relaxation', '__proto__', 'constructor', 'toString', 'a'.repeat(5000), '1e5', '0', '-1',
-    'yes', 'no', 'true', 'null', '~', '<script>alert(1)</script>', '"quoted"', 'line\nbreak', 'tab\there',
+    'yes', 'no', 'true', 'null', '~', '<script>alert(1)</script>', '"quoted"', 'line\nbreak', 'tab\there', `5 ${'u'.repeat(3000)}`,
   ),
   fc.string({ maxLength: 12 }),
   fc.tuple(hostileNumber, fc.constantFrom('', ' ', '  '), fc.constantFrom('s', 'us', 'Hz', 'MHz', 'pA', 'A', 'V', 'fA/rtHz', 'ueV', 'mK', 'deg', 'rad', 'meV/ns', 'kHz', 'xyz'))
@@ -118,7 +118,7 @@ export const hostileValue: fc.Arbitrary<unknown> = fc.letrec((tie) => ({
 /** Keys to add: near misses of real keys, prototype names, random text. */
 const extraKey = fc.oneof(
   fc.constantFrom('__proto__', 'constructor', 'prototype', 'toString', 'hasOwnProperty', 'Name', 'sampleRat', 'sampleRates',
-    'windows', 'lifetme', 'treshold', 'carier', 'unit ', ' name', '', '0', 'extra'),
+    'windows', 'lifetme', 'treshold', 'carier', 'unit ', ' name', '', '0', 'extra', 'k'.repeat(3000)),
   fc.string({ maxLength: 10 }),
   fc.constantFrom(...Object.keys(scenarioShape)),
 );

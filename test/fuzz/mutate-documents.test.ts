@@ -8,7 +8,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { loadScenarioDocument } from '../../src/scenario/load.ts';
-import { anyMutation, FUZZ_SEED, inputErrorProblem, mildMutation, mutatedDoc, scenarioProblem, safeJson } from './harness.ts';
+import { anyMutation, BASES, FUZZ_SEED, inputErrorProblem, mildMutation, mutatedDoc, scenarioProblem, safeJson } from './harness.ts';
 
 const FILE = 'fuzzed.yaml';
 
@@ -48,4 +48,26 @@ describe('fuzzed scenario documents', () => {
     expect(counts.valid, JSON.stringify(counts)).toBeGreaterThan(numRuns / 50);
     expect(counts.invalid, JSON.stringify(counts)).toBeGreaterThan(numRuns / 50);
   }, 60_000);
+});
+
+describe('cases the fuzzer found (regressions)', () => {
+  const starter = () => structuredClone(BASES.starter) as Record<string, unknown>;
+  it.each([
+    // a prefix overflowed a finite number to Infinity, which then passed as a quantity
+    ['a quantity that overflows once its prefix is applied', () => ({ ...starter(), timing: { sampleRate: '1e308 GHz', recordLength: '20 us' } }), 'timing.sampleRate', /too large once the unit is applied/],
+    // the "did you mean" search compared a megabyte-long word with every unit spelling
+    ['a megabyte-long unknown unit', () => ({ ...starter(), timing: { sampleRate: `5 ${'x'.repeat(1_000_000)}`, recordLength: '20 us' } }), 'timing.sampleRate', /unknown unit/],
+    // one outcome never prepared: the calibration had no shots of it and threw a plain Error
+    ['an outcome with prepare weight 0', () => ({ ...starter(), prepare: { empty: 1, loaded: 0 } }), 'prepare', /calibration needs shots of both outcomes/],
+  ])('%s is an InputError at its key', (_what, make, path, message) => {
+    let error: unknown;
+    try {
+      loadScenarioDocument(make(), FILE);
+    } catch (e) {
+      error = e;
+    }
+    expect(inputErrorProblem(error, FILE, make())).toBeNull();
+    expect((error as { path: string }).path).toBe(path);
+    expect((error as Error).message).toMatch(message);
+  });
 });

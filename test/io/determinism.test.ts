@@ -25,8 +25,8 @@ function contents(path: string): Record<string, unknown[]> {
 describe('determinism', () => {
   it('the same scenario and seed give byte-identical tables', async () => {
     const a = fresh(), b = fresh();
-    await runToDirectory({ scenarioPath: SCENARIO, outDir: a });
-    await runToDirectory({ scenarioPath: SCENARIO, outDir: b });
+    await runToDirectory({ scenarioPath: SCENARIO, outDir: a, report: false });
+    await runToDirectory({ scenarioPath: SCENARIO, outDir: b, report: false });
     for (const f of TABLES) expect(readFileSync(join(a, f)).equals(readFileSync(join(b, f))), f).toBe(true);
   }, 60_000);
 
@@ -35,15 +35,15 @@ describe('determinism', () => {
     const other = join(dir, 'batch4096.yaml');
     writeFileSync(other, readFileSync(SCENARIO, 'utf8').replace('batchSize: 1024', 'batchSize: 4096'));
     const a = fresh(), b = fresh();
-    await runToDirectory({ scenarioPath: SCENARIO, outDir: a });
-    await runToDirectory({ scenarioPath: other, outDir: b });
+    await runToDirectory({ scenarioPath: SCENARIO, outDir: a, report: false });
+    await runToDirectory({ scenarioPath: other, outDir: b, report: false });
     for (const f of TABLES) expect(contents(join(b, f)), f).toEqual(contents(join(a, f)));
   }, 60_000);
 
   it('a different seed gives different shots', async () => {
     const a = fresh(), b = fresh();
-    await runToDirectory({ scenarioPath: SCENARIO, outDir: a });
-    await runToDirectory({ scenarioPath: SCENARIO, outDir: b, seed: 4243 });
+    await runToDirectory({ scenarioPath: SCENARIO, outDir: a, report: false });
+    await runToDirectory({ scenarioPath: SCENARIO, outDir: b, seed: 4243, report: false });
     expect(contents(join(b, 'shots.arrow')).value).not.toEqual(contents(join(a, 'shots.arrow')).value);
   }, 60_000);
 });

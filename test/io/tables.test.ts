@@ -14,7 +14,7 @@ import { TOOL_VERSION } from '../../src/io/metadata.ts';
 let dir = '';
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'singleshot-tables-'));
-  await runToDirectory({ scenarioPath: 'test/fixtures/scenarios/small.yaml', outDir: dir });
+  await runToDirectory({ scenarioPath: 'test/fixtures/scenarios/small.yaml', outDir: dir, report: false });
 }, 60_000);
 
 const read = (f: string) => tableFromIPC(readFileSync(join(dir, f)));
@@ -65,7 +65,7 @@ describe('output tables', () => {
   });
 
   it('leaves no temporary files and a complete run.json', () => {
-    expect(readdirSync(dir).sort()).toEqual(['budget.arrow', 'run.json', 'shots.arrow', 'summary.arrow']);
+    expect(readdirSync(dir).sort()).toEqual(['budget.arrow', 'run.json', 'shots.arrow', 'summary.arrow', 'tallies.json']);
     expect(readManifest(dir).complete).toBe(true);
   });
 });

@@ -42,9 +42,6 @@ describe('likelihood classifier vs the best boxcar threshold (10 240 scored shot
     sc.pipelines = pipelines;
     const point = (await runPoints([{ parameters: {}, scenario: sc }])).points[0]!;
     const boxcars = point.summaries.slice(0, FRACTIONS.length);
-    // each boxcar window (its own window, its own attribution) agrees with its analytic budget,
-    // cause by cause (Barthel et al., Phys. Rev. Lett. 103, 160503 (2009); 99.9 % Wilson intervals)
-    for (const s of boxcars) expect(s.agreement, `${o.name}, ${s.pipeline}: simulated ${s.meanError.rate}, analytic ${s.analyticMean}`).toBe(true);
     const best = boxcars.reduce((a, b) => (b.meanErrors < a.meanErrors ? b : a));
     const c = point.comparisons.find((x) => x.a === best.pipeline && x.b === 'likelihood')!;
     // the comparison's p is the exact McNemar test of its discordant counts

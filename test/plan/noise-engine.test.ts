@@ -8,7 +8,7 @@ import { makeScratch, simulateBatch } from '../../src/plan/batch.ts';
 import { runPoints } from '../../src/plan/run.ts';
 import { chiSquareTest } from '../../src/analysis/chi-square.ts';
 import { wilsonInterval } from '../../src/analysis/intervals.ts';
-import { normalCdf } from '../../src/analysis/special.ts';
+import { gaussianTail, normalCdf } from '../../src/analysis/special.ts';
 import { parseScenarioText } from '../../src/scenario/parse.ts';
 import { resolveScenario } from '../../src/scenario/resolve.ts';
 import type { Scenario } from '../../src/scenario/types.ts';
@@ -56,8 +56,29 @@ describe('telegraph noise through the engine (two-level fluctuator; Machlup, J. 
   });
 });
 
+describe('the analytic budget with a slow fluctuator is a mixture, not a Gaussian (plan/noise-budget.ts)', () => {
+  it('per-state errors agree with the mixture budget and not with a Gaussian of the same σ', async () => {
+    // levels 0 and 1, σ 0.2 from white noise, a fluctuator of 0.5 at π = 0.3 that never switches in a window
+    const sc = noiseScenario({
+      carrier: 'none', white: 0.2 * Math.sqrt(200), shotPeriod: 10e-3, levels: [0, 1],
+      signal: { telegraph: [{ name: 'trap', amplitude: 0.5, rateUp: 30, rateDown: 70, injection: 'amplifier', inDetuning: false }] },
+    });
+    const result = await runPoints([{ parameters: {}, scenario: sc }]);
+    const s = result.points[0]!.summaries[0]!;
+    const sigma = Math.sqrt(0.2 ** 2 + 0.25 * 0.3 * 0.7);
+    expect(s.analyticSigma).toBeCloseTo(sigma, 3);
+    const gaussian = gaussianTail(0.5 / sigma); // Q(Δ/2σ) at the midpoint
+    for (const st of s.states) {
+      expect(st.agrees, `${st.state}: simulated ${st.error.rate} [${st.error.low}, ${st.error.high}], mixture ${st.analyticTotal}`).toBe(true);
+    }
+    // the lower state's errors come from the fluctuator's upper state: far above the Gaussian value
+    const low = s.states[0]!;
+    expect(low.error.low, `simulated ${low.error.rate}, Gaussian ${gaussian}`).toBeGreaterThan(gaussian);
+  });
+});
+
 describe('slow noise does not depend on batching (continuous timelines, random access)', () => {
-  it('batch size 1024 and 4096 give identical values, for scored and calibration shots', () => {
+  it.each([true, false])('batch size 1024 and 4096 give identical values, scored and calibration shots (digitizer: %s)', (withDigitizer) => {
     const make = (batchSize: number): Scenario => noiseScenario({
       carrier: 'sine', white: 0.5, t1: 50e-6, shots: 4096, batchSize, shotPeriod: 37e-6,
       signal: {
@@ -67,7 +88,7 @@ describe('slow noise does not depend on batching (continuous timelines, random a
           { name: 'slow', amplitude: -0.3, rateUp: 20, rateDown: 50, injection: 'amplifier', inDetuning: false },
         ],
         response: { timeConstant: 0.3e-6, from: 'zero' },
-        digitizer: { low: -4, high: 4, bits: 10 },
+        digitizer: withDigitizer ? { low: -4, high: 4, bits: 10 } : null,
       },
     });
     const collect = (sc: Scenario, purpose: 'score' | 'calibrate') => {
@@ -89,6 +110,25 @@ describe('slow noise does not depend on batching (continuous timelines, random a
       for (let i = 0; i < small.length; i++) if (small[i] !== large[i]) differ++;
       expect(differ, `${purpose}: values that differ between batch sizes`).toBe(0);
     }
+  });
+
+  it('keeping traces changes no value, and the kept records carry the 1/f noise', () => {
+    const sc = noiseScenario({ carrier: 'sine', white: 0.05, shots: 1024, batchSize: 1024, shotPeriod: 50e-6, signal: { flicker: [flicker('sensor', 1e-2, 100, 100e3)] } });
+    const plain = simulateBatch(compilePoint(sc), 0, 'score', 0, 1024);
+    const kept = simulateBatch(compilePoint({ ...sc, keepTraces: 'raw' }), 0, 'score', 0, 1024);
+    expect(Array.from(kept.values[0]!.inPhase)).toEqual(Array.from(plain.values[0]!.inPhase));
+    // each kept record integrates (Σ K·record, float32 samples) to the shot's value, 1/f included
+    const point = compilePoint(sc);
+    const k = point.pipelines[0]!.kernels;
+    const n = point.grid.samples;
+    let worst = 0;
+    for (let i = 0; i < 64; i++) {
+      let v = 0;
+      for (let j = k.lo; j < k.hi; j++) v += k.inPhase[j]! * kept.traces!.data[i * n + j]!;
+      worst = Math.max(worst, Math.abs(v - plain.values[0]!.inPhase[i]!));
+    }
+    const run = runNoise({ ...sc, shots: 1024 });
+    expect(worst, `largest |Σ K·trace − value| over 64 shots; σ of the value ${run.sigma}`).toBeLessThan(1e-5 * (1 + run.sigma));
   });
 
   it('a batch run alone (a worker or shard) gives the values it gives in sequence', () => {
