@@ -8,7 +8,7 @@ import type { RandomStream } from '../random/stream.ts';
 import { addWhiteNoise, writeSignal } from '../signal/trace.ts';
 import { writeRespondedSignal } from '../signal/response.ts';
 import { digitize } from '../signal/digitizer.ts';
-import { makeNoiseRuntime, type NoiseRuntime } from './compile-noise.ts';
+import { makeNoiseRuntime, type NoiseRuntime } from './noise-runtime.ts';
 import { dotRange } from '../dsp/integrate.ts';
 import type { CompiledPoint } from './compile.ts';
 import { historyTables, makePathStore, sampleHistories, type HistoryTables, type PathStore } from './history.ts';

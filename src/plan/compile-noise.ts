@@ -2,8 +2,8 @@
  * The noise plan of one sweep point, compiled once: white sources (given and from components),
  * 1/f sources on their multi-rate timelines (signal/flicker-timeline.ts) with the tables that
  * interpolate them onto the record grid, telegraph fluctuators (signal/telegraph-timeline.ts),
- * the analog response and the digitizer. `makeNoiseRuntime` turns it into the per-shot hook
- * `addSlowNoise` that batch.ts calls.
+ * the analog response and the digitizer. `makeNoiseRuntime` (noise-runtime.ts) turns it into the
+ * per-shot hooks that batch.ts calls.
  *
  * Where each source enters (record sample k of a shot, gain g, carrier tables c_k, s_k):
  *   record[k] = g·Re((y(t_k) + n_sensor(t_k))·e^(iθ_k)) + g·n_amplifier(t_k) + white
@@ -20,21 +20,19 @@
  * Timelines. Shot i of a purpose starts at i·shotPeriod on that purpose's own timeline (scored,
  * calibration and auxiliary shots do not share noise; the 1/f timeline wraps around after the
  * `capacity` shots it is planned for, which only shots beyond the scenario's own reach).
- * The 1/f base grid has step shotPeriod/m0 (m0 integer, rate ≥ 8·f_high), so every shot sees the same interpolation
- * weights and its base samples are i·m0 + j. Sample k of a record is linearly interpolated
- * between base samples ⌊p_k⌋ and ⌊p_k⌋ + 1, p_k = k·m0/(shotPeriod·fs).
+ * The 1/f base grid has step shotPeriod/m0 (m0 integer, rate ≥ 8·f_high), so every shot sees the
+ * same interpolation weights and its base samples are i·m0 + j. Sample k of a record is linearly
+ * interpolated between base samples ⌊p_k⌋ and ⌊p_k⌋ + 1, p_k = k·m0/(shotPeriod·fs).
  *
  * Stream indices within the point's 'slow-noise' purpose (24 bits):
  *   flicker:   bit 23 = 0 | purpose (2) | source (3) | band (4) | block pair (14)
  *   telegraph: bit 23 = 1 | purpose (2) | seeding block (21)
  */
-import { SEED_BLOCK, makeStream, type StreamPurpose } from '../random/streams.ts';
+import { SEED_BLOCK, type StreamPurpose } from '../random/streams.ts';
 import type { CarrierTables } from '../signal/carrier.ts';
 import type { Grid } from '../signal/grid.ts';
-import {
-  BASE_OVERSAMPLING, PAIRS_PER_BAND, makeFlickerTimeline, planFlickerTimeline, type FlickerBand, type FlickerTimeline,
-} from '../signal/flicker-timeline.ts';
-import { makeTelegraphRecord, makeTelegraphTimeline, type Fluctuator, type TelegraphRecord, type TelegraphTimeline } from '../signal/telegraph-timeline.ts';
+import { BASE_OVERSAMPLING, PAIRS_PER_BAND, planFlickerTimeline, type FlickerBand } from '../signal/flicker-timeline.ts';
+import type { Fluctuator } from '../signal/telegraph-timeline.ts';
 import { responsePowerGain, type ResponseTables } from '../signal/response.ts';
 import { quantisationStep, type DigitizerTables } from '../signal/digitizer.ts';
 import { amplifierVoltageToCurrent, johnsonCurrentDensity, shotCurrentDensity } from '../physics/noise-components.ts';
@@ -296,135 +294,5 @@ function compileFlicker(
     below: { sensor: weights('sensor', 'below'), amplifier: weights('amplifier', 'below') },
     above: { sensor: weights('sensor', 'above'), amplifier: weights('amplifier', 'above') },
     carried: { sensor: carried('sensor'), amplifier: carried('amplifier') },
-  };
-}
-
-/** record[k] += w[j]·below[k] + w[j + 1]·above[k], j = index[k]: the window interpolated onto the record. */
-function addInterpolatedNoise(
-  record: Float64Array, lo: number, hi: number, w: Float64Array, index: Int32Array, below: Float64Array, above: Float64Array,
-): void {
-  for (let k = lo; k < hi; k++) {
-    const j = index[k]!;
-    record[k] += w[j]! * below[k]! + w[j + 1]! * above[k]!;
-  }
-}
-
-/**
- * The per-shot slow-noise hook of one point and purpose (holds the timelines' caches). Per shot:
- * `shot(i)` draws the shot's 1/f window values and telegraph switches; `addTelegraph` and
- * `addFlicker` add them to the record; `flickerValue` gives the 1/f part of a
- * pipeline's value directly from the window (Σ_j G_j·w_j, the same linear map as adding it to the
- * record and integrating, at a fraction of the cost). batch.ts adds the 1/f noise to the record
- * only where the record itself is used beyond the linear values (digitizer, kept traces or bins).
- */
-export interface NoiseRuntime {
-  /** Draws shot `shot`'s slow noise (index within its purpose). */
-  shot(shot: number): void;
-  /** Adds the current shot's telegraph noise to record[lo … hi). */
-  addTelegraph(record: Float64Array, lo: number, hi: number): void;
-  /** Adds the current shot's 1/f noise to record[lo … hi). */
-  addFlicker(record: Float64Array, lo: number, hi: number): void;
-  /** The current shot's 1/f contribution to pipeline p's I (or Q) value. */
-  flickerValue(pipeline: number, quadrature: boolean): number;
-  /** Whether the point has 1/f noise. */
-  readonly hasFlicker: boolean;
-}
-
-/** Makes the slow-noise runtime of a point's plan for one purpose's timeline. */
-export function makeNoiseRuntime(plan: NoisePlan, seed: number, point: number, purpose: StreamPurpose, sampleRate: number, timing: Scenario['timing']): NoiseRuntime {
-  const fl = plan.flicker;
-  const timelines: FlickerTimeline[] = fl
-    ? fl.sources.map((s) => makeFlickerTimeline(s.bands, (band, pair) => makeStream(seed, point, 'slow-noise', flickerStreamIndex(purpose, s.source, band, pair))))
-    : [];
-  const windows: Record<NoiseInjection, Float64Array> = {
-    sensor: new Float64Array(fl ? fl.width + 1 : 0), amplifier: new Float64Array(fl ? fl.width + 1 : 0),
-  };
-  const tp = plan.telegraph;
-  const telegraph: TelegraphTimeline | null = tp
-    ? makeTelegraphTimeline(tp.fluctuators, { period: timing.shotPeriod, recordLength: timing.recordLength, shotsPerBlock: SEED_BLOCK },
-      (block) => makeStream(seed, point, 'slow-noise', telegraphStreamIndex(purpose, block)))
-    : null;
-  const telegraphRecord: TelegraphRecord | null = tp ? makeTelegraphRecord(tp.fluctuators.length) : null;
-
-  function drawFlicker(shot: number): void {
-    const f = fl!;
-    // shots beyond the planned ones (auxiliary shots, benchmarks) wrap around the timeline
-    const J0 = (shot % f.capacity) * f.step + f.offset;
-    for (const injection of ['sensor', 'amplifier'] as const) {
-      if (!f.below[injection]) continue;
-      const w = windows[injection];
-      w.fill(0);
-      f.sources.forEach((s, i) => { if (s.injection === injection) timelines[i]!.addRange(w, 0, J0, f.width); });
-    }
-  }
-
-  function addFlicker(record: Float64Array, lo: number, hi: number): void {
-    const f = fl!;
-    for (const injection of ['sensor', 'amplifier'] as const) {
-      const below = f.below[injection], above = f.above[injection];
-      if (below && above) addInterpolatedNoise(record, lo, hi, windows[injection], f.index, below, above);
-    }
-  }
-
-  function addTelegraph(record: Float64Array, lo: number, hi: number): void {
-    const r = telegraphRecord!;
-    const p = tp!;
-    let e = 0;
-    for (let fi = 0; fi < p.fluctuators.length; fi++) {
-      const a = p.fluctuators[fi]!.amplitude;
-      const sensor = p.injections[fi] === 'sensor';
-      let state = r.start[fi]!;
-      let k = lo;
-      for (;;) {
-        const switching = e < r.count && r.which[e] === fi;
-        const until = switching ? Math.min(hi, Math.max(lo, Math.ceil(r.times[e]! * sampleRate))) : hi;
-        if (state === 1 && until > k) {
-          if (sensor) {
-            const w = plan.sensorWeight;
-            for (let q = k; q < until; q++) record[q] += a * w[q]!;
-          } else {
-            const v = a * plan.gain;
-            for (let q = k; q < until; q++) record[q] += v;
-          }
-        }
-        if (until > k) k = until;
-        if (!switching) break;
-        state = 1 - state;
-        e++;
-      }
-    }
-  }
-
-  return {
-    hasFlicker: fl !== null,
-    shot(shot) {
-      if (fl) drawFlicker(shot);
-      if (telegraph) telegraph.record(shot, telegraphRecord!);
-    },
-    addTelegraph(record, lo, hi) {
-      if (telegraph) addTelegraph(record, lo, hi);
-    },
-    addFlicker(record, lo, hi) {
-      if (fl) addFlicker(record, lo, hi);
-    },
-    flickerValue(p, quadrature) {
-      if (!fl) return 0;
-      let v = 0;
-      for (const injection of ['sensor', 'amplifier'] as const) {
-        const c = fl.carried[injection]?.[p];
-        const g = c ? (quadrature ? c.quadrature : c.inPhase) : null;
-        if (!g) continue;
-        const w = windows[injection];
-        let s0 = 0, s1 = 0;
-        let j = 0;
-        for (; j + 1 < g.length; j += 2) {
-          s0 += g[j]! * w[j]!;
-          s1 += g[j + 1]! * w[j + 1]!;
-        }
-        if (j < g.length) s0 += g[j]! * w[j]!;
-        v += s0 + s1;
-      }
-      return v;
-    },
   };
 }

@@ -1,9 +1,16 @@
 /**
  * Predicted σ of a pipeline's integrated value, source by source, from the filter function
  * (signal/filter-function.ts): σ² = ∫ S(f)·|H(f)|² df per source, with H the whole path from
- * the source's injection point to the value — the projected kernel K on the record grid, times
- * the gain, times the carrier for sensor-side noise (so a carrier shifts amplifier-side noise
- * to ±f_c, where the demodulation reference brings sensor-side noise back to baseband).
+ * the source's injection point to the value.
+ *
+ * Derivation. The value is V = Σ_k K_k·record_k (K the projected kernel: demodulation reference,
+ * filters, window weights). A sensor-side source n(t) enters as g·c_k·n(t_k) (gain g, carrier
+ * c_k; the analog response H_a is already in n, whose spectrum is S·|H_a|²), so V gets
+ * Σ_k x_k·n(t_k) with x_k = K_k·g·c_k; an amplifier-side source has x_k = K_k·g. With a sine
+ * carrier and the factor-2 reference, K_k·c_k = (2/L)·cos(θ_k + φ)·cos θ_k = (1/L)·[cos φ +
+ * cos(2θ_k + φ)]: sensor-side noise is integrated like a baseband boxcar (the carrier does not
+ * help), while for amplifier-side noise |H_x(f)|² sits at ±f_c and low-frequency noise only meets
+ * its sinc side lobes, ∝ (πτ(f_c − f))^−2 (the carrier removes it).
  *
  * - white: σ²_sample·Σ K² (independent samples); every component separately, so they add up;
  * - 1/f: Σ over bands of gᵀ·R̄·g with g the kernel carried onto each band's grid through the

@@ -189,3 +189,50 @@ signal:
     expect(Math.abs(s.sigma / s.analyticSigma - 1), `simulated σ ${s.sigma}, analytic ${s.analyticSigma}`).toBeLessThan(0.03);
   });
 });
+
+describe('noise results in the outputs', () => {
+  it('--json has noiseBudget and predictedSigma, summary.arrow one σ and one share column per source, clipping is counted and warned', async () => {
+    const { mkdtempSync, writeFileSync, rmSync } = await import('node:fs');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const { runToDirectory } = await import('../../src/io/run-to-directory.ts');
+    const { resultToJson } = await import('../../src/io/json.ts');
+    const { summaryColumns } = await import('../../src/io/tables/summary.ts');
+    const dir = mkdtempSync(join(tmpdir(), 'noise-out-'));
+    try {
+      const file = join(dir, 'clip.yaml');
+      writeFileSync(file, `
+name: clipping
+seed: 4
+shots: 2048
+calibrationShots: 2048
+timing: { sampleRate: 10 MHz, recordLength: 10 us }
+states:
+  - { name: low, level: 0 pA, outcome: "0" }
+  - { name: high, level: 100 pA, outcome: "1" }
+signal:
+  digitizer: { low: -150 pA, high: 150 pA, bits: 8 }
+  noise:
+    white: { perSample: 60 pA }
+    flicker: { name: drift, density: 20 pA/rtHz, low: 10 Hz, high: 100 kHz, injection: sensor }
+`);
+      const warnings: string[] = [];
+      const { result } = await runToDirectory({ scenarioPath: file, outDir: join(dir, 'out'), shotsTable: false, report: false, onWarning: (w) => warnings.push(w) });
+      const json = resultToJson(result).points as Record<string, any>[];
+      const p = json[0]!;
+      expect(Object.keys(p.predictedSigma).sort()).toEqual(['drift', 'quantisation', 'total', 'white']);
+      expect(p.predictedSigma.total).toBeCloseTo(p.analyticSigma, 20);
+      expect(p.noiseBudget.map((b: any) => b.source)).toEqual(['white', 'drift', 'quantisation']);
+      expect(p.noiseBudget.reduce((a: number, b: any) => a + b.share, 0)).toBeCloseTo(1, 12);
+      // 100 pA + 60 pA per-sample noise against a ±150 pA range: some samples clip
+      expect(p.clippedSamples).toBeGreaterThan(0);
+      expect(warnings.some((w) => /clipped \d+ scored record samples/.test(w)), warnings.join('\n')).toBe(true);
+      const names = summaryColumns(result.points, 'A').map((c) => c.name);
+      for (const n of ['predicted_sigma', 'predicted_sigma_white', 'noise_share_white', 'predicted_sigma_drift', 'noise_share_drift', 'clipped_samples']) {
+        expect(names, n).toContain(n);
+      }
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});

@@ -14,6 +14,10 @@ import type { KeyPath } from '../issues.ts';
 import type { SignalUse } from './states.ts';
 import { formatQuantity } from '../units.ts';
 import { planFlickerTimeline, BASE_OVERSAMPLING } from '../../signal/flicker-timeline.ts';
+import { MAX_FLICKER_SOURCES } from '../../plan/compile-noise.ts';
+
+/** Most fluctuators per point. */
+export const MAX_FLUCTUATORS = 16;
 
 const positive = { min: 0, minExclusive: true } as const;
 
@@ -122,6 +126,9 @@ export function resolveNoiseExtras(
   };
   for (const w of ['white', 'johnson', 'shot', 'amplifierVoltage', 'amplifierCurrent', 'quantisation']) names.add(w);
 
+  if (flickerDocs.length > MAX_FLICKER_SOURCES) ctx.fail([...at, 'flicker'], `at most ${MAX_FLICKER_SOURCES} 1/f sources`, `${flickerDocs.length}`);
+  const telegraphDocs = list(doc?.telegraph);
+  if (telegraphDocs.length > MAX_FLUCTUATORS) ctx.fail([...at, 'telegraph'], `at most ${MAX_FLUCTUATORS} fluctuators`, `${telegraphDocs.length}`);
   const flicker: FlickerNoiseSpec[] = flickerDocs.map((f, i) => {
     const p: KeyPath = single('flicker') ? [...at, 'flicker'] : [...at, 'flicker', i];
     const inDetuning = signalOrDetuning(f.density, [...p, 'density'], inputs, uses, ctx);
@@ -147,7 +154,7 @@ export function resolveNoiseExtras(
     };
   });
 
-  const telegraph: TelegraphNoiseSpec[] = list(doc?.telegraph).map((t, i) => {
+  const telegraph: TelegraphNoiseSpec[] = telegraphDocs.map((t, i) => {
     const p: KeyPath = single('telegraph') ? [...at, 'telegraph'] : [...at, 'telegraph', i];
     const inDetuning = signalOrDetuning(t.amplitude, [...p, 'amplitude'], inputs, uses, ctx);
     const rate = (r: number | undefined, dwell: number | undefined, rk: string, dk: string): number => {
