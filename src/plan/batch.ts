@@ -112,7 +112,7 @@ export function forEachBlock(
   // rejection scratch (grown to a record's length) is then allocated once per batch, not per block
   const stream = blocks.current();
   for (let from = 0; from < batch.count; from += SEED_BLOCK) {
-    if (from > 0) stream.s.set(blocks.next().s);
+    if (from > 0) blocks.advanceInto(stream);
     body(stream, from, Math.min(batch.count, from + SEED_BLOCK));
   }
 }

@@ -24,7 +24,7 @@ import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../random/streams.
 import type { RandomStream } from '../random/stream.ts';
 import { makeScratch, makeShotBatch, scratchHistory, type BatchScratch, type ShotBatch } from './batch.ts';
 import type { CompiledPoint } from './compile.ts';
-import { sampleHistories } from './history.ts';
+import { sampleHistories, type PathStore } from './history.ts';
 
 /** Normals per addNormals call (its rejection scratch holds 256 entries). */
 const NORMAL_PIECE = 256;
@@ -33,6 +33,8 @@ const NORMAL_PIECE = 256;
 export interface ExactTables {
   /** Number of nonzero outputs (I of every pipeline, Q of those with a carrier). */
   outputs: number;
+  /** Number of hidden states (rows of `full` per output). */
+  states: number;
   /** For output d: its pipeline and whether it is Q. */
   pipeline: Int32Array;
   isQuadrature: Uint8Array;
@@ -114,7 +116,7 @@ export function exactTables(point: CompiledPoint): ExactTables {
     };
   }
   return {
-    response,
+    response, states,
     outputs: n, pipeline: Int32Array.from(pipeline), isQuadrature: Uint8Array.from(isQ),
     lo: Int32Array.from(kernels, (k) => k.lo), hi: Int32Array.from(kernels, (k) => k.hi),
     prefix, full, factor, columns: Int32Array.from(columns), sampleRate: point.grid.sampleRate,
@@ -153,48 +155,66 @@ export function simulateExactBatch(
   const history = scratchHistory(point, scratch);
   const t = scratch.exact;
   const { store } = scratch;
-  const normals = scratch.normals;
-  const n = t.outputs, nCols = t.columns.length;
-  const states = point.waveforms.length;
-  const targets = Array.from({ length: n }, (_, d) => {
-    const v = out.values[t.pipeline[d]!]!;
-    return t.isQuadrature[d] ? v.quadrature : v.inPhase;
-  });
+  const targets = outputTargets(t, out);
   const blocks = new BlockStreams(point.scenario.seed, pointIndex, purpose, out.firstShot / SEED_BLOCK);
-  const offset = store.offset;
+  const stream = blocks.current();
   for (let from = 0; from < count; from += SEED_BLOCK) {
-    const stream = from === 0 ? blocks.current() : blocks.next();
+    if (from > 0) blocks.advanceInto(stream);
     const to = Math.min(count, from + SEED_BLOCK);
-    const len = to - from;
     sampleHistories(history, stream, out, from, to, store);
-    // (the jump arrays may have grown while sampling)
-    const times = store.times, entered = store.entered;
-    if (nCols > 0) drawNormals(stream, normals, nCols * len);
-    for (let d = 0; d < n; d++) {
-      const y = targets[d]!;
-      // the no-jump signal and the noise in one pass: y = full[state] + Σ_j L[d][j]·z_j
-      const c0 = nCols > 0 && t.columns[0]! <= d ? t.factor[d * n + t.columns[0]!]! : 0;
-      const c1 = nCols > 1 && t.columns[1]! <= d ? t.factor[d * n + t.columns[1]!]! : 0;
-      noJumpPart(y, from, to, t.full, d * states, out.initial, c0, normals, 0, c1, normals, len);
-      for (let c = 2; c < nCols; c++) {
-        const j = t.columns[c]!;
-        if (j > d) break;
-        addScaled(y, from, to, t.factor[d * n + j]!, normals, c * len);
-      }
-      // shots with jumps inside the record: replace the no-jump signal by the path's
-      for (let i = from; i < to; i++) {
-        const a = offset[i - from]!, b = offset[i - from + 1]!;
-        if (a === b) continue;
-        const start = out.initial[i]!;
-        const value = t.response
-          ? respondedPathValue(t, d, states, start, times, entered, a, b)
-          : pathValue(t.prefix, d * states, t.lo[d]!, t.hi[d]!, t.sampleRate, start, times, entered, a, b);
-        y[i] += value - t.full[d * states + start]!;
-      }
-    }
+    blockValues(t, stream, scratch.normals, targets, out.initial, from, to, store);
   }
   addAcrossShotNoise(point, out);
   return out;
+}
+
+/** The value array of each output d (I or Q of its pipeline) in a batch. */
+export function outputTargets(t: ExactTables, out: Pick<ShotBatch, 'values'>): Float64Array[] {
+  return Array.from({ length: t.outputs }, (_, d) => {
+    const v = out.values[t.pipeline[d]!]!;
+    return t.isQuadrature[d] ? v.quadrature : v.inPhase;
+  });
+}
+
+/**
+ * The values of one seeding block's shots [from, to), whose histories were just drawn from
+ * `stream` (initial states in `initial`, jumps in `store`, store index = shot − from): draws the
+ * block's normals (column j of the Cholesky factor for all the block's shots, j ascending) and
+ * writes targets[d][i] for every output d.
+ */
+export function blockValues(
+  t: ExactTables, stream: RandomStream, normals: Float64Array, targets: readonly Float64Array[], initial: Uint8Array,
+  from: number, to: number, store: PathStore,
+): void {
+  const n = t.outputs, nCols = t.columns.length;
+  const states = t.states;
+  const len = to - from;
+  const offset = store.offset;
+  // (the jump arrays may have grown while sampling)
+  const times = store.times, entered = store.entered;
+  if (nCols > 0) drawNormals(stream, normals, nCols * len);
+  for (let d = 0; d < n; d++) {
+    const y = targets[d]!;
+    // the no-jump signal and the noise in one pass: y = full[state] + Σ_j L[d][j]·z_j
+    const c0 = nCols > 0 && t.columns[0]! <= d ? t.factor[d * n + t.columns[0]!]! : 0;
+    const c1 = nCols > 1 && t.columns[1]! <= d ? t.factor[d * n + t.columns[1]!]! : 0;
+    noJumpPart(y, from, to, t.full, d * states, initial, c0, normals, 0, c1, normals, len);
+    for (let c = 2; c < nCols; c++) {
+      const j = t.columns[c]!;
+      if (j > d) break;
+      addScaled(y, from, to, t.factor[d * n + j]!, normals, c * len);
+    }
+    // shots with jumps inside the record: replace the no-jump signal by the path's
+    for (let i = from; i < to; i++) {
+      const a = offset[i - from]!, b = offset[i - from + 1]!;
+      if (a === b) continue;
+      const start = initial[i]!;
+      const value = t.response
+        ? respondedPathValue(t, d, states, start, times, entered, a, b)
+        : pathValue(t.prefix, d * states, t.lo[d]!, t.hi[d]!, t.sampleRate, start, times, entered, a, b);
+      y[i] += value - t.full[d * states + start]!;
+    }
+  }
 }
 
 /**

@@ -115,9 +115,8 @@ const INV_TWO_POW_32 = 1 / 4294967296;
 export function sampleHistories(
   t: HistoryTables, stream: RandomStream, out: HistoryColumns, from: number, to: number, store: PathStore,
 ): void {
-  const n = t.states;
-  const last = n - 1;
-  const { prepareCumulative, exitRate, cumulative, jumpCause, recordLength, windowStartTime, lastWindowSample } = t;
+  const last = t.states - 1;
+  const { prepareCumulative, exitRate, recordLength } = t;
   const { prepProbability, prepInto, mapProbability, mapInto, anyPrep, anyMap, noJumpCut } = t;
   const intendedCol = out.intended, preparedCol = out.prepared, initialCol = out.initial;
   const atStartCol = out.atWindowStart, atEndCol = out.atWindowEnd, firstCol = out.firstJump, causeCol = out.jumpCause;
@@ -126,15 +125,16 @@ export function sampleHistories(
   let s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
   let m = 0, r = 0, x = 0, n2 = 0, n3 = 0;
   let nj = 0;
+  const firstCut = prepareCumulative[0] ?? 2;
   for (let i = from; i < to; i++) {
     offset[i - from] = nj;
     // xoshiro128** step (as random/stream.ts nextInt32), inline
     m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
     x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
     let u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
-    // the first k with u ≤ cumulative[k]: a count, without branches
-    let intended = 0;
-    for (let k = 0; k < last; k++) intended += +(u > prepareCumulative[k]!);
+    // the first k with u ≤ cumulative[k]: without a branch for two states (a loop here costs
+    // more than the whole draw), else a short search
+    const intended = last === 1 ? +(u > firstCut) : firstAbove(prepareCumulative, last, u);
     let prepared = intended;
     if (anyPrep) {
       m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
@@ -161,34 +161,55 @@ export function sampleHistories(
     x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
     u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
     if (u < noJumpCut[initial]!) continue;
-    let time = -Math.log(u) / exitRate[initial]!;
+    const time = -Math.log(u) / exitRate[initial]!;
     if (time >= recordLength) continue;
     // rare: jumps inside the record; the chain continues through the stream's own methods
+    // (outside this loop, which keeps the common path's registers free)
     st[0] = s0; st[1] = s1; st[2] = s2; st[3] = s3;
-    let state = initial, atStart = initial, atEnd = initial;
-    firstCol[i] = time;
-    for (let j = 0; ; j++) {
-      const v = stream.nextDouble();
-      let next = 0;
-      const row = state * n;
-      while (next < last && v > cumulative[row + next]!) next++;
-      if (nj === store.times.length) growJumps(store);
-      store.times[nj] = time;
-      store.entered[nj] = next;
-      nj++;
-      if (j === 0 && time <= lastWindowSample) causeCol[i] = jumpCause[row + next]!;
-      if (time <= windowStartTime) atStart = next;
-      if (time <= lastWindowSample) atEnd = next;
-      state = next;
-      const exit = exitRate[state]!;
-      if (exit <= 0) break;
-      time += stream.nextExponential(exit);
-      if (time >= recordLength) break;
-    }
-    atStartCol[i] = atStart;
-    atEndCol[i] = atEnd;
+    nj = walkChain(t, stream, out, i, initial, time, store, nj);
     s0 = st[0]!; s1 = st[1]!; s2 = st[2]!; s3 = st[3]!;
   }
   st[0] = s0; st[1] = s1; st[2] = s2; st[3] = s3;
   offset[to - from] = nj;
+}
+
+/** The first k < last with u ≤ c[k], else last. */
+function firstAbove(c: Float64Array, last: number, u: number): number {
+  let k = 0;
+  while (k < last && u > c[k]!) k++;
+  return k;
+}
+
+/**
+ * The jump chain of shot i, whose first jump is at `first` (the stream's state is the loop's):
+ * fills the shot's jump columns and path store; returns the store's new jump count.
+ */
+function walkChain(
+  t: HistoryTables, stream: RandomStream, out: HistoryColumns, i: number, initial: number, first: number, store: PathStore, nj: number,
+): number {
+  const n = t.states, last = n - 1;
+  const { cumulative, exitRate, jumpCause, recordLength, windowStartTime, lastWindowSample } = t;
+  let state = initial, atStart = initial, atEnd = initial, time = first;
+  out.firstJump[i] = time;
+  for (let j = 0; ; j++) {
+    const v = stream.nextDouble();
+    let next = 0;
+    const row = state * n;
+    while (next < last && v > cumulative[row + next]!) next++;
+    if (nj === store.times.length) growJumps(store);
+    store.times[nj] = time;
+    store.entered[nj] = next;
+    nj++;
+    if (j === 0 && time <= lastWindowSample) out.jumpCause[i] = jumpCause[row + next]!;
+    if (time <= windowStartTime) atStart = next;
+    if (time <= lastWindowSample) atEnd = next;
+    state = next;
+    const exit = exitRate[state]!;
+    if (exit <= 0) break;
+    time += stream.nextExponential(exit);
+    if (time >= recordLength) break;
+  }
+  out.atWindowStart[i] = atStart;
+  out.atWindowEnd[i] = atEnd;
+  return nj;
 }

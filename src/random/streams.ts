@@ -27,7 +27,7 @@
  * jump polynomial); bench/dieharder.sh runs the raw output through dieharder.
  */
 import seedrandom from 'seedrandom';
-import { jumpStreams, STREAM_INDEX_BITS } from './jump.ts';
+import { jumpOneStream, jumpStreams, STREAM_INDEX_BITS } from './jump.ts';
 import { RandomStream } from './stream.ts';
 
 /** What a stream is used for; each purpose has its own range of stream indices. */
@@ -105,8 +105,19 @@ export class BlockStreams {
 
   /** Moves to the next block and returns its stream. */
   next(): RandomStream {
-    jumpStreams(this.start, 1);
+    jumpOneStream(this.start);
     this.block++;
     return this.current();
+  }
+
+  /**
+   * Moves to the next block and puts `stream` at its start, in place: no new stream (and no
+   * new rejection scratch) per block.
+   */
+  advanceInto(stream: RandomStream): void {
+    jumpOneStream(this.start);
+    this.block++;
+    const s = stream.s, t = this.start;
+    s[0] = t[0]! | 0; s[1] = t[1]! | 0; s[2] = t[2]! | 0; s[3] = t[3]! | 0;
   }
 }
