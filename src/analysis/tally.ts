@@ -22,11 +22,14 @@ export interface Tally {
 }
 
 export function emptyTally(states: number, outcomes: number): Tally {
+  // (a plain loop: Array.from({ length }) costs more than the typed arrays; one tally per seeding block)
+  const clean: Moments[] = [];
+  for (let s = 0; s < states; s++) clean.push(emptyMoments());
   return {
     states, outcomes,
     assignments: new Float64Array(states * outcomes),
     causes: new Float64Array(states * CAUSES.length),
-    clean: Array.from({ length: states }, () => emptyMoments()),
+    clean,
     discarded: new Float64Array(states),
     discardedWrong: new Float64Array(states),
   };
@@ -82,11 +85,14 @@ export function addToTally(tally: Tally, b: TallyInput, chunk = 1024): Tally {
 /** Merges two tallies (a first, then b). */
 export function mergeTallies(a: Tally, b: Tally): Tally {
   const out = emptyTally(a.states, a.outcomes);
-  out.assignments.set(a.assignments.map((x, i) => x + b.assignments[i]!));
-  out.causes.set(a.causes.map((x, i) => x + b.causes[i]!));
-  out.clean = a.clean.map((m, s) => mergeMoments(m, b.clean[s]!));
-  out.discarded.set(a.discarded.map((x, i) => x + b.discarded[i]!));
-  out.discardedWrong.set(a.discardedWrong.map((x, i) => x + b.discardedWrong[i]!));
+  const add = (x: Float64Array, y: Float64Array, into: Float64Array) => {
+    for (let i = 0; i < into.length; i++) into[i] = x[i]! + y[i]!;
+  };
+  add(a.assignments, b.assignments, out.assignments);
+  add(a.causes, b.causes, out.causes);
+  for (let s = 0; s < a.states; s++) out.clean[s] = mergeMoments(a.clean[s]!, b.clean[s]!);
+  add(a.discarded, b.discarded, out.discarded);
+  add(a.discardedWrong, b.discardedWrong, out.discardedWrong);
   return out;
 }
 

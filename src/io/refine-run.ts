@@ -74,8 +74,10 @@ export async function refineWithin(
     const before = gridShots + (index - points.length) * point.scenario.shots;
     const total = gridShots + count * point.scenario.shots;
     const executor = o.signal ? interruptibleExecutor(inProcessExecutor(), o.signal) : inProcessExecutor();
+    // the run's engine (a refinement point differs from the grid only in the swept value)
     const r = await runPoints(all, {
       executor, firstPoint: index, onScoredBatch: o.onScoredBatch,
+      engine: { engine: result.engine === 'exact' ? 'exact' : 'traces', reason: result.engineReason },
       onProgress: o.onProgress ? (done) => o.onProgress!(before + done, total) : undefined,
     });
     const p = r.points[0]!;

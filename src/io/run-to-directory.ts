@@ -96,8 +96,11 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   loaded.warnings.forEach((w) => o.onWarning?.(w));
   const points = withKeptTraces(sweepExpander(loaded, o.scenarioPath), o.keepTraces);
   if (o.refine) checkRefineRequest(o.refine, loaded, o.scenarioPath, o.shard);
+  // the engine is chosen before anything is estimated or written: the estimate depends on it,
+  // and every table's metadata names it and why
+  const choice = resolveEngine(points, o.engine);
   const estimate = estimateRun(points.map((p) => p.scenario), {
-    shotsTable: o.shotsTable !== false, shard: o.shard, workers: o.workers,
+    shotsTable: o.shotsTable !== false, shard: o.shard, workers: o.workers, engine: choice.engine,
     traces: o.keepTraces ? keptTracesEstimate(points[0]!.scenario, o.keepTraces) : undefined,
   });
   o.onEstimate?.(estimate);
@@ -106,8 +109,6 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   prepareOutputDir(o.outDir, o.force ?? false);
   const first = points[0]!.scenario;
   const shard = o.shard ? `${o.shard.index + 1}/${o.shard.count}` : '1/1';
-  // the engine is chosen before any table opens: every table's metadata names it and why
-  const choice = resolveEngine(points, o.engine);
   const provenance: RunProvenance = { scenario: loaded.canonical, seed: first.seed, engine: choice.engine, engineReason: choice.reason, shard };
   const files: string[] = [];
   writeManifest(o.outDir, { complete: false, seed: first.seed, engine: provenance.engine, engineReason: choice.reason, shard, files, scenario: loaded.canonical });

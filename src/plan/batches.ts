@@ -4,6 +4,7 @@
  * process, reproduces exactly the same shots. Shards take contiguous runs of batches.
  */
 import type { StreamPurpose } from '../random/streams.ts';
+import type { FusedScoring } from './exact-fused.ts';
 import type { Scenario } from '../scenario/types.ts';
 
 export interface BatchTask {
@@ -13,6 +14,11 @@ export interface BatchTask {
   count: number;
   /** Engine that runs it (plan/engine.ts); default the trace engine. */
   engine?: 'exact' | 'traces';
+  /**
+   * Exact engine only: score and tally the shots where they are simulated and return a
+   * TalliedBatch instead of the per-shot columns (exact-fused.ts; runs without a shots table).
+   */
+  scoring?: FusedScoring;
 }
 
 /** Number of batches of a point for a purpose. */

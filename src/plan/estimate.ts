@@ -15,6 +15,14 @@ import type { Scenario } from '../scenario/types.ts';
  * the estimate is the same on every run.
  */
 export const CONSERVATIVE_SAMPLES_PER_SECOND = 25e6;
+/**
+ * Conservative cost of one shot in the exact-statistic engine (history, joint Gaussian,
+ * scoring and tallies; no samples), in seconds: a few times the 30–50 ns measured on the same
+ * loaded machine, so that many pipelines and slower machines are not under-estimated.
+ */
+export const EXACT_SECONDS_PER_SHOT = 2e-7;
+/** Conservative extra cost of each pipeline output (I or Q) per exact-engine shot, in seconds. */
+export const EXACT_SECONDS_PER_OUTPUT = 2e-8;
 /** Conservative cost of one hidden-state jump (exponential draw, table walk), in seconds. */
 export const SECONDS_PER_JUMP = 2e-7;
 /** Memory of the process itself (Node, modules, tables of the engine), bytes. */
@@ -56,8 +64,10 @@ export interface EstimateOptions {
   shard?: { index: number; count: number };
   /** Kept traces, if any. */
   traces?: TraceEstimate;
-  /** Throughput to assume per worker (default CONSERVATIVE_SAMPLES_PER_SECOND). */
+  /** Throughput to assume per worker (default CONSERVATIVE_SAMPLES_PER_SECOND; trace engine). */
   samplesPerSecond?: number;
+  /** The engine that will run (default 'traces'): the exact engine costs per shot, not per sample. */
+  engine?: 'exact' | 'traces';
 }
 
 /** The estimate, with the parts that make it up (for the message). */
@@ -119,8 +129,14 @@ export function estimateRun(scenarios: readonly Scenario[], o: EstimateOptions =
     arrowBatches += Math.ceil(scored / s.batchSize) * p;
     const shots = scored + s.calibrationShots;
     samples += shots * n;
-    const sampleCost = 1 + 0.5 * p;
-    seconds += (shots * n * sampleCost) / rate + shots * jumpsPerRecord(s) * SECONDS_PER_JUMP;
+    const jumps = shots * jumpsPerRecord(s) * SECONDS_PER_JUMP;
+    if (o.engine === 'exact') {
+      // no record is synthesised: a fixed cost per shot and output (I and Q of each pipeline)
+      seconds += shots * (EXACT_SECONDS_PER_SHOT + 2 * p * EXACT_SECONDS_PER_OUTPUT) + jumps;
+    } else {
+      const sampleCost = 1 + 0.5 * p;
+      seconds += (shots * n * sampleCost) / rate + jumps;
+    }
   }
   memory.compiled = compiled;
   memory.calibration = calibration;

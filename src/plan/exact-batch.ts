@@ -168,6 +168,9 @@ export function simulateExactBatch(
   return out;
 }
 
+/** Scratch of blockValues: the block's shots with jumps. */
+const jumpingShots = new Int32Array(SEED_BLOCK);
+
 /** The value array of each output d (I or Q of its pipeline) in a batch. */
 export function outputTargets(t: ExactTables, out: Pick<ShotBatch, 'values'>): Float64Array[] {
   return Array.from({ length: t.outputs }, (_, d) => {
@@ -193,6 +196,10 @@ export function blockValues(
   // (the jump arrays may have grown while sampling)
   const times = store.times, entered = store.entered;
   if (nCols > 0) drawNormals(stream, normals, nCols * len);
+  // the block's shots with jumps inside the record (store index)
+  const jumping = jumpingShots;
+  let nJumping = 0;
+  for (let j = 0; j < len; j++) if (offset[j] !== offset[j + 1]) jumping[nJumping++] = j;
   for (let d = 0; d < n; d++) {
     const y = targets[d]!;
     // the no-jump signal and the noise in one pass: y = full[state] + Σ_j L[d][j]·z_j
@@ -205,9 +212,9 @@ export function blockValues(
       addScaled(y, from, to, t.factor[d * n + j]!, normals, c * len);
     }
     // shots with jumps inside the record: replace the no-jump signal by the path's
-    for (let i = from; i < to; i++) {
+    for (let k = 0; k < nJumping; k++) {
+      const i = from + jumping[k]!;
       const a = offset[i - from]!, b = offset[i - from + 1]!;
-      if (a === b) continue;
       const start = initial[i]!;
       const value = t.response
         ? respondedPathValue(t, d, states, start, times, entered, a, b)
@@ -222,8 +229,8 @@ export function blockValues(
  * NORMAL_PIECE so the generator's rejection scratch is never reallocated.
  */
 function drawNormals(stream: RandomStream, out: Float64Array, count: number): void {
-  out.fill(0, 0, count);
-  for (let i = 0; i < count; i += NORMAL_PIECE) stream.addNormals(out, i, Math.min(NORMAL_PIECE, count - i), 1);
+  // (fillNormals = zero + addNormals(…, 1), piece by piece: the pieces fix the draw order)
+  for (let i = 0; i < count; i += NORMAL_PIECE) stream.fillNormals(out, i, Math.min(NORMAL_PIECE, count - i));
 }
 
 /** y[i] += c·z[z0 + i − from] for i in [from, to). */

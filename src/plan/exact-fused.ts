@@ -76,13 +76,17 @@ interface FusedScratch {
   wrong: Uint8Array[];
   /** The pipeline's own first-jump cause per shot. */
   jumpCause: Uint8Array;
+  /** tallyBlock: shots per (state, outcome); clean shots per state and their values (state·SEED_BLOCK + k). */
+  counts: Int32Array;
+  cleanCount: Int32Array;
+  cleanValues: Float64Array;
 }
 
 const fusedScratches = new WeakMap<ExactScratch, FusedScratch>();
 
-function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number): FusedScratch {
+function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number, states: number, outcomes: number): FusedScratch {
   let f = fusedScratches.get(scratch);
-  if (!f || f.values.length !== outputs || f.wrong.length !== pipelines) {
+  if (!f || f.values.length !== outputs || f.wrong.length !== pipelines || f.cleanCount.length < states || f.counts.length < states * outcomes) {
     const u8 = () => new Uint8Array(SEED_BLOCK);
     f = {
       columns: {
@@ -92,6 +96,7 @@ function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number)
       values: Array.from({ length: outputs }, () => new Float64Array(SEED_BLOCK)),
       wrong: Array.from({ length: pipelines }, u8),
       jumpCause: u8(),
+      counts: new Int32Array(states * outcomes), cleanCount: new Int32Array(states), cleanValues: new Float64Array(states * SEED_BLOCK),
     };
     fusedScratches.set(scratch, f);
   }
@@ -118,7 +123,7 @@ export function simulateTalliedBatch(
   const states = sc.states.length, outcomes = sc.outcomes.length;
   const outcomeOf = Uint8Array.from(sc.states, (s) => s.outcome);
   const nPipes = scoring.pipelines.length;
-  const f = fusedScratch(scratch, t.outputs, nPipes);
+  const f = fusedScratch(scratch, t.outputs, nPipes, states, outcomes);
   const { columns, values } = f;
   // output index of each pipeline's I and Q (−1: no Q, the value is 0)
   const iOut = new Int32Array(nPipes).fill(-1), qOut = new Int32Array(nPipes).fill(-1);
@@ -139,7 +144,7 @@ export function simulateTalliedBatch(
       const leaf = emptyTally(states, outcomes);
       const jumpCause = s.lastSample === null ? columns.jumpCause : windowedJumpCause(columns, s.lastSample, len, f.jumpCause);
       tallyBlock(
-        leaf, s, values[iOut[p]!]!, qOut[p]! >= 0 ? values[qOut[p]!]! : zeros, columns, jumpCause, outcomeOf, len, f.wrong[p]!,
+        leaf, s, values[iOut[p]!]!, qOut[p]! >= 0 ? values[qOut[p]!]! : zeros, columns, jumpCause, outcomeOf, len, f.wrong[p]!, f,
       );
       leaves[p]!.push(leaf);
     }
@@ -158,39 +163,116 @@ function windowedJumpCause(c: HistoryColumns, last: number, len: number, out: Ui
  * Scores one pipeline on a block's shots and adds them to `leaf` (a fresh tally): the
  * arithmetic of project(), classifyAllByThreshold(), attributeCause() and addToTally() with
  * one chunk, in the same order. Writes each shot's cause to `wrong`.
+ *
+ * Written for speed, without changing a bit: one pass projects and decides without
+ * data-dependent branches (outcomes are near 50/50), counts shots per (state, outcome) in
+ * integers, takes a branch only for the rare wrong shot, and copies every clean shot's value to
+ * its state's list; a second pass runs Welford's update over each state's list in shot order —
+ * the same sequence of operations as one pass over the shots, so the same moments to the bit.
  */
 function tallyBlock(
   leaf: Tally, s: FusedPipeline, inPhase: Float64Array, quadrature: Float64Array, c: HistoryColumns,
-  jumpCause: Uint8Array, outcomeOf: Uint8Array, len: number, wrong: Uint8Array,
+  jumpCause: Uint8Array, outcomeOf: Uint8Array, len: number, wrong: Uint8Array, f: FusedScratch,
 ): void {
   const nCauses = CAUSES.length, outcomes = leaf.outcomes, states = leaf.states;
   const { assignments, causes, discarded, discardedWrong } = leaf;
-  const cos = s.cos, sin = s.sin, threshold = s.threshold, highIsOne = s.highIsOne, band = s.band;
+  const cos = s.cos, sin = s.sin, threshold = s.threshold, band = s.band;
+  const flip = s.highIsOne ? 0 : 1;
   const intendedCol = c.intended, preparedCol = c.prepared, initialCol = c.initial;
-  const n = new Float64Array(states), mean = new Float64Array(states), m2 = new Float64Array(states);
+  const counts = f.counts, cleanCount = f.cleanCount, cleanValues = f.cleanValues;
+  counts.fill(0, 0, states * outcomes);
+  cleanCount.fill(0, 0, states);
+  const twoByTwo = states === 2 && outcomes === 2;
+  let sumState = 0, sumOutcome = 0, sumBoth = 0;
   for (let i = 0; i < len; i++) {
     const x = inPhase[i]! * cos + quadrature[i]! * sin;
-    const outcome = highIsOne ? (x > threshold ? 1 : 0) : (x < threshold ? 1 : 0);
+    // highIsOne: x > threshold; else x < threshold (classifyAllByThreshold)
+    const outcome = flip === 0 ? +(x > threshold) : +(x < threshold);
     const intended = intendedCol[i]!, prepared = preparedCol[i]!, initial = initialCol[i]!, jc = jumpCause[i]!;
+    // two states, two outcomes: three sums instead of a memory count (see below)
+    if (twoByTwo) {
+      sumState += intended; sumOutcome += outcome; sumBoth += intended & outcome;
+    } else {
+      counts[intended * outcomes + outcome]!++;
+    }
     let cause = CAUSE_NONE;
     if (outcome !== outcomeOf[intended]) {
       cause = prepared !== intended ? CAUSE_PREPARATION : initial !== prepared ? CAUSE_MAPPING : jc !== 0 ? jc : CAUSE_NOISE;
+      causes[intended * nCauses + cause]!++;
     }
     wrong[i] = cause;
-    assignments[intended * outcomes + outcome]!++;
-    causes[intended * nCauses + cause]!++;
     if (band >= 0 && Math.abs(x - threshold) < band) {
       discarded[intended]!++;
       if (cause !== 0) discardedWrong[intended]!++;
     }
-    if (prepared === intended && initial === intended && jc === 0) {
-      n[intended]!++;
-      const delta = x - mean[intended]!;
-      mean[intended]! += delta / n[intended]!;
-      m2[intended]! += delta * (x - mean[intended]!);
-    }
+    // clean shots (no preparation, mapping or pipeline-window jump) to their state's list
+    const k = cleanCount[intended]!;
+    cleanValues[intended * SEED_BLOCK + k] = x;
+    cleanCount[intended] = k + (+(prepared === intended) & +(initial === intended) & +(jc === 0));
   }
-  for (let k = 0; k < states; k++) leaf.clean[k] = { n: n[k]!, mean: mean[k]!, m2: m2[k]! };
+  if (twoByTwo) {
+    counts[3] = sumBoth; counts[2] = sumState - sumBoth; counts[1] = sumOutcome - sumBoth;
+    counts[0] = len - sumState - sumOutcome + sumBoth;
+  }
+  for (let st = 0; st < states; st++) {
+    let shots = 0;
+    for (let o = 0; o < outcomes; o++) {
+      const m = counts[st * outcomes + o]!;
+      assignments[st * outcomes + o] = m;
+      shots += m;
+    }
+    let wrongShots = 0;
+    for (let k = 1; k < nCauses; k++) wrongShots += causes[st * nCauses + k]!;
+    causes[st * nCauses + CAUSE_NONE] = shots - wrongShots;
+  }
+  // Welford per state over its clean values in shot order (addToTally's update, term by term);
+  // two states side by side, so that their division chains overlap
+  if (states === 2) {
+    welfordPair(leaf, cleanValues, cleanCount[0]!, cleanCount[1]!);
+    return;
+  }
+  for (let st = 0; st < states; st++) {
+    const m = cleanCount[st]!, base = st * SEED_BLOCK;
+    let n = 0, mean = 0, m2 = 0;
+    for (let k = 0; k < m; k++) {
+      const x = cleanValues[base + k]!;
+      n++;
+      const delta = x - mean;
+      mean += delta / n;
+      m2 += delta * (x - mean);
+    }
+    leaf.clean[st] = { n, mean, m2 };
+  }
+}
+
+/** Welford over states 0 and 1 of cleanValues at once (the same operations per state as one at a time). */
+function welfordPair(leaf: Tally, values: Float64Array, count0: number, count1: number): void {
+  let n0 = 0, mean0 = 0, m20 = 0, n1 = 0, mean1 = 0, m21 = 0;
+  const both = Math.min(count0, count1);
+  let k = 0;
+  for (; k < both; k++) {
+    const x0 = values[k]!, x1 = values[SEED_BLOCK + k]!;
+    n0++; n1++;
+    const d0 = x0 - mean0, d1 = x1 - mean1;
+    mean0 += d0 / n0; mean1 += d1 / n1;
+    m20 += d0 * (x0 - mean0); m21 += d1 * (x1 - mean1);
+  }
+  for (let j = k; j < count0; j++) {
+    const x = values[j]!;
+    n0++;
+    const d = x - mean0;
+    mean0 += d / n0;
+    m20 += d * (x - mean0);
+  }
+  for (let j = k; j < count1; j++) {
+    const x = values[SEED_BLOCK + j]!;
+    n1++;
+    const d = x - mean1;
+    mean1 += d / n1;
+    m21 += d * (x - mean1);
+  }
+  leaf.clean[0] = { n: n0, mean: mean0, m2: m20 };
+  leaf.clean[1] = { n: n1, mean: mean1, m2: m21 };
 }
 
 /** Adds a block's paired counts: for each pair a < b, both wrong, only a, only b. */

@@ -15,6 +15,7 @@ import { Worker } from 'node:worker_threads';
 import { InputError } from '../errors.ts';
 import type { ShotBatch } from './batch.ts';
 import type { BatchTask } from './batches.ts';
+import type { TalliedBatch } from './exact-fused.ts';
 import type { BatchExecutor, SweepPoint } from './run.ts';
 
 /** The default number of workers: every core the process may use. */
@@ -38,7 +39,7 @@ export interface WireError {
 
 /** Messages from a worker to the main thread. */
 export type FromWorker =
-  | { type: 'result'; run: number; seq: number; batch: ShotBatch }
+  | { type: 'result'; run: number; seq: number; batch: ShotBatch | TalliedBatch }
   | { type: 'error'; run: number; seq: number; error: WireError }
   | { type: 'boot-error'; error: WireError };
 
@@ -91,7 +92,7 @@ export function transferables(value: unknown, out: Set<ArrayBuffer> = new Set())
 }
 
 interface Pending {
-  resolve: (b: ShotBatch) => void;
+  resolve: (b: ShotBatch | TalliedBatch) => void;
   reject: (e: Error) => void;
 }
 
@@ -143,7 +144,7 @@ export function workerPoolExecutor(workers: number, options: PoolOptions = {}): 
   };
 
   return {
-    async *run(points: readonly SweepPoint[], tasks: readonly BatchTask[]): AsyncGenerator<ShotBatch> {
+    async *run(points: readonly SweepPoint[], tasks: readonly BatchTask[]): AsyncGenerator<ShotBatch | TalliedBatch> {
       if (tasks.length === 0) return;
       if (broken) throw broken;
       const pool = start();
@@ -153,7 +154,7 @@ export function workerPoolExecutor(workers: number, options: PoolOptions = {}): 
         t.busy = 0;
         t.worker.postMessage({ type: 'points', run, scenarios } satisfies ToWorker);
       }
-      const results = new Map<number, Promise<ShotBatch>>();
+      const results = new Map<number, Promise<ShotBatch | TalliedBatch>>();
       let next = 0;
       const limit = workers * perWorker;
       const dispatch = () => {
@@ -162,7 +163,7 @@ export function workerPoolExecutor(workers: number, options: PoolOptions = {}): 
           let best = pool[0]!;
           for (const t of pool) if (t.busy < best.busy) best = t;
           const seq = next++;
-          const promise = new Promise<ShotBatch>((resolve, reject) => waiting.set(seq, { resolve, reject }));
+          const promise = new Promise<ShotBatch | TalliedBatch>((resolve, reject) => waiting.set(seq, { resolve, reject }));
           promise.catch(() => {}); // rejections are rethrown when the result is awaited
           results.set(seq, promise);
           best.busy++;

@@ -19,6 +19,7 @@ import { batchPlan, type BatchTask } from './batches.ts';
 import { SEED_BLOCK } from '../random/streams.ts';
 import { chooseEngine, type EngineChoice, type EngineRequest } from './engine.ts';
 import { TaskRunner } from './task.ts';
+import { fusedScoring, type TalliedBatch } from './exact-fused.ts';
 
 /** One point of a sweep: the swept values and the scenario with them applied. */
 export interface SweepPoint {
@@ -28,9 +29,12 @@ export interface SweepPoint {
   scenario: Scenario;
 }
 
-/** Runs batch tasks and yields their results in task order (in-process or on workers). */
+/**
+ * Runs batch tasks and yields their results in task order (in-process or on workers): a
+ * ShotBatch, or a TalliedBatch for a task with `scoring` (exact-fused.ts).
+ */
 export interface BatchExecutor {
-  run(points: readonly SweepPoint[], tasks: readonly BatchTask[]): AsyncIterable<ShotBatch>;
+  run(points: readonly SweepPoint[], tasks: readonly BatchTask[]): AsyncIterable<ShotBatch | TalliedBatch>;
   close?(): Promise<void>;
 }
 
@@ -145,6 +149,20 @@ export function tallyBatch(r: PointResult, b: ShotBatch, scored: readonly Scored
   addPairs(r.pairs, scored.map((s) => s.cause), b.count);
 }
 
+/** Adds a batch scored and tallied where it was simulated (exact-fused.ts): its leaves and paired counts. */
+export function addTalliedBatch(r: PointResult, b: TalliedBatch): void {
+  const firstBlock = b.firstShot / SEED_BLOCK;
+  b.leaves.forEach((leaves, p) => {
+    leaves.forEach((tally, k) => pushNode(r.tallyStacks[p]!, { level: 0, index: firstBlock + k, tally }));
+  });
+  r.pairs.forEach((pair, k) => {
+    pair.counts.bothWrong += b.pairs[3 * k]!;
+    pair.counts.onlyAWrong += b.pairs[3 * k + 1]!;
+    pair.counts.onlyBWrong += b.pairs[3 * k + 2]!;
+    pair.counts.n += b.count;
+  });
+}
+
 /** Folds a scored point's tally trees and fills its summaries and pipeline comparisons. */
 export function finishPoint(r: PointResult): void {
   const sc = r.scenario;
@@ -181,17 +199,31 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
     pending = [];
   };
   for await (const b of executor.run(points, calibrationTasks)) {
+    if ('kind' in b) throw new Error('a calibration task came back tallied');
     if (pending.length > 0 && pending[0]!.point !== b.point) calibratePending();
     pending.push(b);
   }
   calibratePending();
   if (options.onCalibrated) await options.onCalibrated(results);
   const scorePoints = points.map((p, i) => (i < first ? p : { ...p, scenario: results[i - first]!.compiled.scenario }));
-  const scoreTasks = points.flatMap((p, i) => (i < first ? [] : batchPlan(p.scenario, i, 'score', options.shard).map((t) => ({ ...t, engine }))));
+  // without per-shot consumers the exact engine scores and tallies where it simulates
+  const fused = engine === 'exact' && !options.onScoredBatch;
+  const scoreTasks = points.flatMap((p, i) => {
+    if (i < first) return [];
+    const r = results[i - first]!;
+    const scoring = fused ? fusedScoring(r.compiled, r.calibrations) : null;
+    return batchPlan(p.scenario, i, 'score', options.shard).map((t) => (scoring ? { ...t, engine, scoring } : { ...t, engine }));
+  });
   const totalShots = scoreTasks.reduce((a, t) => a + t.count, 0);
   let done = 0;
   for await (const b of executor.run(scorePoints, scoreTasks)) {
     const r = results[b.point - first]!;
+    if ('kind' in b) {
+      addTalliedBatch(r, b);
+      done += b.count;
+      options.onProgress?.(done, totalShots);
+      continue;
+    }
     const scored = scoreBatch(r.compiled, r.calibrations, b);
     tallyBatch(r, b, scored);
     if (b.clippedSamples !== undefined) r.clippedSamples = (r.clippedSamples ?? 0) + b.clippedSamples;

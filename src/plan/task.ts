@@ -6,6 +6,7 @@ import { makeScratch, simulateBatch, type BatchScratch, type ShotBatch } from '.
 import type { BatchTask } from './batches.ts';
 import { compilePoint, type CompiledPoint } from './compile.ts';
 import { makeExactScratch, simulateExactBatch, type ExactScratch } from './exact-batch.ts';
+import { simulateTalliedBatch, type TalliedBatch } from './exact-fused.ts';
 import type { Scenario } from '../scenario/types.ts';
 
 /** How many points' compiled tables a runner keeps (tasks arrive in point order). */
@@ -45,10 +46,11 @@ export class TaskRunner {
     return e;
   }
 
-  run(t: BatchTask): ShotBatch {
+  run(t: BatchTask): ShotBatch | TalliedBatch {
     const e = this.entry(t.point);
     if (t.engine === 'exact') {
       e.exact ??= makeExactScratch(e.compiled);
+      if (t.scoring) return simulateTalliedBatch(e.compiled, t.point, t.purpose, t.batch, t.count, t.scoring, e.exact);
       return simulateExactBatch(e.compiled, t.point, t.purpose, t.batch, t.count, e.exact);
     }
     e.traces ??= makeScratch(e.compiled);

@@ -43,9 +43,9 @@ describe('workers', () => {
     const pool = workerPoolExecutor(2, { perWorker: 1 });
     pools.push(pool);
     const got: ShotBatch[] = [];
-    for await (const b of pool.run(points, tasks)) got.push(b);
+    for await (const b of pool.run(points, tasks)) got.push(b as ShotBatch); // tasks without scoring: per-shot batches
     const want: ShotBatch[] = [];
-    for await (const b of inProcessExecutor().run(points, tasks)) want.push(b);
+    for await (const b of inProcessExecutor().run(points, tasks)) want.push(b as ShotBatch);
     expect(got.map((b) => [b.purpose, b.batch])).toEqual(tasks.map((t) => [t.purpose, t.batch]));
     got.forEach((b, i) => {
       expect(Array.from(b.intended), `task ${i}`).toEqual(Array.from(want[i]!.intended));

@@ -5,7 +5,7 @@
  * equals the 2^64 jump polynomial of the generator's reference implementation.
  */
 import { describe, expect, it } from 'vitest';
-import { jumpPowerOfTwo, jumpStreams } from '../../src/random/jump.ts';
+import { jumpOneStream, jumpPowerOfTwo, jumpStreams } from '../../src/random/jump.ts';
 import { nextUint32, stepLinear } from '../../src/random/xoshiro.ts';
 import { BlockStreams, baseState, makeStream } from '../../src/random/streams.ts';
 
@@ -27,6 +27,16 @@ describe('jumpPowerOfTwo', () => {
       stepLinear(b);
     }
     expect(hex(a)).toBe(hex(b));
+  });
+});
+
+describe('jumpOneStream (byte-sliced table)', () => {
+  it.each([
+    ['a fixed state', START],
+    ['single bits', Uint32Array.from([1, 0, 0, 0x80000000])],
+    ['all ones', Uint32Array.from([0xffffffff, 0xffffffff, 0xffffffff, 0xffffffff])],
+  ])('%s: equals the 2^64 jump by bit tests (jumpPowerOfTwo(s, 64))', (_name, s) => {
+    expect(hex(jumpOneStream(Uint32Array.from(s)))).toBe(hex(jumpPowerOfTwo(Uint32Array.from(s), 64)));
   });
 });
 
@@ -75,6 +85,20 @@ describe('block streams', () => {
       const chained = b === 10 ? blocks.current() : blocks.next();
       expect(blocks.index).toBe(b);
       const x = Array.from({ length: 8 }, () => chained.nextUint32());
+      const y = Array.from({ length: 8 }, () => fromScratch.nextUint32());
+      expect(x, `block ${b}`).toEqual(y);
+    }
+  });
+
+  it('advanceInto repositions one stream in place at each next block, as streams made from scratch', () => {
+    const blocks = new BlockStreams(7, 3, 'score', 20);
+    const stream = blocks.current();
+    stream.nextUint32(); // a used stream: its old position must not matter
+    for (let b = 21; b < 25; b++) {
+      blocks.advanceInto(stream);
+      expect(blocks.index).toBe(b);
+      const fromScratch = makeStream(7, 3, 'score', b);
+      const x = Array.from({ length: 8 }, () => stream.nextUint32());
       const y = Array.from({ length: 8 }, () => fromScratch.nextUint32());
       expect(x, `block ${b}`).toEqual(y);
     }

@@ -84,7 +84,7 @@ describe('a run stopped mid-way (in-process)', () => {
     expect(after).toEqual(before);
   });
 
-  it('a forced rerun stopped mid-way keeps the old tables whole and marks the folder unfinished; report refuses it', async () => {
+  it('a forced rerun stopped mid-way keeps the old tables whole and marks the folder unfinished; report and merge refuse it', async () => {
     const dir = freshDir();
     await runToDirectory({ scenarioPath: TINY, outDir: dir, report: false, free: FREE });
     const controller = new AbortController();
@@ -97,6 +97,9 @@ describe('a run stopped mid-way (in-process)', () => {
     const r = await runMain(['report', dir]);
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/complete: false/);
+    const m = await runMain(['merge', dir, dir, '--out', join(dir, 'merged')]);
+    expect(m.code).toBe(2);
+    expect(m.err).toMatch(/complete: false/);
   });
 });
 
