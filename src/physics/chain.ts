@@ -69,7 +69,7 @@ export function samplePath(chain: Chain, start: number, duration: number, stream
     let next = 0;
     const row = state * n;
     while (next < n - 1 && u > chain.cumulative[row + next]!) next++;
-    if (path.jumps === path.times.length) growPath(path);
+    if (path.jumps === path.times.length) growJumpArrays(path);
     path.times[path.jumps] = t;
     path.entered[path.jumps] = next;
     path.jumps++;
@@ -77,7 +77,8 @@ export function samplePath(chain: Chain, start: number, duration: number, stream
   }
 }
 
-function growPath(path: PathBuffer): void {
+/** Doubles the jump arrays of a path buffer or store, keeping their contents. */
+export function growJumpArrays(path: { times: Float64Array; entered: Uint8Array }): void {
   const times = new Float64Array(path.times.length * 2);
   times.set(path.times);
   const entered = new Uint8Array(path.entered.length * 2);

@@ -11,29 +11,17 @@ import { digitize } from '../signal/digitizer.ts';
 import { makeNoiseRuntime, type NoiseRuntime } from './noise-runtime.ts';
 import { dotRange } from '../dsp/integrate.ts';
 import type { CompiledPoint } from './compile.ts';
-import { historyTables, makePathStore, sampleHistories, type HistoryTables, type PathStore } from './history.ts';
+import { historyTables, makePathStore, sampleHistories, type HistoryColumns, type HistoryTables, type PathStore } from './history.ts';
 import { makeShotCollector, type KeptBins, type KeptTraces } from './collect.ts';
 
 /** The truth and the integrated values of a batch of shots. */
-export interface ShotBatch {
+export interface ShotBatch extends HistoryColumns {
   point: number;
   purpose: StreamPurpose;
   batch: number;
   /** Index of the batch's first shot within its point and purpose. */
   firstShot: number;
   count: number;
-  /** Intended (prepared) state. */
-  intended: Uint8Array;
-  /** State after preparation (differs from intended on a preparation error). */
-  prepared: Uint8Array;
-  /** State at the record start (after mapping). */
-  initial: Uint8Array;
-  atWindowStart: Uint8Array;
-  atWindowEnd: Uint8Array;
-  /** Time of the first jump from the record start (s), NaN if none during the record. */
-  firstJump: Float64Array;
-  /** Cause code of the first jump if it touched the window (else 0). */
-  jumpCause: Uint8Array;
   /** Per pipeline: integrated I and Q. */
   values: { inPhase: Float64Array; quadrature: Float64Array }[];
   /** Per pipeline: the decimated bins of every shot, where calibration or scoring needs them (collect.ts). */

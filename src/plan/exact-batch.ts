@@ -136,6 +136,14 @@ export function makeExactScratch(point: CompiledPoint): ExactScratch {
   return { ...makeScratch(point), exact, exactPoint: point, normals: new Float64Array(Math.max(1, exact.columns.length) * SEED_BLOCK) };
 }
 
+/** Rebuilds the exact tables of a scratch when it is used for another point. */
+export function refreshExactScratch(point: CompiledPoint, scratch: ExactScratch): void {
+  if (scratch.exactPoint === point) return;
+  scratch.exact = exactTables(point);
+  scratch.exactPoint = point;
+  scratch.normals = new Float64Array(Math.max(1, scratch.exact.columns.length) * SEED_BLOCK);
+}
+
 /**
  * Runs shots [batch·batchSize, batch·batchSize + count) through the exact engine. Same
  * ShotBatch as `simulateBatch`; each block draws its histories first (identical to the trace
@@ -147,11 +155,7 @@ export function simulateExactBatch(
   scratch: ExactScratch = makeExactScratch(point),
 ): ShotBatch {
   const out = makeShotBatch(point, pointIndex, purpose, batch, count);
-  if (scratch.exactPoint !== point) {
-    scratch.exact = exactTables(point);
-    scratch.exactPoint = point;
-    scratch.normals = new Float64Array(Math.max(1, scratch.exact.columns.length) * SEED_BLOCK);
-  }
+  refreshExactScratch(point, scratch);
   const history = scratchHistory(point, scratch);
   const t = scratch.exact;
   const { store } = scratch;

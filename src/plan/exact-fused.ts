@@ -13,7 +13,7 @@ import { emptyTally, type Tally } from '../analysis/tally.ts';
 import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../random/streams.ts';
 import type { CompiledPoint } from './compile.ts';
 import type { PipelineCalibration } from './calibrate.ts';
-import { blockValues, exactTables, makeExactScratch, type ExactScratch } from './exact-batch.ts';
+import { blockValues, makeExactScratch, refreshExactScratch, type ExactScratch } from './exact-batch.ts';
 import { sampleHistories, type HistoryColumns } from './history.ts';
 import { scratchHistory } from './batch.ts';
 
@@ -112,11 +112,7 @@ export function simulateTalliedBatch(
   point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number,
   scoring: FusedScoring, scratch: ExactScratch = makeExactScratch(point),
 ): TalliedBatch {
-  if (scratch.exactPoint !== point) {
-    scratch.exact = exactTables(point);
-    scratch.exactPoint = point;
-    scratch.normals = new Float64Array(Math.max(1, scratch.exact.columns.length) * SEED_BLOCK);
-  }
+  refreshExactScratch(point, scratch);
   const history = scratchHistory(point, scratch);
   const t = scratch.exact;
   const sc = point.scenario;

@@ -7,15 +7,21 @@
  */
 import type { RandomStream } from '../random/stream.ts';
 import type { CompiledPoint } from './compile.ts';
+import { growJumpArrays } from '../physics/chain.ts';
 
 /** The truth columns of a batch (a subset of ShotBatch). */
 export interface HistoryColumns {
+  /** Intended (prepared) state. */
   intended: Uint8Array;
+  /** State after preparation (differs from intended on a preparation error). */
   prepared: Uint8Array;
+  /** State at the record start (after mapping). */
   initial: Uint8Array;
   atWindowStart: Uint8Array;
   atWindowEnd: Uint8Array;
+  /** Time of the first jump from the record start (s), NaN if none during the record. */
   firstJump: Float64Array;
+  /** Cause code of the first jump if it touched the window (else 0). */
   jumpCause: Uint8Array;
 }
 
@@ -31,14 +37,7 @@ export function makePathStore(shots: number, jumps = 256): PathStore {
   return { offset: new Int32Array(shots + 1), times: new Float64Array(jumps), entered: new Uint8Array(jumps) };
 }
 
-function growJumps(store: PathStore): void {
-  const times = new Float64Array(store.times.length * 2);
-  times.set(store.times);
-  const entered = new Uint8Array(store.entered.length * 2);
-  entered.set(store.entered);
-  store.times = times;
-  store.entered = entered;
-}
+
 
 /** Per-point constants of history sampling, derived once from the compiled point. */
 export interface HistoryTables {
@@ -196,7 +195,7 @@ function walkChain(
     let next = 0;
     const row = state * n;
     while (next < last && v > cumulative[row + next]!) next++;
-    if (nj === store.times.length) growJumps(store);
+    if (nj === store.times.length) growJumpArrays(store);
     store.times[nj] = time;
     store.entered[nj] = next;
     nj++;
