@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # Runs the simulator's raw generator output through Debian's dieharder.
 #
-#   bash bench/dieharder.sh            # the default subset (below), about 15 min on 2 cores
+#   bash bench/dieharder.sh            # the default subset (below): 8–10 min on 2 idle cores
 #   DIEHARDER_TESTS=all bash bench/dieharder.sh    # dieharder -a (several hours with lagged sums)
 #   DIEHARDER_TESTS="0 2 100" SEED=7 STREAMS=16 bash bench/dieharder.sh
 #
