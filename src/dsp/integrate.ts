@@ -18,6 +18,30 @@ export function dotRange(a: Float64Array, b: Float64Array, lo: number, hi: numbe
   return s0 + s1;
 }
 
+/**
+ * Σ a[k]·x[k] and Σ b[k]·x[k] over [lo, hi) in one pass over x, written to out[0] and out[1].
+ * Each sum keeps the even/odd accumulators of `dotRange`, so the results equal two calls of
+ * it bit for bit; reading the record once is what saves time.
+ */
+export function dotRangePair(a: Float64Array, b: Float64Array, x: Float64Array, lo: number, hi: number, out: Float64Array): Float64Array {
+  let a0 = 0, a1 = 0, b0 = 0, b1 = 0;
+  let k = lo;
+  for (; k + 1 < hi; k += 2) {
+    const x0 = x[k]!, x1 = x[k + 1]!;
+    a0 += a[k]! * x0;
+    a1 += a[k + 1]! * x1;
+    b0 += b[k]! * x0;
+    b1 += b[k + 1]! * x1;
+  }
+  if (k < hi) {
+    a0 += a[k]! * x[k]!;
+    b0 += b[k]! * x[k]!;
+  }
+  out[0] = a0 + a1;
+  out[1] = b0 + b1;
+  return out;
+}
+
 /** Kernels of a linear chain on the record grid, nonzero only on [lo, hi). */
 export interface LinearKernels {
   inPhase: Float64Array;

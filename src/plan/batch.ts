@@ -9,7 +9,7 @@ import { addWhiteNoise, writeSignal } from '../signal/trace.ts';
 import { writeRespondedSignal } from '../signal/response.ts';
 import { digitize } from '../signal/digitizer.ts';
 import { makeNoiseRuntime, type NoiseRuntime } from './noise-runtime.ts';
-import { dotRange } from '../dsp/integrate.ts';
+import { dotRange, dotRangePair } from '../dsp/integrate.ts';
 import type { CompiledPoint } from './compile.ts';
 import { historyTables, makePathStore, sampleHistories, type HistoryColumns, type HistoryTables, type PathStore } from './history.ts';
 import { makeShotCollector, type KeptBins, type KeptTraces } from './collect.ts';
@@ -139,11 +139,15 @@ export function simulateBatch(
   const { response, digitizer } = point.noise;
   const slow = point.noise.slow ? noiseRuntime(point, pointIndex, purpose, scratch) : null;
   let clipped = 0;
+  const pair = new Float64Array(2);
   forEachBlock(out, point.scenario.seed, (stream, from, to) => {
     sampleHistories(tables, stream, out, from, to, store);
     for (let i = from; i < to; i++) {
       loadPath(store, i - from, path);
-      if (response) writeRespondedSignal(record, lo, hi, point.levelWaves, response, out.initial[i]!, path, fs);
+      // the common shot (no jump, nothing but white noise): signal and noise in one pass
+      const plain = !response && !slow && path.jumps === 0 && point.whiteSigma > 0;
+      if (plain) stream.addNormalsOnto(record, point.waveforms[out.initial[i]!]!, lo, hi - lo, point.whiteSigma);
+      else if (response) writeRespondedSignal(record, lo, hi, point.levelWaves, response, out.initial[i]!, path, fs);
       else writeSignal(record, lo, hi, point.waveforms, out.initial[i]!, path, fs);
       if (slow) {
         // 1/f goes into the record only when the digitizer needs it there; otherwise it enters
@@ -152,13 +156,19 @@ export function simulateBatch(
         slow.addTelegraph(record, lo, hi);
         if (digitizer) slow.addFlicker(record, lo, hi);
       }
-      addWhiteNoise(record, lo, hi, point.whiteSigma, stream);
+      if (!plain) addWhiteNoise(record, lo, hi, point.whiteSigma, stream);
       if (digitizer) clipped += digitize(record, lo, hi, digitizer);
       const carried = slow !== null && slow.hasFlicker && digitizer === null;
       for (let p = 0; p < point.pipelines.length; p++) {
         const k = point.pipelines[p]!.kernels;
-        out.values[p]!.inPhase[i] = dotRange(k.inPhase, record, k.lo, k.hi) + (carried ? slow.flickerValue(p, false) : 0);
-        out.values[p]!.quadrature[i] = k.quadrature ? dotRange(k.quadrature, record, k.lo, k.hi) + (carried ? slow.flickerValue(p, true) : 0) : 0;
+        if (k.quadrature) {
+          dotRangePair(k.inPhase, k.quadrature, record, k.lo, k.hi, pair);
+          out.values[p]!.inPhase[i] = pair[0]! + (carried ? slow.flickerValue(p, false) : 0);
+          out.values[p]!.quadrature[i] = pair[1]! + (carried ? slow.flickerValue(p, true) : 0);
+        } else {
+          out.values[p]!.inPhase[i] = dotRange(k.inPhase, record, k.lo, k.hi) + (carried ? slow.flickerValue(p, false) : 0);
+          out.values[p]!.quadrature[i] = 0;
+        }
       }
       // kept traces and bins see the whole record (after the values, which do not depend on them)
       if (carried && collector) slow.addFlicker(record, lo, hi);

@@ -76,11 +76,19 @@ export class RandomStream {
    * which keeps the loop free of calls. Deterministic: the slow path draws after the loop.
    */
   addNormals(out: Float64Array, start: number, count: number, sigma: number): void {
+    this.addNormalsOnto(out, out, start, count, sigma);
+  }
+
+  /**
+   * out[i] = base[i] + sigma·N(0,1) on [start, start+count): the same numbers, from the same
+   * draws, as copying base into out and calling addNormals, in one pass (base may be out).
+   */
+  addNormalsOnto(out: Float64Array, base: Float64Array, start: number, count: number, sigma: number): void {
     if (this.rejectIndex.length < count) {
       this.rejectIndex = new Int32Array(count);
       this.rejectDraw = new Int32Array(count);
     }
-    const nRejects = addNormalsFast(this.s, out, start, count, sigma, this.rejectIndex, this.rejectDraw);
+    const nRejects = addNormalsFast(this.s, out, base, start, count, sigma, this.rejectIndex, this.rejectDraw);
     const rejectIndex = this.rejectIndex, rejectDraw = this.rejectDraw;
     for (let r = 0; r < nRejects; r++) {
       const u = rejectDraw[r]!;
@@ -128,11 +136,12 @@ export class RandomStream {
 }
 
 /**
- * The fast pass of `addNormals` as a free function over the state words (V8 optimises it
- * better than a method). Returns the number of rejected draws written to the two lists.
+ * The fast pass of `addNormalsOnto` as a free function over the state words (V8 optimises it
+ * better than a method): out[i] = base[i] + σ·n_i, rejected draws noted for the slow path
+ * (out[i] = base[i] there for now). Returns the number of rejected draws.
  */
 function addNormalsFast(
-  st: Int32Array, out: Float64Array, start: number, count: number, sigma: number,
+  st: Int32Array, out: Float64Array, base: Float64Array, start: number, count: number, sigma: number,
   rejectIndex: Int32Array, rejectDraw: Int32Array,
 ): number {
   let s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
@@ -150,8 +159,9 @@ function addNormalsFast(
     s3 = (n3 << 11) | (n3 >>> 21);
     const layer = u & 127;
     const pos = u >> 7;
-    if (Math.abs(pos) < LAYER_K[layer]!) out[i] += sigma * pos * LAYER_W[layer]!;
+    if (Math.abs(pos) < LAYER_K[layer]!) out[i] = base[i]! + sigma * pos * LAYER_W[layer]!;
     else {
+      out[i] = base[i]!;
       rejectIndex[nRejects] = i;
       rejectDraw[nRejects++] = u;
     }

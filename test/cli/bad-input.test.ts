@@ -7,7 +7,7 @@ import { mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { main } from '../../src/cli/main.ts';
+import { runCli } from '../helpers/cli.ts';
 
 const DIR = 'test/fixtures/bad-scenarios';
 const files = readdirSync(DIR).filter((f) => f.endsWith('.yaml')).sort();
@@ -18,18 +18,6 @@ function expectedPath(file: string): string {
   return m ? m[1]!.trim() : '(whole file)';
 }
 
-async function runCli(args: string[]): Promise<{ code: number; stderr: string; stdout: string }> {
-  let stderr = '', stdout = '';
-  const err = vi.spyOn(process.stderr, 'write').mockImplementation((s: string | Uint8Array) => { stderr += String(s); return true; });
-  const out = vi.spyOn(process.stdout, 'write').mockImplementation((s: string | Uint8Array) => { stdout += String(s); return true; });
-  try {
-    const code = await main(['node', 'singleshot', ...args]);
-    return { code, stderr, stdout };
-  } finally {
-    err.mockRestore();
-    out.mockRestore();
-  }
-}
 
 afterEach(() => vi.restoreAllMocks());
 

@@ -8,29 +8,16 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { stringify } from 'yaml';
-import { main } from '../../src/cli/main.ts';
 import { anyMutation, FUZZ_SEED, mutatedDoc } from './harness.ts';
+import { runMain } from '../helpers/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const dir = mkdtempSync(join(tmpdir(), 'singleshot-fuzz-cli-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-/** Runs `main` with argv, capturing stdout and stderr. */
-async function runMain(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '', err = '';
-  const o = vi.spyOn(process.stdout, 'write').mockImplementation((s) => { out += String(s); return true; });
-  const e = vi.spyOn(process.stderr, 'write').mockImplementation((s) => { err += String(s); return true; });
-  try {
-    const code = await main(['node', 'singleshot', ...args]);
-    return { code, out, err };
-  } finally {
-    o.mockRestore();
-    e.mockRestore();
-  }
-}
 
 /** A verdict on one `check` answer, or null when it is as it should be. */
 function checkAnswer(file: string, r: { code: number; out: string; err: string }): string | null {

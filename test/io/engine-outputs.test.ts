@@ -8,21 +8,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { tableFromIPC } from 'apache-arrow';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { main } from '../../src/cli/main.ts';
+import { runCli } from '../helpers/cli.ts';
 
 const SMALL = 'test/fixtures/scenarios/small.yaml';
 
-async function runCli(args: string[]): Promise<{ code: number; stderr: string; stdout: string }> {
-  let stderr = '', stdout = '';
-  const err = vi.spyOn(process.stderr, 'write').mockImplementation((s: string | Uint8Array) => { stderr += String(s); return true; });
-  const out = vi.spyOn(process.stdout, 'write').mockImplementation((s: string | Uint8Array) => { stdout += String(s); return true; });
-  try {
-    return { code: await main(['node', 'singleshot', ...args]), stderr, stdout };
-  } finally {
-    err.mockRestore();
-    out.mockRestore();
-  }
-}
 
 afterEach(() => vi.restoreAllMocks());
 

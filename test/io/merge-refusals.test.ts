@@ -7,23 +7,12 @@ import { cpSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:f
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
-import { main } from '../../src/cli/main.ts';
+import { runCli } from '../helpers/cli.ts';
 
 const SMALL = 'test/fixtures/scenarios/small.yaml';
 let root = '';
 const dir = (name: string) => join(root, name);
 
-async function runCli(args: string[]): Promise<{ code: number; stderr: string }> {
-  let stderr = '';
-  const err = vi.spyOn(process.stderr, 'write').mockImplementation((s: string | Uint8Array) => { stderr += String(s); return true; });
-  const out = vi.spyOn(process.stdout, 'write').mockImplementation(() => true);
-  try {
-    return { code: await main(['node', 'singleshot', ...args]), stderr };
-  } finally {
-    err.mockRestore();
-    out.mockRestore();
-  }
-}
 
 afterEach(() => vi.restoreAllMocks());
 

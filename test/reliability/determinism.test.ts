@@ -8,12 +8,12 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { tableFromIPC, type Table } from 'apache-arrow';
 import { runToDirectory } from '../../src/io/run-to-directory.ts';
 import { compareBytes, rerunDirectory } from '../../src/io/rerun.ts';
 import { canonicalJson } from '../../src/scenario/canonical.ts';
-import { main } from '../../src/cli/main.ts';
+import { runMain } from '../helpers/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const TINY = join(ROOT, 'test', 'fixtures', 'reliability', 'tiny.yaml');
@@ -38,17 +38,6 @@ function contents(t: Table): Record<string, unknown[]> {
   return Object.fromEntries(t.schema.fields.map((f) => [f.name, Array.from(t.getChild(f.name)!.toArray() as ArrayLike<unknown>)]));
 }
 
-async function runMain(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '', err = '';
-  const o = vi.spyOn(process.stdout, 'write').mockImplementation((s) => { out += String(s); return true; });
-  const e = vi.spyOn(process.stderr, 'write').mockImplementation((s) => { err += String(s); return true; });
-  try {
-    return { code: await main(['node', 'singleshot', ...args]), out, err };
-  } finally {
-    o.mockRestore();
-    e.mockRestore();
-  }
-}
 
 describe('same scenario and seed ⇒ same bytes', () => {
   it('two runs write byte-identical tables', async () => {

@@ -9,12 +9,13 @@
 import { cpSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { tableFromArrays, tableToIPC } from 'apache-arrow';
 import { readArrowFile, singleshotMetadata } from '../../src/io/arrow-read.ts';
 import { InputError } from '../../src/errors.ts';
 import { runToDirectory } from '../../src/io/run-to-directory.ts';
 import { main, makeProgram } from '../../src/cli/main.ts';
+import { runMain } from '../helpers/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const TINY = join(ROOT, 'test', 'fixtures', 'reliability', 'tiny.yaml');
@@ -39,17 +40,6 @@ const HOSTILE: [string, (good: Buffer) => Buffer, RegExp][] = [
   ['wrong-schema', () => Buffer.from(tableToIPC(tableFromArrays({ something: new Float64Array([1, 2, 3]) }), 'file')), /without singleshot metadata|no such column|column/],
 ];
 
-async function runMain(args: string[]): Promise<{ code: number; err: string }> {
-  let err = '';
-  const o = vi.spyOn(process.stdout, 'write').mockImplementation(() => true);
-  const e = vi.spyOn(process.stderr, 'write').mockImplementation((s) => { err += String(s); return true; });
-  try {
-    return { code: await main(['node', 'singleshot', ...args]), err };
-  } finally {
-    o.mockRestore();
-    e.mockRestore();
-  }
-}
 
 describe('readArrowFile', () => {
   it('reads a good table and its metadata', () => {

@@ -9,13 +9,13 @@ import { spawn } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { tableFromIPC } from 'apache-arrow';
 import { runToDirectory } from '../../src/io/run-to-directory.ts';
 import { RunInterrupted } from '../../src/io/interrupt.ts';
 import { TEMP_MARKER } from '../../src/io/atomic-file.ts';
 import { readManifest } from '../../src/io/manifest.ts';
-import { main } from '../../src/cli/main.ts';
+import { runMain } from '../helpers/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const TINY = join(ROOT, 'test', 'fixtures', 'reliability', 'tiny.yaml');
@@ -44,17 +44,6 @@ function folderProblems(dir: string): string[] {
   return problems;
 }
 
-async function runMain(args: string[]): Promise<{ code: number; err: string }> {
-  let err = '';
-  const o = vi.spyOn(process.stdout, 'write').mockImplementation(() => true);
-  const e = vi.spyOn(process.stderr, 'write').mockImplementation((s) => { err += String(s); return true; });
-  try {
-    return { code: await main(['node', 'singleshot', ...args]), err };
-  } finally {
-    o.mockRestore();
-    e.mockRestore();
-  }
-}
 
 describe('a run stopped mid-way (in-process)', () => {
   it('throws RunInterrupted and leaves complete: false, no temporary files, no partial Arrow file', async () => {

@@ -7,12 +7,12 @@
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { stringify } from 'yaml';
 import { loadScenarioDocument } from '../../src/scenario/load.ts';
 import { parseScenarioText } from '../../src/scenario/parse.ts';
 import { starterScenario } from '../../src/scenario/starter.ts';
-import { main } from '../../src/cli/main.ts';
+import { runMain } from '../helpers/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const FILE = 'w.yaml';
@@ -77,23 +77,12 @@ describe('warnings on stderr', () => {
   const file = join(base, 'warned.yaml');
   writeFileSync(file, stringify({ ...starter(), shots: 2048, calibrationShots: 1024, transitions: [{ from: 'loaded', to: 'empty', lifetime: '50 ns' }], processing: { threshold: { fixed: '150 pA' } } }));
 
-  async function capture(args: string[]): Promise<{ code: number; err: string }> {
-    let err = '';
-    const o = vi.spyOn(process.stdout, 'write').mockImplementation(() => true);
-    const e = vi.spyOn(process.stderr, 'write').mockImplementation((s) => { err += String(s); return true; });
-    try {
-      return { code: await main(['node', 'singleshot', ...args]), err };
-    } finally {
-      o.mockRestore();
-      e.mockRestore();
-    }
-  }
 
   it.each([
     ['check', [file]],
     ['run', [file, '--out', join(base, 'out'), '--no-report', '--workers', '1']],
   ])('%s prints each warning as one "warning: FILE: key: text" line and still succeeds', async (command, args) => {
-    const r = await capture([command, ...args]);
+    const r = await runMain([command, ...args]);
     expect(r.code, r.err).toBe(0);
     const lines = r.err.split('\n').filter((l) => l.startsWith('warning: '));
     expect(lines.some((l) => l.startsWith(`warning: ${file}: transitions[0].lifetime: `)), r.err).toBe(true);
