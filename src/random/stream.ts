@@ -8,6 +8,8 @@ const INV_TWO_POW_32 = 1 / 4294967296;
 const LAYER_K = ZIGGURAT.k;
 const LAYER_W = ZIGGURAT.w;
 const LAYER_F = ZIGGURAT.f;
+/** A zero record for `fillNormals` (grown on demand, never written). */
+let ZEROS = new Float64Array(0);
 
 /** A seeded stream of uniform integers, uniform doubles and standard normals. */
 export class RandomStream {
@@ -101,16 +103,9 @@ export class RandomStream {
    * draws, as zeroing the range and calling addNormals(out, start, count, 1), in one pass.
    */
   fillNormals(out: Float64Array, start: number, count: number): void {
-    if (this.rejectIndex.length < count) {
-      this.rejectIndex = new Int32Array(count);
-      this.rejectDraw = new Int32Array(count);
-    }
-    const nRejects = writeNormalsFast(this.s, out, start, count, this.rejectIndex, this.rejectDraw);
-    const rejectIndex = this.rejectIndex, rejectDraw = this.rejectDraw;
-    for (let r = 0; r < nRejects; r++) {
-      const u = rejectDraw[r]!;
-      out[rejectIndex[r]!] = this.normalSlowPath(u >> 7, u & 127);
-    }
+    if (ZEROS.length < start + count) ZEROS = new Float64Array(start + count);
+    // 0 + 1·x is x exactly, so this writes the normals themselves
+    this.addNormalsOnto(out, ZEROS, start, count, 1);
   }
 
   /** Ziggurat rejection branch: the base strip's tail or a wedge (Marsaglia & Tsang 2000). */
@@ -170,32 +165,3 @@ function addNormalsFast(
   return nRejects;
 }
 
-/** The fast pass of `fillNormals`: as addNormalsFast with σ = 1, writing instead of adding (rejected entries are set to 0). */
-function writeNormalsFast(
-  st: Int32Array, out: Float64Array, start: number, count: number, rejectIndex: Int32Array, rejectDraw: Int32Array,
-): number {
-  let s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
-  let nRejects = 0;
-  const end = start + count;
-  for (let i = start; i < end; i++) {
-    const m = Math.imul(s1, 5);
-    const u = Math.imul((m << 7) | (m >>> 25), 9);
-    const t = s1 << 9;
-    const n2 = s2 ^ s0;
-    const n3 = s3 ^ s1;
-    s1 = s1 ^ n2;
-    s0 = s0 ^ n3;
-    s2 = n2 ^ t;
-    s3 = (n3 << 11) | (n3 >>> 21);
-    const layer = u & 127;
-    const pos = u >> 7;
-    if (Math.abs(pos) < LAYER_K[layer]!) out[i] = pos * LAYER_W[layer]!;
-    else {
-      out[i] = 0;
-      rejectIndex[nRejects] = i;
-      rejectDraw[nRejects++] = u;
-    }
-  }
-  st[0] = s0; st[1] = s1; st[2] = s2; st[3] = s3;
-  return nRejects;
-}
