@@ -91,7 +91,8 @@ function rss(engine: 'exact' | 'traces', shots: number): { maxRssMB: number; sec
   const dir = mkdtempSync(join(tmpdir(), 'singleshot-rss-'));
   const file = join(dir, 'workload.yaml');
   writeFileSync(file, WORKLOAD_YAML);
-  const out = execFileSync('node', [join(root, 'bin/run-ts.js'), join(here, '..', 'rss-child.ts'), file, join(dir, 'out'), engine, String(shots), '1'], { encoding: 'utf8', cwd: root });
+  // with the nursery size bin/singleshot.js runs with
+  const out = execFileSync('node', ['--max-semi-space-size=2', join(root, 'bin/run-ts.js'), join(here, '..', 'rss-child.ts'), file, join(dir, 'out'), engine, String(shots), '1'], { encoding: 'utf8', cwd: root });
   return JSON.parse(out.trim().split('\n').pop()!) as { maxRssMB: number; seconds: number };
 }
 
@@ -120,7 +121,7 @@ export const cases: BenchCase[] = [
       const scenario = benchWorkload();
       const samples = compilePoint(scenario).grid.samples;
       const pool = workerPoolExecutor(2);
-      const tasks: BatchTask[] = Array.from({ length: 8 }, (_, i) => ({ point: 0, purpose: 'score', batch: i, count: scenario.batchSize, engine: 'traces' }));
+      const tasks: BatchTask[] = Array.from({ length: 32 }, (_, i) => ({ point: 0, purpose: 'score', batch: i, count: scenario.batchSize, engine: 'traces' }));
       const points = [{ parameters: {}, scenario }];
       try {
         const rate = await measureRate(async () => {

@@ -121,7 +121,8 @@ export function workerPoolExecutor(workers: number, options: PoolOptions = {}): 
     if (threads) return threads;
     const { module, tsx } = workerModule();
     threads = Array.from({ length: workers }, () => {
-      const worker = new Worker(BOOT, { eval: true, workerData: { module, tsx } });
+      // the same small nursery as bin/singleshot.js gives the main thread (flat memory)
+      const worker = new Worker(BOOT, { eval: true, workerData: { module, tsx }, resourceLimits: { maxYoungGenerationSizeMb: 6 } });
       const t = { worker, busy: 0, dead: null as Error | null };
       worker.on('message', (m: FromWorker) => {
         if (m.type === 'boot-error') return failAll(reviveError(m.error));
