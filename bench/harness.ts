@@ -1,3 +1,6 @@
+import { compilePoint } from '../src/plan/compile.ts';
+import { makeScratch, simulateBatch } from '../src/plan/batch.ts';
+import type { Scenario } from '../src/scenario/types.ts';
 /** Types and helpers shared by benchmark cases. */
 
 export interface BenchResult {
@@ -24,4 +27,29 @@ export async function measureRate(work: () => number | Promise<number>, seconds 
   t0 = performance.now();
   while (performance.now() - t0 < seconds * 1000) items += await work();
   return items / ((performance.now() - t0) / 1000);
+}
+
+/**
+ * Trace-engine samples/s of several scenarios measured side by side: one batch of each in
+ * turn, so that load on the machine hits all alike and their ratios stay meaningful.
+ */
+export function interleavedTraceRates(scenarios: readonly Scenario[], warmupMs = 2000, measureMs = 8000): number[] {
+  const runs = scenarios.map((scenario) => {
+    const point = compilePoint(scenario);
+    return { scenario, point, scratch: makeScratch(point), time: 0, samples: 0 };
+  });
+  let batch = 0;
+  const step = () => {
+    for (const r of runs) {
+      const t0 = performance.now();
+      simulateBatch(r.point, 0, 'score', batch % 1000, r.scenario.batchSize, r.scratch);
+      r.time += performance.now() - t0;
+      r.samples += r.scenario.batchSize * r.point.grid.samples;
+    }
+    batch++;
+  };
+  for (const until = performance.now() + warmupMs; performance.now() < until;) step();
+  for (const r of runs) { r.time = 0; r.samples = 0; }
+  for (const until = performance.now() + measureMs; performance.now() < until;) step();
+  return runs.map((r) => r.samples / (r.time / 1000));
 }

@@ -4,10 +4,8 @@
  * on the continuous timeline across shots. The white-only engine runs alternately in the same
  * loop, so the ratio of the two rates is measured under the same conditions.
  */
-import { compilePoint } from '../../src/plan/compile.ts';
-import { makeScratch, simulateBatch } from '../../src/plan/batch.ts';
 import { benchWorkload } from '../workload.ts';
-import type { BenchCase } from '../harness.ts';
+import { interleavedTraceRates, type BenchCase } from '../harness.ts';
 import type { Scenario } from '../../src/scenario/types.ts';
 
 /** The core workload with sensor-side 1/f noise added. */
@@ -28,24 +26,7 @@ export const cases: BenchCase[] = [{
   baseline: 'numpy-trace',
   baselineField: 'samples_per_s',
   async run() {
-    const runs = [benchWorkload(), flickerWorkload()].map((scenario) => {
-      const point = compilePoint(scenario);
-      return { scenario, point, scratch: makeScratch(point), time: 0, samples: 0 };
-    });
-    let batch = 0;
-    const step = () => {
-      for (const r of runs) {
-        const t0 = performance.now();
-        simulateBatch(r.point, 0, 'score', batch % 1000, r.scenario.batchSize, r.scratch);
-        r.time += performance.now() - t0;
-        r.samples += r.scenario.batchSize * r.point.grid.samples;
-      }
-      batch++;
-    };
-    for (const until = performance.now() + 2000; performance.now() < until;) step();
-    for (const r of runs) { r.time = 0; r.samples = 0; }
-    for (const until = performance.now() + 8000; performance.now() < until;) step();
-    const [white, flicker] = runs.map((r) => r.samples / (r.time / 1000));
+    const [white, flicker] = interleavedTraceRates([benchWorkload(), flickerWorkload()]);
     return { rate: flicker!, detail: `${(flicker! / white!).toFixed(2)}× the white-only rate (${(white! / 1e6).toFixed(1)} M samples/s) measured alongside; 1/f on [1 Hz, 1 MHz]` };
   },
 }];

@@ -6,10 +6,8 @@
  * hidden-Markov recursion at scoring. The plain workload runs alternately in the same loop, so
  * the ratios are measured under the same conditions.
  */
-import { compilePoint } from '../../src/plan/compile.ts';
-import { makeScratch, simulateBatch } from '../../src/plan/batch.ts';
 import { benchWorkload } from '../workload.ts';
-import type { BenchCase } from '../harness.ts';
+import { interleavedTraceRates, type BenchCase } from '../harness.ts';
 import type { PipelineSpec, Scenario } from '../../src/scenario/types.ts';
 
 const base = { referencePhase: 0, threshold: { method: 'midpoint' as const, value: 0 } };
@@ -32,24 +30,7 @@ export const cases: BenchCase[] = [{
       withPipeline({ name: 'matched', ...base, filter: { kind: 'butterworth', order: 4, cutoff: 2e6 }, decimate: 20, weights: 'matched', calibratedWeights: weights }),
       withPipeline({ name: 'hmm', ...base, classifier: 'likelihood', decimate: 20 }),
     ];
-    const runs = scenarios.map((scenario) => {
-      const point = compilePoint(scenario);
-      return { scenario, point, scratch: makeScratch(point), time: 0, samples: 0 };
-    });
-    let batch = 0;
-    const step = () => {
-      for (const r of runs) {
-        const t0 = performance.now();
-        simulateBatch(r.point, 0, 'score', batch % 1000, r.scenario.batchSize, r.scratch);
-        r.time += performance.now() - t0;
-        r.samples += r.scenario.batchSize * r.point.grid.samples;
-      }
-      batch++;
-    };
-    for (const until = performance.now() + 2000; performance.now() < until;) step();
-    for (const r of runs) { r.time = 0; r.samples = 0; }
-    for (const until = performance.now() + 8000; performance.now() < until;) step();
-    const [plain, matched, hmm] = runs.map((r) => r.samples / (r.time / 1000));
+    const [plain, matched, hmm] = interleavedTraceRates(scenarios);
     return {
       rate: matched!,
       detail: `Butterworth+matched kernel ${(matched! / plain!).toFixed(2)}×, likelihood bins ${(hmm! / plain!).toFixed(2)}× the plain boxcar rate (${(plain! / 1e6).toFixed(1)} M samples/s) measured alongside`,
