@@ -44,7 +44,7 @@ describe('mcnemarExact', () => {
 
 describe('pairedDifference (Newcombe 1998 method 10)', () => {
   // reference library: Newcombe, Stat. Med. 17, 2635 (1998) method 10 evaluated in Python over
-  // scipy binomtest Wilson intervals (a second transcription), test/fixtures/make-mcnemar.py
+  // scipy binomtest Wilson intervals (a second, independent implementation), test/fixtures/make-mcnemar.py
   it.each(fixture.paired)(
     'a=$bothWrong b=$onlyAWrong c=$onlyBWrong n=$n c=$confidence',
     ({ bothWrong, onlyAWrong, onlyBWrong, n, confidence, difference, low, high }) => {
