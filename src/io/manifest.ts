@@ -3,10 +3,10 @@
  * `complete: false` before the first table and rewritten with `complete: true` after the last,
  * so a folder from an interrupted run says so (merge and report refuse it).
  */
-import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../errors.ts';
 import { writeFileAtomic } from './atomic-file.ts';
+import { readJsonFile } from './json-file.ts';
 import { TOOL_VERSION } from './metadata.ts';
 
 export interface Manifest {
@@ -35,18 +35,7 @@ export function writeManifest(dir: string, m: Omit<Manifest, 'tool' | 'version'>
 /** Reads run.json of a folder; refuses a missing, malformed or incomplete one. */
 export function readManifest(dir: string, requireComplete = true): Manifest {
   const path = join(dir, MANIFEST);
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch {
-    throw new InputError(path, '', 'not found: this folder does not hold a singleshot run');
-  }
-  let m: Manifest;
-  try {
-    m = JSON.parse(text) as Manifest;
-  } catch {
-    throw new InputError(path, '', 'is not valid JSON');
-  }
+  const m = readJsonFile(path, 'not found: this folder does not hold a singleshot run') as Manifest;
   if (m.tool !== 'singleshot' || typeof m.complete !== 'boolean') throw new InputError(path, 'tool', '"singleshot" run manifest', JSON.stringify(m.tool));
   if (requireComplete && !m.complete) throw new InputError(path, 'complete', 'a finished run', 'complete: false (the run was interrupted)');
   return m;

@@ -8,7 +8,6 @@
  * (e.g. a built classifier's methods) are not data: they are recorded by name and come back as
  * stubs that throw if called (a merge never needs them: it only recomputes tables).
  */
-import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../errors.ts';
 import type { PairTally } from '../analysis/compare.ts';
@@ -16,6 +15,7 @@ import type { TallyNode } from '../analysis/tally-tree.ts';
 import type { PipelineCalibration } from '../plan/calibrate.ts';
 import type { PointResult } from '../plan/run.ts';
 import { writeFileAtomic } from './atomic-file.ts';
+import { readJsonFile } from './json-file.ts';
 import { TOOL_VERSION } from './metadata.ts';
 
 export const TALLIES = 'tallies.json';
@@ -130,15 +130,10 @@ export function writeTallies(dir: string, t: RunTallies): void {
 /** Reads a folder's tallies.json; refuses a missing or foreign one. */
 export function readTallies(dir: string): RunTallies {
   const path = join(dir, TALLIES);
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch {
-    throw new InputError(path, '', 'not found: this run kept no tallies (it was made by an older singleshot?), so it cannot be merged');
-  }
+  const raw = readJsonFile(path, 'not found: this run kept no tallies (it was made by an older singleshot?), so it cannot be merged');
   let t: RunTallies;
   try {
-    t = decodeData(JSON.parse(text)) as RunTallies;
+    t = decodeData(raw) as RunTallies;
   } catch {
     throw new InputError(path, '', 'is not valid JSON');
   }
