@@ -175,10 +175,3 @@ export function analyticBudget(input: BudgetInput): Budget {
   const separation = Math.abs(groupMean(1) - groupMean(0));
   return { means, sigma, separation, snr: sigma > 0 ? separation / sigma : Infinity, perState, mean };
 }
-
-/** Variance of Σ kernel[k]·(white noise of per-sample σ) = σ²·Σ kernel[k]². */
-export function whiteNoiseVariance(kernel: Float64Array, lo: number, hi: number, sigmaPerSample: number): number {
-  let s = 0;
-  for (let k = lo; k < hi; k++) s += kernel[k]! * kernel[k]!;
-  return sigmaPerSample * sigmaPerSample * s;
-}

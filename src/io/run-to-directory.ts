@@ -76,25 +76,16 @@ export interface RunToDirectoryResult {
 /** Runs estimated shorter than this (s) stay on one thread unless `workers` is given. */
 export const POOL_MIN_SECONDS = 2;
 
-/** Turns a loaded scenario into sweep points (a single point when nothing is swept). */
-export type SweepExpander = (loaded: Awaited<ReturnType<typeof loadScenarioFile>>, file: string) => SweepPoint[];
-
-let sweepExpander: SweepExpander = (loaded, file) => expandSweep(loaded.doc, loaded.scenario, file);
-
-/** Installs the sweep expansion (the sweep module registers itself here). */
-export function setSweepExpander(f: SweepExpander): void {
-  sweepExpander = f;
-}
 
 /** The sweep points of a loaded scenario, as `run` makes them (merge rebuilds points this way). */
 export function expandPoints(loaded: Awaited<ReturnType<typeof loadScenarioFile>>, file: string): SweepPoint[] {
-  return sweepExpander(loaded, file);
+  return expandSweep(loaded.doc, loaded.scenario, file);
 }
 
 export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDirectoryResult> {
   const loaded = await loadScenarioFile(o.scenarioPath, { shots: o.shots, seed: o.seed });
   loaded.warnings.forEach((w) => o.onWarning?.(w));
-  const points = withKeptTraces(sweepExpander(loaded, o.scenarioPath), o.keepTraces);
+  const points = withKeptTraces(expandPoints(loaded, o.scenarioPath), o.keepTraces);
   if (o.refine) checkRefineRequest(o.refine, loaded, o.scenarioPath, o.shard);
   // the engine is chosen before anything is estimated or written: the estimate depends on it,
   // and every table's metadata names it and why

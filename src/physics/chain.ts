@@ -86,10 +86,3 @@ export function growJumpArrays(path: { times: Float64Array; entered: Uint8Array 
   path.times = times;
   path.entered = entered;
 }
-
-/** The state of `path` (started in `start`) at time t. */
-export function stateAt(path: PathBuffer, start: number, t: number): number {
-  let s = start;
-  for (let j = 0; j < path.jumps && path.times[j]! <= t; j++) s = path.entered[j]!;
-  return s;
-}

@@ -155,11 +155,6 @@ export interface NoisePlan {
   slow: boolean;
 }
 
-/** True when the point's noise is white and the chain linear, so the exact-statistic engine applies. */
-export function exactEngineSupports(plan: NoisePlan): boolean {
-  return !plan.slow && plan.response === null && plan.digitizer === null;
-}
-
 /** The white sources of a (sensor-applied) scenario: given white noise and the components. */
 export function whiteSources(scenario: Scenario, sampleRate: number): WhiteSource[] {
   const gain = scenario.signal.gain;

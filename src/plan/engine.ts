@@ -91,9 +91,3 @@ export function chooseEngine(scenarios: readonly Scenario[], request: EngineRequ
   if (blockers.length > 0) return { engine: 'traces', reason: `auto: the exact engine does not apply (${blockers.join('; ')}); ${TRACES_WHY}` };
   return { engine: 'exact', reason: `auto: ${EXACT_WHY}` };
 }
-
-/** Parses an --engine value. */
-export function parseEngineRequest(v: string): EngineRequest {
-  if (v === 'exact' || v === 'traces' || v === 'auto') return v;
-  throw new InputError('--engine', '', 'exact, traces or auto', JSON.stringify(v));
-}

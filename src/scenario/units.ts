@@ -289,12 +289,6 @@ export function matchDimension(q: Quantity, kind: DimensionName): number {
   return DIMENSIONS[kind].dims.findIndex((d) => sameDimension(q.dim, d as Dimension));
 }
 
-/** "a frequency (e.g. "100 MHz")", for messages. */
-export function describeDimension(kind: DimensionName): string {
-  const d = DIMENSIONS[kind];
-  return `${d.label} (e.g. "${d.example}")`;
-}
-
 const FORMAT_PREFIXES: [number, string][] = [
   [1e12, 'T'], [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''],
   [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'],
