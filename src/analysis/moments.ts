@@ -5,6 +5,10 @@
  * results combined by the pairwise formula of Chan, Golub & LeVeque (Stanford report
  * STAN-CS-79-773, 1979; also Am. Stat. 37, 242 (1983)):
  * δ = mean_b − mean_a, mean = mean_a + δ·n_b/n, m2 = m2_a + m2_b + δ²·n_a·n_b/n.
+ * A chunk of values seen in one pass can also be summarised by shifted sums (the shift one of
+ * the values, so the sums are of deviations of a few σ and lose no precision):
+ * S1 = Σ(x − c), S2 = Σ(x − c)², mean = c + S1/n, m2 = S2 − S1²/n (Chan, Golub & LeVeque 1983,
+ * "shifted data"); the hot loops use it because it needs no division per value.
  * All functions are pure: they return a new accumulator and never modify their inputs.
  */
 
@@ -49,6 +53,16 @@ export function addValues(
     m2 += delta * (x - mean);
   }
   return { n, mean, m2 };
+}
+
+/**
+ * The moments of n values from their shifted sums s1 = Σ(x − shift), s2 = Σ(x − shift)², with
+ * the arithmetic every caller must share (the tallies of both engines are compared bit for bit).
+ */
+export function momentsFromShiftedSums(n: number, shift: number, s1: number, s2: number): Moments {
+  if (n === 0) return { n: 0, mean: 0, m2: 0 };
+  const q = s1 / n;
+  return { n, mean: shift + q, m2: Math.max(0, s2 - s1 * q) };
 }
 
 /** Accumulator of the union of two disjoint streams (Chan et al. pairwise formula). */

@@ -5,7 +5,7 @@
  * Integer counts and batch-ordered merges keep the result independent of batching.
  */
 import { CAUSES } from './causes.ts';
-import { emptyMoments, mergeMoments, type Moments } from './moments.ts';
+import { emptyMoments, mergeMoments, momentsFromShiftedSums, type Moments } from './moments.ts';
 
 export interface Tally {
   states: number;
@@ -51,15 +51,16 @@ export interface TallyInput {
 
 /**
  * Adds one batch to the tally. Moments are accumulated per chunk of `chunk` shots (the seeding
- * block) and merged chunk by chunk in order, so floating-point results do not depend on how
- * the shots were grouped into batches, workers or shards.
+ * block) as shifted sums about each state's first clean value of the chunk
+ * (moments.ts momentsFromShiftedSums) and merged chunk by chunk in order, so floating-point
+ * results do not depend on how the shots were grouped into batches, workers or shards.
  */
 export function addToTally(tally: Tally, b: TallyInput, chunk = 1024): Tally {
   const { outcomes, states } = tally;
   const c = CAUSES.length;
-  const n = new Float64Array(states), mean = new Float64Array(states), m2 = new Float64Array(states);
+  const n = new Float64Array(states), shift = new Float64Array(states), s1 = new Float64Array(states), s2 = new Float64Array(states);
   for (let start = 0; start < b.count; start += chunk) {
-    n.fill(0); mean.fill(0); m2.fill(0);
+    n.fill(0); s1.fill(0); s2.fill(0);
     const end = Math.min(b.count, start + chunk);
     for (let i = start; i < end; i++) {
       const s = b.intended[i]!;
@@ -71,13 +72,14 @@ export function addToTally(tally: Tally, b: TallyInput, chunk = 1024): Tally {
       }
       if (b.prepared[i] === s && b.initial[i] === s && b.jumpCause[i] === 0) {
         const x = b.projected[i]!;
+        if (n[s] === 0) shift[s] = x;
         n[s]!++;
-        const delta = x - mean[s]!;
-        mean[s]! += delta / n[s]!;
-        m2[s]! += delta * (x - mean[s]!);
+        const d = x - shift[s]!;
+        s1[s]! += d;
+        s2[s]! += d * d;
       }
     }
-    tally.clean = tally.clean.map((m, s) => mergeMoments(m, { n: n[s]!, mean: mean[s]!, m2: m2[s]! }));
+    tally.clean = tally.clean.map((m, s) => mergeMoments(m, momentsFromShiftedSums(n[s]!, shift[s]!, s1[s]!, s2[s]!)));
   }
   return tally;
 }

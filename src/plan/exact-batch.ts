@@ -26,9 +26,6 @@ import { makeScratch, makeShotBatch, scratchHistory, type BatchScratch, type Sho
 import type { CompiledPoint } from './compile.ts';
 import { sampleHistories, type PathStore } from './history.ts';
 
-/** Normals per addNormals call (its rejection scratch holds 256 entries). */
-const NORMAL_PIECE = 256;
-
 /** Per-point tables of the exact engine. */
 export interface ExactTables {
   /** Number of nonzero outputs (I of every pipeline, Q of those with a carrier). */
@@ -146,8 +143,9 @@ export function refreshExactScratch(point: CompiledPoint, scratch: ExactScratch)
 
 /**
  * Runs shots [batch·batchSize, batch·batchSize + count) through the exact engine. Same
- * ShotBatch as `simulateBatch`; each block draws its histories first (identical to the trace
- * engine's), then its normals: column j of the Cholesky factor for all the block's shots, j in
+ * ShotBatch as `simulateBatch`; each block draws its histories from the start of its stream
+ * (identical to the trace engine's), and its normals from the block's second lane
+ * (random/streams.ts `laneInto`), shot by shot: the shot's normals for the Cholesky columns in
  * increasing order.
  */
 export function simulateExactBatch(
@@ -161,12 +159,13 @@ export function simulateExactBatch(
   const { store } = scratch;
   const targets = outputTargets(t, out);
   const blocks = new BlockStreams(point.scenario.seed, pointIndex, purpose, out.firstShot / SEED_BLOCK);
-  const stream = blocks.current();
+  const stream = blocks.current(), lane = blocks.current();
   for (let from = 0; from < count; from += SEED_BLOCK) {
     if (from > 0) blocks.advanceInto(stream);
+    blocks.laneInto(lane);
     const to = Math.min(count, from + SEED_BLOCK);
     sampleHistories(history, stream, out, from, to, store);
-    blockValues(t, stream, scratch.normals, targets, out.initial, from, to, store);
+    blockValues(t, lane, scratch.normals, targets, out.initial, from, to, store);
   }
   addAcrossShotNoise(point, out);
   return out;
@@ -183,14 +182,19 @@ export function outputTargets(t: ExactTables, out: Pick<ShotBatch, 'values'>): F
   });
 }
 
+/** Output d's factor entry for the c-th nonzero Cholesky column (0 where that column does not reach d). */
+export function factorEntry(t: ExactTables, d: number, c: number): number {
+  return c < t.columns.length && t.columns[c]! <= d ? t.factor[d * t.outputs + t.columns[c]!]! : 0;
+}
+
 /**
- * The values of one seeding block's shots [from, to), whose histories were just drawn from
- * `stream` (initial states in `initial`, jumps in `store`, store index = shot − from): draws the
- * block's normals (column j of the Cholesky factor for all the block's shots, j ascending) and
- * writes targets[d][i] for every output d.
+ * The values of one seeding block's shots [from, to), whose histories were just drawn (initial
+ * states in `initial`, jumps in `store`, store index = shot − from): draws the block's normals
+ * from `lane` (shot by shot, one per nonzero Cholesky column) and writes targets[d][i] for
+ * every output d as full[state] + Σ_c L[d][c]·z_c, then the path's signal for shots with jumps.
  */
 export function blockValues(
-  t: ExactTables, stream: RandomStream, normals: Float64Array, targets: readonly Float64Array[], initial: Uint8Array,
+  t: ExactTables, lane: RandomStream, normals: Float64Array, targets: readonly Float64Array[], initial: Uint8Array,
   from: number, to: number, store: PathStore,
 ): void {
   const n = t.outputs, nCols = t.columns.length;
@@ -199,63 +203,54 @@ export function blockValues(
   const offset = store.offset;
   // (the jump arrays may have grown while sampling)
   const times = store.times, entered = store.entered;
-  if (nCols > 0) drawNormals(stream, normals, nCols * len);
+  if (nCols > 0) lane.fillNormals(normals, 0, nCols * len);
   // the block's shots with jumps inside the record (store index)
   const jumping = jumpingShots;
   let nJumping = 0;
   for (let j = 0; j < len; j++) if (offset[j] !== offset[j + 1]) jumping[nJumping++] = j;
   for (let d = 0; d < n; d++) {
     const y = targets[d]!;
-    // the no-jump signal and the noise in one pass: y = full[state] + Σ_j L[d][j]·z_j
-    const c0 = nCols > 0 && t.columns[0]! <= d ? t.factor[d * n + t.columns[0]!]! : 0;
-    const c1 = nCols > 1 && t.columns[1]! <= d ? t.factor[d * n + t.columns[1]!]! : 0;
-    noJumpPart(y, from, to, t.full, d * states, initial, c0, normals, 0, c1, normals, len);
+    // the no-jump signal and the noise in one pass: y = full[state] + Σ_c L[d][c]·z_c
+    noJumpPart(y, from, to, t.full, d * states, initial, factorEntry(t, d, 0), factorEntry(t, d, 1), normals, nCols);
     for (let c = 2; c < nCols; c++) {
-      const j = t.columns[c]!;
-      if (j > d) break;
-      addScaled(y, from, to, t.factor[d * n + j]!, normals, c * len);
+      if (t.columns[c]! > d) break;
+      addScaled(y, from, to, factorEntry(t, d, c), normals, c, nCols);
     }
     // shots with jumps inside the record: replace the no-jump signal by the path's
     for (let k = 0; k < nJumping; k++) {
       const i = from + jumping[k]!;
       const a = offset[i - from]!, b = offset[i - from + 1]!;
-      const start = initial[i]!;
-      const value = t.response
-        ? respondedPathValue(t, d, states, start, times, entered, a, b)
-        : pathValue(t.prefix, d * states, t.lo[d]!, t.hi[d]!, t.sampleRate, start, times, entered, a, b);
-      y[i] += value - t.full[d * states + start]!;
+      y[i] += signalValue(t, d, initial[i]!, times, entered, a, b) - t.full[d * states + initial[i]!]!;
     }
   }
 }
 
-/**
- * Fills out[0 … count) with standard normals from the stream, in pieces of at most
- * NORMAL_PIECE so the generator's rejection scratch is never reallocated.
- */
-function drawNormals(stream: RandomStream, out: Float64Array, count: number): void {
-  // (fillNormals = zero + addNormals(…, 1), piece by piece: the pieces fix the draw order)
-  for (let i = 0; i < count; i += NORMAL_PIECE) stream.fillNormals(out, i, Math.min(NORMAL_PIECE, count - i));
+/** The noise-free value of output d for a path starting in `start` with jumps [a, b) of the store. */
+export function signalValue(t: ExactTables, d: number, start: number, times: Float64Array, entered: Uint8Array, a: number, b: number): number {
+  return t.response
+    ? respondedPathValue(t, d, t.states, start, times, entered, a, b)
+    : pathValue(t.prefix, d * t.states, t.lo[d]!, t.hi[d]!, t.sampleRate, start, times, entered, a, b);
 }
 
-/** y[i] += c·z[z0 + i − from] for i in [from, to). */
-function addScaled(y: Float64Array, from: number, to: number, c: number, z: Float64Array, z0: number): void {
-  const shift = z0 - from;
-  for (let i = from; i < to; i++) y[i] += c * z[shift + i]!;
+/** y[i] += c·z[(i − from)·stride + col] for i in [from, to). */
+function addScaled(y: Float64Array, from: number, to: number, c: number, z: Float64Array, col: number, stride: number): void {
+  for (let i = from, k = col; i < to; i++, k += stride) y[i] += c * z[k]!;
 }
 
 /**
- * y[i] = full[base + initial[i]] + c0·z0[i − from] + c1·z1[len + i − from] for the shots [from, to)
- * of a block (the first two Cholesky columns; c = 0 where a column does not reach this output).
+ * y[i] = full[base + initial[i]] + c0·z_0 (+ c1·z_1 when c1 ≠ 0) for the shots [from, to) of a
+ * block, z_c the shot's c-th normal (z[(i − from)·stride + c]; 0 without columns).
  */
 function noJumpPart(
   y: Float64Array, from: number, to: number, full: Float64Array, base: number, initial: Uint8Array,
-  c0: number, z0: Float64Array, z0Start: number, c1: number, z1: Float64Array, len: number,
+  c0: number, c1: number, z: Float64Array, stride: number,
 ): void {
-  const s0 = z0Start - from, s1 = len - from;
-  if (c1 === 0) {
-    for (let i = from; i < to; i++) y[i] = full[base + initial[i]!]! + c0 * z0[s0 + i]!;
+  if (stride === 0) {
+    for (let i = from; i < to; i++) y[i] = full[base + initial[i]!]! + c0 * 0;
+  } else if (c1 === 0) {
+    for (let i = from, k = 0; i < to; i++, k += stride) y[i] = full[base + initial[i]!]! + c0 * z[k]!;
   } else {
-    for (let i = from; i < to; i++) y[i] = full[base + initial[i]!]! + c0 * z0[s0 + i]! + c1 * z1[s1 + i]!;
+    for (let i = from, k = 0; i < to; i++, k += stride) y[i] = full[base + initial[i]!]! + c0 * z[k]! + c1 * z[k + 1]!;
   }
 }
 

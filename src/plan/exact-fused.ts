@@ -3,13 +3,16 @@
  * seeding block, for runs that keep no per-shot table (`run --no-shots-table`). Per block it
  * draws the histories (history.ts) and the values (exact-batch.ts `blockValues`) exactly as
  * `simulateExactBatch` does, then projects, thresholds, attributes the cause and adds the shot
- * to the block's tally leaf, in the same arithmetic order as score.ts and analysis/tally.ts.
+ * to the block's tally leaf, in the same arithmetic order as score.ts and analysis/tally.ts;
+ * the common point (two states, one pipeline) runs all of it in one loop (exact-fast.ts).
  * The leaves are therefore bit for bit those that `tallyBatch` builds from a scored ShotBatch,
  * and the run's tables do not change (test/plan/exact-fused.test.ts); only the per-shot arrays
  * are never made, and a worker sends back a few hundred bytes per batch instead of ~60 per shot.
  */
 import { CAUSE_MAPPING, CAUSE_NOISE, CAUSE_NONE, CAUSE_PREPARATION, CAUSES } from '../analysis/causes.ts';
 import { emptyTally, type Tally } from '../analysis/tally.ts';
+import { momentsFromShiftedSums } from '../analysis/moments.ts';
+import { fastKernelApplies, fastTallyBlock, finishTwoByTwo } from './exact-fast.ts';
 import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../random/streams.ts';
 import type { CompiledPoint } from './compile.ts';
 import type { PipelineCalibration } from './calibrate.ts';
@@ -76,10 +79,12 @@ interface FusedScratch {
   wrong: Uint8Array[];
   /** The pipeline's own first-jump cause per shot. */
   jumpCause: Uint8Array;
-  /** tallyBlock: shots per (state, outcome); clean shots per state and their values (state·SEED_BLOCK + k). */
+  /** tallyBlock: shots per (state, outcome); per state the clean count, shift and shifted sums. */
   counts: Int32Array;
-  cleanCount: Int32Array;
-  cleanValues: Float64Array;
+  cleanCount: Float64Array;
+  shift: Float64Array;
+  sum1: Float64Array;
+  sum2: Float64Array;
 }
 
 const fusedScratches = new WeakMap<ExactScratch, FusedScratch>();
@@ -88,6 +93,7 @@ function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number,
   let f = fusedScratches.get(scratch);
   if (!f || f.values.length !== outputs || f.wrong.length !== pipelines || f.cleanCount.length < states || f.counts.length < states * outcomes) {
     const u8 = () => new Uint8Array(SEED_BLOCK);
+    const perState = () => new Float64Array(states);
     f = {
       columns: {
         intended: u8(), prepared: u8(), initial: u8(), atWindowStart: u8(), atWindowEnd: u8(),
@@ -96,7 +102,7 @@ function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number,
       values: Array.from({ length: outputs }, () => new Float64Array(SEED_BLOCK)),
       wrong: Array.from({ length: pipelines }, u8),
       jumpCause: u8(),
-      counts: new Int32Array(states * outcomes), cleanCount: new Int32Array(states), cleanValues: new Float64Array(states * SEED_BLOCK),
+      counts: new Int32Array(states * outcomes), cleanCount: perState(), shift: perState(), sum1: perState(), sum2: perState(),
     };
     fusedScratches.set(scratch, f);
   }
@@ -124,17 +130,25 @@ export function simulateTalliedBatch(
   // output index of each pipeline's I and Q (−1: no Q, the value is 0)
   const iOut = new Int32Array(nPipes).fill(-1), qOut = new Int32Array(nPipes).fill(-1);
   for (let d = 0; d < t.outputs; d++) (t.isQuadrature[d] ? qOut : iOut)[t.pipeline[d]!] = d;
+  const fast = fastKernelApplies(t, history, nPipes, outcomes);
   const firstShot = batch * sc.batchSize;
   const leaves: Tally[][] = scoring.pipelines.map(() => []);
   const pairs = new Float64Array(3 * (nPipes * (nPipes - 1)) / 2);
   const zeros = new Float64Array(SEED_BLOCK);
   const blocks = new BlockStreams(sc.seed, pointIndex, purpose, firstShot / SEED_BLOCK);
-  const stream = blocks.current();
+  const stream = blocks.current(), lane = blocks.current();
   for (let from = 0; from < count; from += SEED_BLOCK) {
     if (from > 0) blocks.advanceInto(stream);
+    blocks.laneInto(lane);
     const len = Math.min(count, from + SEED_BLOCK) - from;
+    if (fast) {
+      const leaf = emptyTally(states, outcomes);
+      fastTallyBlock(history, t, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf, columns, scratch.store);
+      leaves[0]!.push(leaf);
+      continue;
+    }
     sampleHistories(history, stream, columns, 0, len, scratch.store);
-    blockValues(t, stream, scratch.normals, values, columns.initial, 0, len, scratch.store);
+    blockValues(t, lane, scratch.normals, values, columns.initial, 0, len, scratch.store);
     for (let p = 0; p < nPipes; p++) {
       const s = scoring.pipelines[p]!;
       const leaf = emptyTally(states, outcomes);
@@ -162,9 +176,8 @@ function windowedJumpCause(c: HistoryColumns, last: number, len: number, out: Ui
  *
  * Written for speed, without changing a bit: one pass projects and decides without
  * data-dependent branches (outcomes are near 50/50), counts shots per (state, outcome) in
- * integers, takes a branch only for the rare wrong shot, and copies every clean shot's value to
- * its state's list; a second pass runs Welford's update over each state's list in shot order —
- * the same sequence of operations as one pass over the shots, so the same moments to the bit.
+ * integers, takes a branch only for the rare wrong shot, and adds each clean shot to its
+ * state's shifted sums in shot order, as addToTally does.
  */
 function tallyBlock(
   leaf: Tally, s: FusedPipeline, inPhase: Float64Array, quadrature: Float64Array, c: HistoryColumns,
@@ -175,9 +188,9 @@ function tallyBlock(
   const cos = s.cos, sin = s.sin, threshold = s.threshold, band = s.band;
   const flip = s.highIsOne ? 0 : 1;
   const intendedCol = c.intended, preparedCol = c.prepared, initialCol = c.initial;
-  const counts = f.counts, cleanCount = f.cleanCount, cleanValues = f.cleanValues;
+  const { counts, cleanCount, shift, sum1, sum2 } = f;
   counts.fill(0, 0, states * outcomes);
-  cleanCount.fill(0, 0, states);
+  cleanCount.fill(0); sum1.fill(0); sum2.fill(0);
   const twoByTwo = states === 2 && outcomes === 2;
   let sumState = 0, sumOutcome = 0, sumBoth = 0;
   for (let i = 0; i < len; i++) {
@@ -185,7 +198,7 @@ function tallyBlock(
     // highIsOne: x > threshold; else x < threshold (classifyAllByThreshold)
     const outcome = flip === 0 ? +(x > threshold) : +(x < threshold);
     const intended = intendedCol[i]!, prepared = preparedCol[i]!, initial = initialCol[i]!, jc = jumpCause[i]!;
-    // two states, two outcomes: three sums instead of a memory count (see below)
+    // two states, two outcomes: three sums instead of a memory count (see finishTwoByTwo)
     if (twoByTwo) {
       sumState += intended; sumOutcome += outcome; sumBoth += intended & outcome;
     } else {
@@ -201,74 +214,30 @@ function tallyBlock(
       discarded[intended]!++;
       if (cause !== 0) discardedWrong[intended]!++;
     }
-    // clean shots (no preparation, mapping or pipeline-window jump) to their state's list
-    const k = cleanCount[intended]!;
-    cleanValues[intended * SEED_BLOCK + k] = x;
-    cleanCount[intended] = k + (+(prepared === intended) & +(initial === intended) & +(jc === 0));
-  }
-  if (twoByTwo) {
-    counts[3] = sumBoth; counts[2] = sumState - sumBoth; counts[1] = sumOutcome - sumBoth;
-    counts[0] = len - sumState - sumOutcome + sumBoth;
-  }
-  for (let st = 0; st < states; st++) {
-    let shots = 0;
-    for (let o = 0; o < outcomes; o++) {
-      const m = counts[st * outcomes + o]!;
-      assignments[st * outcomes + o] = m;
-      shots += m;
+    // clean shots (no preparation, mapping or pipeline-window jump): shifted sums of their state
+    if (prepared === intended && initial === intended && jc === 0) {
+      if (cleanCount[intended] === 0) shift[intended] = x;
+      cleanCount[intended]!++;
+      const d = x - shift[intended]!;
+      sum1[intended]! += d;
+      sum2[intended]! += d * d;
     }
-    let wrongShots = 0;
-    for (let k = 1; k < nCauses; k++) wrongShots += causes[st * nCauses + k]!;
-    causes[st * nCauses + CAUSE_NONE] = shots - wrongShots;
   }
-  // Welford per state over its clean values in shot order (addToTally's update, term by term);
-  // two states side by side, so that their division chains overlap
-  if (states === 2) {
-    welfordPair(leaf, cleanValues, cleanCount[0]!, cleanCount[1]!);
-    return;
-  }
-  for (let st = 0; st < states; st++) {
-    const m = cleanCount[st]!, base = st * SEED_BLOCK;
-    let n = 0, mean = 0, m2 = 0;
-    for (let k = 0; k < m; k++) {
-      const x = cleanValues[base + k]!;
-      n++;
-      const delta = x - mean;
-      mean += delta / n;
-      m2 += delta * (x - mean);
+  if (twoByTwo) finishTwoByTwo(leaf, len, sumState, sumOutcome, sumBoth);
+  else {
+    for (let st = 0; st < states; st++) {
+      let shots = 0;
+      for (let o = 0; o < outcomes; o++) {
+        const m = counts[st * outcomes + o]!;
+        assignments[st * outcomes + o] = m;
+        shots += m;
+      }
+      let wrongShots = 0;
+      for (let k = 1; k < nCauses; k++) wrongShots += causes[st * nCauses + k]!;
+      causes[st * nCauses + CAUSE_NONE] = shots - wrongShots;
     }
-    leaf.clean[st] = { n, mean, m2 };
   }
-}
-
-/** Welford over states 0 and 1 of cleanValues at once (the same operations per state as one at a time). */
-function welfordPair(leaf: Tally, values: Float64Array, count0: number, count1: number): void {
-  let n0 = 0, mean0 = 0, m20 = 0, n1 = 0, mean1 = 0, m21 = 0;
-  const both = Math.min(count0, count1);
-  let k = 0;
-  for (; k < both; k++) {
-    const x0 = values[k]!, x1 = values[SEED_BLOCK + k]!;
-    n0++; n1++;
-    const d0 = x0 - mean0, d1 = x1 - mean1;
-    mean0 += d0 / n0; mean1 += d1 / n1;
-    m20 += d0 * (x0 - mean0); m21 += d1 * (x1 - mean1);
-  }
-  for (let j = k; j < count0; j++) {
-    const x = values[j]!;
-    n0++;
-    const d = x - mean0;
-    mean0 += d / n0;
-    m20 += d * (x - mean0);
-  }
-  for (let j = k; j < count1; j++) {
-    const x = values[SEED_BLOCK + j]!;
-    n1++;
-    const d = x - mean1;
-    mean1 += d / n1;
-    m21 += d * (x - mean1);
-  }
-  leaf.clean[0] = { n: n0, mean: mean0, m2: m20 };
-  leaf.clean[1] = { n: n1, mean: mean1, m2: m21 };
+  for (let st = 0; st < states; st++) leaf.clean[st] = momentsFromShiftedSums(cleanCount[st]!, shift[st]!, sum1[st]!, sum2[st]!);
 }
 
 /** Adds a block's paired counts: for each pair a < b, both wrong, only a, only b. */

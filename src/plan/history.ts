@@ -183,7 +183,7 @@ function firstAbove(c: Float64Array, last: number, u: number): number {
  * The jump chain of shot i, whose first jump is at `first` (the stream's state is the loop's):
  * fills the shot's jump columns and path store; returns the store's new jump count.
  */
-function walkChain(
+export function walkChain(
   t: HistoryTables, stream: RandomStream, out: HistoryColumns, i: number, initial: number, first: number, store: PathStore, nj: number,
 ): number {
   const n = t.states, last = n - 1;

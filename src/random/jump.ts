@@ -52,12 +52,16 @@ export const STREAM_INDEX_BITS = 40;
 export const STREAM_LENGTH_LOG2 = 64;
 
 let table: BitMatrix[] | null = null;
+/** M^(2^63): half a stream's stretch (the offset of a block's second lane). */
+let halfStream: BitMatrix | null = null;
 
 /** M^(2^(64+i)) for i = 0 … STREAM_INDEX_BITS−1, built once (about 10 ms). */
 function jumpTable(): BitMatrix[] {
   if (table) return table;
   let m = stepMatrix();
-  for (let k = 0; k < STREAM_LENGTH_LOG2; k++) m = multiply(m, m);
+  for (let k = 0; k < STREAM_LENGTH_LOG2 - 1; k++) m = multiply(m, m);
+  halfStream = m;
+  m = multiply(m, m);
   const t: BitMatrix[] = [m];
   for (let i = 1; i < STREAM_INDEX_BITS; i++) {
     m = multiply(m, m);
@@ -87,9 +91,25 @@ function byteTable(m: BitMatrix): Uint32Array {
   return t;
 }
 
+/** The same for M^(2^63). */
+let halfStreamTable: Uint32Array | null = null;
+
 /** Advances `s` by 2^64 steps (one stream) in place, by the byte-sliced table; returns it. */
 export function jumpOneStream(s: XoshiroState): XoshiroState {
-  const t = (oneStreamTable ??= byteTable(jumpTable()[0]!));
+  return applyByteTable((oneStreamTable ??= byteTable(jumpTable()[0]!)), s);
+}
+
+/** Advances `s` by 2^63 steps (half a stream) in place; returns it. */
+export function jumpHalfStream(s: XoshiroState): XoshiroState {
+  if (!halfStreamTable) {
+    jumpTable();
+    halfStreamTable = byteTable(halfStream!);
+  }
+  return applyByteTable(halfStreamTable, s);
+}
+
+/** s ← (the matrix of byte table t)·s, in place. */
+function applyByteTable(t: Uint32Array, s: XoshiroState): XoshiroState {
   let o0 = 0, o1 = 0, o2 = 0, o3 = 0;
   for (let w = 0; w < 4; w++) {
     const word = s[w]!;

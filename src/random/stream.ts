@@ -15,17 +15,12 @@ let ZEROS = new Float64Array(0);
 export class RandomStream {
   /** xoshiro128** state, four words (held in an Int32Array so the hot loops read it fast). */
   readonly s: Int32Array;
-  /** Scratch for the ziggurat's rare rejections in `addNormals`. */
-  private rejectIndex: Int32Array;
-  private rejectDraw: Int32Array;
 
   /** `state`: four 32-bit words, not all zero (see streams.ts for how they are derived). */
   constructor(state: Uint32Array) {
     this.s = new Int32Array(4);
     for (let i = 0; i < 4; i++) this.s[i] = state[i]! | 0;
     if ((this.s[0]! | this.s[1]! | this.s[2]! | this.s[3]!) === 0) throw new RangeError('all-zero generator state');
-    this.rejectIndex = new Int32Array(256);
-    this.rejectDraw = new Int32Array(256);
   }
 
   /** The current state (for checkpoints and tests). */
@@ -35,27 +30,17 @@ export class RandomStream {
 
   /** Next 32-bit output as a signed int32 (xoshiro128**). */
   nextInt32(): number {
-    const st = this.s;
-    const s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
-    const m = Math.imul(s1, 5);
-    const result = Math.imul((m << 7) | (m >>> 25), 9);
-    const n2 = s2 ^ s0;
-    const n3 = s3 ^ s1;
-    st[1] = s1 ^ n2;
-    st[0] = s0 ^ n3;
-    st[2] = n2 ^ (s1 << 9);
-    st[3] = (n3 << 11) | (n3 >>> 21);
-    return result;
+    return nextInt32Of(this.s);
   }
 
   /** Next 32-bit output as an unsigned number in [0, 2^32). */
   nextUint32(): number {
-    return this.nextInt32() >>> 0;
+    return nextInt32Of(this.s) >>> 0;
   }
 
   /** Uniform double in the open interval (0, 1), 32-bit resolution. */
   nextDouble(): number {
-    return ((this.nextInt32() >>> 0) + 0.5) * INV_TWO_POW_32;
+    return ((nextInt32Of(this.s) >>> 0) + 0.5) * INV_TWO_POW_32;
   }
 
   /** Exponential variate with the given rate (1/mean). */
@@ -65,20 +50,19 @@ export class RandomStream {
 
   /** Standard normal variate (ziggurat). */
   nextNormal(): number {
-    const u = this.nextInt32();
+    const u = nextInt32Of(this.s);
     const layer = u & 127;
     const pos = u >> 7;
     if (Math.abs(pos) < LAYER_K[layer]!) return pos * LAYER_W[layer]!;
-    return this.normalSlowPath(pos, layer);
+    return normalSlowPath(this.s, pos, layer);
   }
 
   /**
-   * Adds sigma·N(0,1) to out[start … start+count): the inner loop of trace synthesis. The rare
-   * rejections of the ziggurat (about 3 %) are only noted in the loop and resolved after it,
-   * which keeps the loop free of calls. Deterministic: the slow path draws after the loop.
+   * Adds sigma·N(0,1) to out[start … start+count): the inner loop of trace synthesis. The
+   * normals are those of `count` calls of nextNormal(), in order, from the same draws.
    */
   addNormals(out: Float64Array, start: number, count: number, sigma: number): void {
-    this.addNormalsOnto(out, out, start, count, sigma);
+    addNormalsFast(this.s, out, out, start, count, sigma);
   }
 
   /**
@@ -86,61 +70,66 @@ export class RandomStream {
    * draws, as copying base into out and calling addNormals, in one pass (base may be out).
    */
   addNormalsOnto(out: Float64Array, base: Float64Array, start: number, count: number, sigma: number): void {
-    if (this.rejectIndex.length < count) {
-      this.rejectIndex = new Int32Array(count);
-      this.rejectDraw = new Int32Array(count);
-    }
-    const nRejects = addNormalsFast(this.s, out, base, start, count, sigma, this.rejectIndex, this.rejectDraw);
-    const rejectIndex = this.rejectIndex, rejectDraw = this.rejectDraw;
-    for (let r = 0; r < nRejects; r++) {
-      const u = rejectDraw[r]!;
-      out[rejectIndex[r]!] += sigma * this.normalSlowPath(u >> 7, u & 127);
-    }
+    addNormalsFast(this.s, out, base, start, count, sigma);
   }
 
   /**
-   * Fills out[start … start+count) with standard normals: the same numbers, from the same
-   * draws, as zeroing the range and calling addNormals(out, start, count, 1), in one pass.
+   * Fills out[start … start+count) with standard normals: the numbers of `count` calls of
+   * nextNormal(), from the same draws, in one pass.
    */
   fillNormals(out: Float64Array, start: number, count: number): void {
     if (ZEROS.length < start + count) ZEROS = new Float64Array(start + count);
     // 0 + 1·x is x exactly, so this writes the normals themselves
-    this.addNormalsOnto(out, ZEROS, start, count, 1);
+    addNormalsFast(this.s, out, ZEROS, start, count, 1);
   }
+}
 
-  /** Ziggurat rejection branch: the base strip's tail or a wedge (Marsaglia & Tsang 2000). */
-  private normalSlowPath(pos: number, layer: number): number {
-    for (;;) {
-      if (layer === 0) {
-        let x: number, y: number;
-        do {
-          x = -Math.log(this.nextDouble()) / ZIGGURAT_R;
-          y = -Math.log(this.nextDouble());
-        } while (y + y < x * x);
-        return pos > 0 ? ZIGGURAT_R + x : -ZIGGURAT_R - x;
-      }
-      const x = pos * LAYER_W[layer]!;
-      const fl = LAYER_F[layer]!;
-      if (fl + this.nextDouble() * (LAYER_F[layer - 1]! - fl) < Math.exp(-0.5 * x * x)) return x;
-      const u = this.nextInt32();
-      layer = u & 127;
-      pos = u >> 7;
-      if (Math.abs(pos) < LAYER_K[layer]!) return pos * LAYER_W[layer]!;
+/** One xoshiro128** step on the state words; returns the output as a signed int32. */
+export function nextInt32Of(st: Int32Array): number {
+  const s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
+  const m = Math.imul(s1, 5);
+  const result = Math.imul((m << 7) | (m >>> 25), 9);
+  const n2 = s2 ^ s0;
+  const n3 = s3 ^ s1;
+  st[1] = s1 ^ n2;
+  st[0] = s0 ^ n3;
+  st[2] = n2 ^ (s1 << 9);
+  st[3] = (n3 << 11) | (n3 >>> 21);
+  return result;
+}
+
+/**
+ * The ziggurat's rejection branch for a draw that missed its layer's fast region: the base
+ * strip's tail or a wedge (Marsaglia & Tsang 2000), drawing further from the state words. Hot
+ * loops that keep the state in locals call it with the state written back (rare: ~3 % of draws).
+ */
+export function normalSlowPath(st: Int32Array, pos: number, layer: number): number {
+  for (;;) {
+    if (layer === 0) {
+      let x: number, y: number;
+      do {
+        x = -Math.log(((nextInt32Of(st) >>> 0) + 0.5) * INV_TWO_POW_32) / ZIGGURAT_R;
+        y = -Math.log(((nextInt32Of(st) >>> 0) + 0.5) * INV_TWO_POW_32);
+      } while (y + y < x * x);
+      return pos > 0 ? ZIGGURAT_R + x : -ZIGGURAT_R - x;
     }
+    const x = pos * LAYER_W[layer]!;
+    const fl = LAYER_F[layer]!;
+    if (fl + ((nextInt32Of(st) >>> 0) + 0.5) * INV_TWO_POW_32 * (LAYER_F[layer - 1]! - fl) < Math.exp(-0.5 * x * x)) return x;
+    const u = nextInt32Of(st);
+    layer = u & 127;
+    pos = u >> 7;
+    if (Math.abs(pos) < LAYER_K[layer]!) return pos * LAYER_W[layer]!;
   }
 }
 
 /**
- * The fast pass of `addNormalsOnto` as a free function over the state words (V8 optimises it
- * better than a method): out[i] = base[i] + σ·n_i, rejected draws noted for the slow path
- * (out[i] = base[i] there for now). Returns the number of rejected draws.
+ * The loop of `addNormalsOnto` as a free function over the state words (V8 optimises it better
+ * than a method): out[i] = base[i] + σ·n_i with n_i the i-th nextNormal(). The state lives in
+ * locals; the rare rejection writes it back, resolves the draw and reloads it.
  */
-function addNormalsFast(
-  st: Int32Array, out: Float64Array, base: Float64Array, start: number, count: number, sigma: number,
-  rejectIndex: Int32Array, rejectDraw: Int32Array,
-): number {
+function addNormalsFast(st: Int32Array, out: Float64Array, base: Float64Array, start: number, count: number, sigma: number): void {
   let s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
-  let nRejects = 0;
   const end = start + count;
   for (let i = start; i < end; i++) {
     const m = Math.imul(s1, 5);
@@ -154,14 +143,12 @@ function addNormalsFast(
     s3 = (n3 << 11) | (n3 >>> 21);
     const layer = u & 127;
     const pos = u >> 7;
-    if (Math.abs(pos) < LAYER_K[layer]!) out[i] = base[i]! + sigma * pos * LAYER_W[layer]!;
+    if (Math.abs(pos) < LAYER_K[layer]!) out[i] = base[i]! + sigma * (pos * LAYER_W[layer]!);
     else {
-      out[i] = base[i]!;
-      rejectIndex[nRejects] = i;
-      rejectDraw[nRejects++] = u;
+      st[0] = s0; st[1] = s1; st[2] = s2; st[3] = s3;
+      out[i] = base[i]! + sigma * normalSlowPath(st, pos, layer);
+      s0 = st[0]!; s1 = st[1]!; s2 = st[2]!; s3 = st[3]!;
     }
   }
   st[0] = s0; st[1] = s1; st[2] = s2; st[3] = s3;
-  return nRejects;
 }
-

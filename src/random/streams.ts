@@ -19,6 +19,11 @@
  * draws below 2^10 · 2^28 ≈ 2^38 words — a factor 2^26 short of 2^64. Index g < 2^40, so all
  * stretches lie within the first 2^104 steps after the base state, well inside one period.
  *
+ * A block may also draw from its second lane, which starts 2^63 steps into its stretch (the
+ * exact engine takes its normals there, so that its histories stay those of the trace engine,
+ * which draws from the block's start): each lane draws below 2^38 words, so the two lanes of a
+ * block, 2^63 apart, never meet each other or another block's.
+ *
  * Across different seeds the base states are unrelated points of the same period, so two
  * runs' streams are independent in the probabilistic sense only: for two stretches of 2^38
  * words to meet, base states 2^128 apart at random would have to fall within 2^39 of each
@@ -27,7 +32,7 @@
  * jump polynomial); bench/dieharder.sh runs the raw output through dieharder.
  */
 import seedrandom from 'seedrandom';
-import { jumpOneStream, jumpStreams, STREAM_INDEX_BITS } from './jump.ts';
+import { jumpHalfStream, jumpOneStream, jumpStreams, STREAM_INDEX_BITS } from './jump.ts';
 import { RandomStream } from './stream.ts';
 
 /** What a stream is used for; each purpose has its own range of stream indices. */
@@ -85,6 +90,7 @@ export function makeStream(seed: number, point: number, purpose: StreamPurpose, 
  */
 export class BlockStreams {
   private readonly start: Uint32Array;
+  private readonly lane = new Uint32Array(4);
   private block: number;
 
   constructor(seed: number, point: number, purpose: StreamPurpose, firstBlock: number) {
@@ -118,6 +124,14 @@ export class BlockStreams {
     jumpOneStream(this.start);
     this.block++;
     const s = stream.s, t = this.start;
+    s[0] = t[0]! | 0; s[1] = t[1]! | 0; s[2] = t[2]! | 0; s[3] = t[3]! | 0;
+  }
+
+  /** Puts `stream` at the start of the current block's second lane (2^63 steps into its stretch). */
+  laneInto(stream: RandomStream): void {
+    const s = stream.s, t = this.lane;
+    t.set(this.start);
+    jumpHalfStream(t);
     s[0] = t[0]! | 0; s[1] = t[1]! | 0; s[2] = t[2]! | 0; s[3] = t[3]! | 0;
   }
 }

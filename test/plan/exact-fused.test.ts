@@ -55,6 +55,12 @@ async function both(scenario: Scenario, executor?: () => BatchExecutor): Promise
 }
 
 const mix = async () => (await loadScenarioFile('test/fixtures/scenarios/fused-mix.yaml')).scenario;
+const twoState = async () => (await loadScenarioFile('test/fixtures/scenarios/fused-two-state.yaml')).scenario;
+/** The two-state fixture read by a pipeline whose window ends early (its own jump attribution). */
+const shortWindow = async () => {
+  const s = await twoState();
+  return { ...s, pipelines: [{ ...s.pipelines[0]!, ambiguousBand: null, window: { start: 0.5e-6, length: 1e-6 } }] } as Scenario;
+};
 
 describe('fused exact path', () => {
   it.each([
@@ -62,6 +68,8 @@ describe('fused exact path', () => {
     ['two states, sine carrier, relaxation (the benchmark workload, 3000 shots)', async () => twoStateScenario({ t1: 200e-6, shots: 3000, batchSize: 2048 })],
     ['outcome 1 below the threshold (highIsOne false), preparation error', async () => twoStateScenario({ t1: 5e-6, levels: [1, 0], recordLength: 2e-6, sampleRate: 20e6, shots: 4100, preparationError: 0.05 })],
     ['baseband (no Q), relaxation', async () => twoStateScenario({ t1: 3e-6, carrier: 'none', recordLength: 2e-6, sampleRate: 20e6, shots: 2500 })],
+    ['two states (one-loop kernel): flips both ways, both transitions, response, band', twoState],
+    ['two states (one-loop kernel): a pipeline window shorter than the timing window', shortWindow],
   ])('%s: the same tally tree and paired counts to the bit', async (_name, make) => {
     const [fused, perShot] = await both(await make());
     expect(fused.points[0]!.tallyStacks[0]!.length).toBeGreaterThan(0);
