@@ -37,6 +37,8 @@ export function fastTallyBlock(
   h: HistoryTables, t: ExactTables, s: FusedPipeline, outcomeOf: Uint8Array, stream: RandomStream, lane: RandomStream,
   len: number, leaf: Tally, columns: HistoryColumns, store: PathStore,
 ): void {
+  // module constants copied to locals: V8 reloads and checks a module binding on every use in a loop
+  const inv = INV_TWO_POW_32, layer_k = LAYER_K, layer_w = LAYER_W;
   const { prepareCumulative, prepProbability, prepInto, mapProbability, mapInto, anyPrep, anyMap, noJumpCut, exitRate, recordLength } = h;
   const nCauses = CAUSES.length;
   const { causes, discarded, discardedWrong } = leaf;
@@ -49,6 +51,11 @@ export function fastTallyBlock(
   const fullQ = hasQ ? Float64Array.of(t.full[2]!, t.full[3]!) : new Float64Array(2);
   const cI0 = factorEntry(t, 0, 0), cQ0 = hasQ ? factorEntry(t, 1, 0) : 0, cQ1 = hasQ ? factorEntry(t, 1, 1) : 0;
   const qTwoTerms = cQ1 !== 0;
+  // every jump ends the chain: a leaving state's one destination is the other state, which cannot leave
+  const oneJump = singleJumpChain(h);
+  const { jumpCause, lastWindowSample } = h;
+  const prefix = t.prefix, fs = t.sampleRate;
+  const loI = t.lo[0]!, hiI = t.hi[0]!, loQ = hasQ ? t.lo[1]! : 0, hiQ = hasQ ? t.hi[1]! : 0;
   const st = stream.s, ls = lane.s;
   let a0 = st[0]!, a1 = st[1]!, a2 = st[2]!, a3 = st[3]!;
   let b0 = ls[0]!, b1 = ls[1]!, b2 = ls[2]!, b3 = ls[3]!;
@@ -60,40 +67,57 @@ export function fastTallyBlock(
     // history (sampleHistories, draw for draw): xoshiro128** steps on the block's stream, inline
     m = Math.imul(a1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
     x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
-    let u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
+    let u = ((r >>> 0) + 0.5) * inv;
     const intended = +(u > firstCut);
     let prepared = intended;
     if (anyPrep) {
       m = Math.imul(a1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
       x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
-      u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
+      u = ((r >>> 0) + 0.5) * inv;
       prepared = intended + +(u < prepProbability[intended]!) * (prepInto[intended]! - intended);
     }
     let initial = prepared;
     if (anyMap) {
       m = Math.imul(a1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
       x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
-      u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
+      u = ((r >>> 0) + 0.5) * inv;
       initial = prepared + +(u < mapProbability[prepared]!) * (mapInto[prepared]! - prepared);
     }
     m = Math.imul(a1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
     x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
-    u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
+    u = ((r >>> 0) + 0.5) * inv;
     let jc = 0, jumped = false, pathI = 0, pathQ = 0;
     if (u >= noJumpCut[initial]!) {
       const time = -Math.log(u) / exitRate[initial]!;
       if (time < recordLength) {
-        // rare: the jump chain and the path's signal, outside the common path's registers
-        st[0] = a0; st[1] = a1; st[2] = a2; st[3] = a3;
-        columns.jumpCause[0] = 0;
-        const nj = walkChain(h, stream, columns, 0, initial, time, store, 0);
-        a0 = st[0]!; a1 = st[1]!; a2 = st[2]!; a3 = st[3]!;
-        jc = columns.jumpCause[0]!;
-        // the first jump as a pipeline that stops reading at lastSample sees it (score.ts)
-        if (lastSample !== null && !(columns.firstJump[0]! <= lastSample)) jc = 0;
         jumped = true;
-        pathI = signalValue(t, 0, initial, store.times, store.entered, 0, nj);
-        if (hasQ) pathQ = signalValue(t, 1, initial, store.times, store.entered, 0, nj);
+        if (oneJump) {
+          // the chain's one jump, inline (walkChain draw for draw: the destination's uniform,
+          // whose outcome is certain here, and no holding time in the absorbing state)
+          x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
+          const next = 1 - initial;
+          jc = time <= lastWindowSample ? jumpCause[initial * 2 + next]! : 0;
+          if (lastSample !== null && !(time <= lastSample)) jc = 0;
+          if (t.response === null) {
+            pathI = oneJumpValue(prefix[initial]!, prefix[next]!, loI, hiI, Math.ceil(time * fs));
+            if (hasQ) pathQ = oneJumpValue(prefix[2 + initial]!, prefix[2 + next]!, loQ, hiQ, Math.ceil(time * fs));
+          } else {
+            store.times[0] = time; store.entered[0] = next;
+            pathI = signalValue(t, 0, initial, store.times, store.entered, 0, 1);
+            if (hasQ) pathQ = signalValue(t, 1, initial, store.times, store.entered, 0, 1);
+          }
+        } else {
+          // rare: the jump chain and the path's signal, outside the common path's registers
+          st[0] = a0; st[1] = a1; st[2] = a2; st[3] = a3;
+          columns.jumpCause[0] = 0;
+          const nj = walkChain(h, stream, columns, 0, initial, time, store, 0);
+          a0 = st[0]!; a1 = st[1]!; a2 = st[2]!; a3 = st[3]!;
+          jc = columns.jumpCause[0]!;
+          // the first jump as a pipeline that stops reading at lastSample sees it (score.ts)
+          if (lastSample !== null && !(columns.firstJump[0]! <= lastSample)) jc = 0;
+          pathI = signalValue(t, 0, initial, store.times, store.entered, 0, nj);
+          if (hasQ) pathQ = signalValue(t, 1, initial, store.times, store.entered, 0, nj);
+        }
       }
     }
     // the shot's normals from the lane (RandomStream.fillNormals, draw for draw)
@@ -102,7 +126,7 @@ export function fastTallyBlock(
       m = Math.imul(b1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
       x = b1 << 9; n2 = b2 ^ b0; n3 = b3 ^ b1; b1 ^= n2; b0 ^= n3; b2 = n2 ^ x; b3 = (n3 << 11) | (n3 >>> 21);
       const layer = r & 127, pos = r >> 7;
-      if (Math.abs(pos) < LAYER_K[layer]!) z0 = pos * LAYER_W[layer]!;
+      if (Math.abs(pos) < layer_k[layer]!) z0 = pos * layer_w[layer]!;
       else {
         ls[0] = b0; ls[1] = b1; ls[2] = b2; ls[3] = b3;
         z0 = normalSlowPath(ls, pos, layer);
@@ -112,7 +136,7 @@ export function fastTallyBlock(
         m = Math.imul(b1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
         x = b1 << 9; n2 = b2 ^ b0; n3 = b3 ^ b1; b1 ^= n2; b0 ^= n3; b2 = n2 ^ x; b3 = (n3 << 11) | (n3 >>> 21);
         const layer1 = r & 127, pos1 = r >> 7;
-        if (Math.abs(pos1) < LAYER_K[layer1]!) z1 = pos1 * LAYER_W[layer1]!;
+        if (Math.abs(pos1) < layer_k[layer1]!) z1 = pos1 * layer_w[layer1]!;
         else {
           ls[0] = b0; ls[1] = b1; ls[2] = b2; ls[3] = b3;
           z1 = normalSlowPath(ls, pos1, layer1);
@@ -154,6 +178,36 @@ export function fastTallyBlock(
   finishTwoByTwo(leaf, len, sumState, sumOutcome, sumBoth);
   leaf.clean[0] = momentsFromShiftedSums(n0, shift0, s10, s20);
   leaf.clean[1] = momentsFromShiftedSums(n1, shift1, s11, s21);
+}
+
+/**
+ * Whether, in a two-state chain, every jump is the last: each state that can leave goes to the
+ * other with certainty (the row's cumulative probabilities), and that one cannot leave.
+ */
+function singleJumpChain(h: HistoryTables): boolean {
+  for (let s = 0; s < 2; s++) {
+    if (!(h.exitRate[s]! > 0)) continue;
+    const other = 1 - s;
+    if (h.exitRate[other]! > 0) return false;
+    // walkChain's destination search: next = 0 when the uniform ≤ cumulative[row], else 1
+    const toFirst = h.cumulative[s * 2]!;
+    if (other === 0 ? toFirst < 1 : toFirst !== 0) return false;
+  }
+  return true;
+}
+
+/**
+ * exact-batch.ts pathValue for one jump switching at sample ⌈t·fs⌉ = `switchAt` from the state
+ * with prefix sums `from` to the one with `to`, in the same operations.
+ */
+function oneJumpValue(from: Float64Array, to: Float64Array, lo: number, hi: number, switchAt: number): number {
+  const u = Math.min(hi, Math.max(lo, switchAt));
+  let v = 0, k = lo;
+  if (u > k) {
+    v += from[u - lo]! - from[k - lo]!;
+    k = u;
+  }
+  return v + (to[hi - lo]! - to[k - lo]!);
 }
 
 /**
