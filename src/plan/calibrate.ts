@@ -78,7 +78,7 @@ export function calibrate(point: CompiledPoint, batches: readonly ShotBatch[]): 
   });
 }
 
-/** The separation axis from the mean integrated I/Q of each intended outcome (the I axis at baseband). */
+/** The separation axis from the mean integrated I/Q of each intended outcome (the I axis at baseband or with a fixed referencePhase). */
 function calibrationAxis(pipeline: CompiledPipeline, p: number, batches: readonly ShotBatch[], outcomeOf: readonly number[]): Axis {
   const sums = [[0, 0, 0], [0, 0, 0]] as [number, number, number][];
   for (const b of batches) {
@@ -94,7 +94,8 @@ function calibrationAxis(pipeline: CompiledPipeline, p: number, batches: readonl
     throw new InputError('scenario', 'calibrationShots', 'enough calibration shots to see both outcomes (raise calibrationShots or the prepare weight of the rare outcome)',
       `${g0[2]} and ${g1[2]} shots of the two outcomes`);
   }
-  if (pipeline.kernels.quadrature === null) return { cos: 1, sin: 0 };
+  // baseband, or a fixed reference angle: the decision is on I of that reference (README, referencePhase)
+  if (pipeline.kernels.quadrature === null || pipeline.spec.referencePhase !== 'auto') return { cos: 1, sin: 0 };
   return separationAxis(g0[0] / g0[2], g0[1] / g0[2], g1[0] / g1[2], g1[1] / g1[2]);
 }
 

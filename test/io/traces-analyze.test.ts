@@ -119,13 +119,19 @@ describe('analyze reproduces the run shot for shot (stored calibration)', () => 
     const run = runShots(raw, name);
     expect(r.rows).toBe(SHOTS);
     const outcomes = ['0', '1'];
+    // traces.arrow holds Float32 records: a shot whose value lies within Float32 rounding of
+    // the threshold may land on the other side in analyze; any other difference is a defect
+    const scale = Math.max(...run.value.map(Math.abs));
+    const threshold = r.rule.threshold;
     let differ = 0, discardDiffer = 0, discarded = 0;
     for (let i = 0; i < SHOTS; i++) {
-      if (outcomes[r.outcome[i]!] !== run.outcome[i]) differ++;
+      const onEdge = Math.abs(run.value[i]! - threshold) < 1e-6 * scale;
+      if (outcomes[r.outcome[i]!] !== run.outcome[i] && !onEdge) differ++;
       if ((r.discarded[i] === 1) !== (run.cause[i] === 'discarded')) discardDiffer++;
       discarded += r.discarded[i]!;
     }
-    expect(differ, `${name}: outcomes that differ from the run`).toBe(0);
+    expect(differ, `${name}: outcomes that differ from the run (away from the threshold)`).toBe(0);
+    expect(run.value.filter((v) => Math.abs(v - threshold) < 1e-6 * scale).length, `${name}: shots within Float32 reach of the threshold`).toBeLessThan(SHOTS / 100);
     expect(discardDiffer, `${name}: discards that differ from the run`).toBe(0);
     if (name === 'banded') expect(discarded).toBeGreaterThan(0);
     // the tables: one shots row per record, a summary row with the same error as the run's
