@@ -22,6 +22,8 @@ import { walkChain, type HistoryColumns, type HistoryTables, type PathStore } fr
 const INV_TWO_POW_32 = 1 / 4294967296;
 const LAYER_K = ZIGGURAT.k;
 const LAYER_W = ZIGGURAT.w;
+/** fastTallyBlock's scalar arguments (see there). */
+const SCALARS = new Float64Array(8);
 
 /** Whether `fastTallyBlock` handles a point: 2 states, 2 outcomes, 1 pipeline, ≤ 2 outputs and columns. */
 export function fastKernelApplies(t: ExactTables, h: HistoryTables, pipelines: number, outcomes: number): boolean {
@@ -39,10 +41,17 @@ export function fastTallyBlock(
 ): void {
   // module constants copied to locals: V8 reloads and checks a module binding on every use in a loop
   const inv = INV_TWO_POW_32, layer_k = LAYER_K, layer_w = LAYER_W;
-  const { prepareCumulative, prepProbability, prepInto, mapProbability, mapInto, anyPrep, anyMap, noJumpCut, exitRate, recordLength } = h;
+  // (lastSample null: the pipeline reads to the window's end, so no jump is after its last sample)
+  const { prepareCumulative, prepProbability, prepInto, mapProbability, mapInto, anyPrep, anyMap, noJumpCut, exitRate } = h;
   const nCauses = CAUSES.length;
   const { causes, discarded, discardedWrong } = leaf;
-  const cos = s.cos, sin = s.sin, threshold = s.threshold, band = s.band, lastSample = s.lastSample;
+  // the scalars through a Float64Array: read back they are doubles whatever representation the
+  // caller's objects gave them (a Smi cos of 1 in one call halved the loop's speed in later ones)
+  const scalars = SCALARS;
+  scalars[0] = s.cos; scalars[1] = s.sin; scalars[2] = s.threshold; scalars[3] = s.band;
+  scalars[4] = s.lastSample ?? Infinity; scalars[5] = h.recordLength; scalars[6] = h.lastWindowSample; scalars[7] = t.sampleRate;
+  const cos = scalars[0]!, sin = scalars[1]!, threshold = scalars[2]!, band = scalars[3]!, lastSample = scalars[4]!;
+  const recordLength = scalars[5]!, lastWindowSample = scalars[6]!, fs = scalars[7]!;
   const flip = s.highIsOne ? 0 : 1;
   const firstCut = prepareCumulative[0]!;
   const nCols = t.columns.length, hasQ = t.outputs === 2;
@@ -53,8 +62,8 @@ export function fastTallyBlock(
   const qTwoTerms = cQ1 !== 0;
   // every jump ends the chain: a leaving state's one destination is the other state, which cannot leave
   const oneJump = singleJumpChain(h);
-  const { jumpCause, lastWindowSample } = h;
-  const prefix = t.prefix, fs = t.sampleRate;
+  const jumpCause = h.jumpCause;
+  const prefix = t.prefix;
   const loI = t.lo[0]!, hiI = t.hi[0]!, loQ = hasQ ? t.lo[1]! : 0, hiQ = hasQ ? t.hi[1]! : 0;
   const st = stream.s, ls = lane.s;
   let a0 = st[0]!, a1 = st[1]!, a2 = st[2]!, a3 = st[3]!;
@@ -97,7 +106,7 @@ export function fastTallyBlock(
           x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
           const next = 1 - initial;
           jc = time <= lastWindowSample ? jumpCause[initial * 2 + next]! : 0;
-          if (lastSample !== null && !(time <= lastSample)) jc = 0;
+          if (!(time <= lastSample)) jc = 0;
           if (t.response === null) {
             pathI = oneJumpValue(prefix[initial]!, prefix[next]!, loI, hiI, Math.ceil(time * fs));
             if (hasQ) pathQ = oneJumpValue(prefix[2 + initial]!, prefix[2 + next]!, loQ, hiQ, Math.ceil(time * fs));
@@ -114,7 +123,7 @@ export function fastTallyBlock(
           a0 = st[0]!; a1 = st[1]!; a2 = st[2]!; a3 = st[3]!;
           jc = columns.jumpCause[0]!;
           // the first jump as a pipeline that stops reading at lastSample sees it (score.ts)
-          if (lastSample !== null && !(columns.firstJump[0]! <= lastSample)) jc = 0;
+          if (!(columns.firstJump[0]! <= lastSample)) jc = 0;
           pathI = signalValue(t, 0, initial, store.times, store.entered, 0, nj);
           if (hasQ) pathQ = signalValue(t, 1, initial, store.times, store.entered, 0, nj);
         }

@@ -81,6 +81,8 @@ interface FusedScratch {
   jumpCause: Uint8Array;
   /** tallyBlock: shots per (state, outcome); per state the clean count, shift and shifted sums. */
   counts: Int32Array;
+  /** Zero quadrature values (pipelines without Q). */
+  zeros: Float64Array;
   cleanCount: Float64Array;
   shift: Float64Array;
   sum1: Float64Array;
@@ -102,7 +104,7 @@ function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number,
       values: Array.from({ length: outputs }, () => new Float64Array(SEED_BLOCK)),
       wrong: Array.from({ length: pipelines }, u8),
       jumpCause: u8(),
-      counts: new Int32Array(states * outcomes), cleanCount: perState(), shift: perState(), sum1: perState(), sum2: perState(),
+      counts: new Int32Array(states * outcomes), zeros: new Float64Array(SEED_BLOCK), cleanCount: perState(), shift: perState(), sum1: perState(), sum2: perState(),
     };
     fusedScratches.set(scratch, f);
   }
@@ -134,7 +136,7 @@ export function simulateTalliedBatch(
   const firstShot = batch * sc.batchSize;
   const leaves: Tally[][] = scoring.pipelines.map(() => []);
   const pairs = new Float64Array(3 * (nPipes * (nPipes - 1)) / 2);
-  const zeros = new Float64Array(SEED_BLOCK);
+  const zeros = f.zeros;
   const blocks = new BlockStreams(sc.seed, pointIndex, purpose, firstShot / SEED_BLOCK);
   const stream = blocks.current(), lane = blocks.current();
   for (let from = 0; from < count; from += SEED_BLOCK) {

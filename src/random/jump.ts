@@ -71,11 +71,10 @@ function jumpTable(): BitMatrix[] {
   return t;
 }
 
-/**
- * M^(2^64) sliced by bytes: entry (b·256 + v)·4 holds the image of the state bits v placed in
- * byte b (16 bytes), so one stream step costs 16 lookups of four words instead of 128 bit tests.
+/*
+ * A jump matrix sliced by bytes: entry (b·256 + v)·4 holds the image of the state bits v placed
+ * in byte b (16 bytes), so one jump costs 16 lookups of four words instead of 128 bit tests.
  */
-let oneStreamTable: Uint32Array | null = null;
 
 function byteTable(m: BitMatrix): Uint32Array {
   const t = new Uint32Array(16 * 256 * 4);
@@ -96,7 +95,7 @@ let halfStreamTable: Uint32Array | null = null;
 
 /** Advances `s` by 2^64 steps (one stream) in place, by the byte-sliced table; returns it. */
 export function jumpOneStream(s: XoshiroState): XoshiroState {
-  return applyByteTable((oneStreamTable ??= byteTable(jumpTable()[0]!)), s);
+  return applyByteTable((streamTables[0] ??= byteTable(jumpTable()[0]!)), s);
 }
 
 /** Advances `s` by 2^63 steps (half a stream) in place; returns it. */
@@ -122,20 +121,20 @@ function applyByteTable(t: Uint32Array, s: XoshiroState): XoshiroState {
   return s;
 }
 
-/** Advances `s` by index·2^64 steps in place (index < 2^40) and returns it. */
+/** Byte tables of the jump matrices M^(2^(64+i)), built on first use of bit i. */
+const streamTables: (Uint32Array | undefined)[] = [];
+
+/**
+ * Advances `s` by index·2^64 steps in place (index < 2^40) and returns it: one byte-table
+ * product per set bit of the index (a batch's first block is reached in a few µs).
+ */
 export function jumpStreams(s: XoshiroState, index: number): XoshiroState {
   if (!Number.isInteger(index) || index < 0 || index >= 2 ** STREAM_INDEX_BITS) {
     throw new RangeError(`stream index ${index} outside [0, 2^${STREAM_INDEX_BITS})`);
   }
-  if (index === 1) return jumpOneStream(s);
-  const t = jumpTable();
-  const tmp = new Uint32Array(4);
   let rest = index;
   for (let i = 0; rest > 0; i++, rest = Math.floor(rest / 2)) {
-    if (rest % 2 === 1) {
-      applyMatrix(t[i]!, s, tmp);
-      s.set(tmp);
-    }
+    if (rest % 2 === 1) applyByteTable((streamTables[i] ??= byteTable(jumpTable()[i]!)), s);
   }
   return s;
 }
