@@ -36,17 +36,28 @@ export async function checkpoint(signal: AbortSignal | undefined): Promise<void>
   if (signal.aborted) throw new RunInterrupted(abortSignalName(signal));
 }
 
+/** How long the in-process engine may keep the thread between two event-loop turns. */
+const YIELD_EVERY_MS = 20;
+
 /**
  * An executor that passes through `inner`'s batches and stops at the next batch boundary once
- * `signal` is aborted. Between batches it yields to the event loop, so a signal handler gets to
- * run even while the in-process engine keeps the thread busy.
+ * `signal` is aborted. It yields to the event loop every YIELD_EVERY_MS (not every batch: a turn
+ * costs as much as thousands of exact-engine shots), so a signal handler gets to run within
+ * that time even while the in-process engine keeps the thread busy.
  */
 export function interruptibleExecutor(inner: BatchExecutor, signal: AbortSignal): BatchExecutor {
   return {
     async *run(points, tasks) {
       await checkpoint(signal);
+      let last = performance.now();
       for await (const batch of inner.run(points, tasks)) {
-        await checkpoint(signal);
+        const now = performance.now();
+        if (now - last >= YIELD_EVERY_MS) {
+          await checkpoint(signal);
+          last = performance.now();
+        } else if (signal.aborted) {
+          throw new RunInterrupted(abortSignalName(signal));
+        }
         yield batch;
       }
     },
