@@ -36,25 +36,26 @@ export async function checkpoint(signal: AbortSignal | undefined): Promise<void>
   if (signal.aborted) throw new RunInterrupted(abortSignalName(signal));
 }
 
-/** How long the in-process engine may keep the thread between two event-loop turns. */
-const YIELD_EVERY_MS = 20;
+/** Shots of tallied batches (exact engine, fused path) between two event-loop turns: ~10 ms of work. */
+const TALLIED_SHOTS_PER_TURN = 2 ** 18;
 
 /**
  * An executor that passes through `inner`'s batches and stops at the next batch boundary once
- * `signal` is aborted. It yields to the event loop every YIELD_EVERY_MS (not every batch: a turn
- * costs as much as thousands of exact-engine shots), so a signal handler gets to run within
- * that time even while the in-process engine keeps the thread busy.
+ * `signal` is aborted. It yields to the event loop after every per-shot batch and after every
+ * TALLIED_SHOTS_PER_TURN shots of tallied ones (a turn costs as much as thousands of
+ * exact-engine shots), so a signal handler gets to run soon even while the in-process engine
+ * keeps the thread busy. (Counted in shots, not timed: nothing here may read a clock.)
  */
 export function interruptibleExecutor(inner: BatchExecutor, signal: AbortSignal): BatchExecutor {
   return {
     async *run(points, tasks) {
       await checkpoint(signal);
-      let last = performance.now();
+      let tallied = 0;
       for await (const batch of inner.run(points, tasks)) {
-        const now = performance.now();
-        if (now - last >= YIELD_EVERY_MS) {
+        if ('kind' in batch) tallied += batch.count;
+        if (!('kind' in batch) || tallied >= TALLIED_SHOTS_PER_TURN) {
           await checkpoint(signal);
-          last = performance.now();
+          tallied = 0;
         } else if (signal.aborted) {
           throw new RunInterrupted(abortSignalName(signal));
         }

@@ -33,13 +33,73 @@ export function shardRange(batches: number, shard?: { index: number; count: numb
   return [Math.floor((shard.index * batches) / shard.count), Math.floor(((shard.index + 1) * batches) / shard.count)];
 }
 
-export function batchPlan(scenario: Scenario, point: number, purpose: StreamPurpose, shard?: { index: number; count: number }): BatchTask[] {
-  const shots = purpose === 'calibrate' ? scenario.calibrationShots : scenario.shots;
-  const n = batchCount(scenario, purpose);
-  const [first, end] = shardRange(n, shard);
-  const tasks: BatchTask[] = [];
-  for (let b = first; b < end; b++) {
-    tasks.push({ point, purpose, batch: b, count: Math.min(scenario.batchSize, shots - b * scenario.batchSize) });
+/**
+ * Tasks in the order they are handed out, made on demand: a run of 10^10 shots has millions of
+ * batches, and a list of them would grow with the shot count (arrays of tasks satisfy it too).
+ */
+export interface TaskList {
+  readonly length: number;
+  at(index: number): BatchTask | undefined;
+}
+
+/** The batches [first, end) of one point and purpose, each task with `extra` fields (engine, scoring). */
+export class PlannedTasks implements TaskList {
+  readonly length: number;
+
+  constructor(
+    private readonly point: number, private readonly purpose: StreamPurpose, private readonly first: number,
+    end: number, private readonly batchSize: number, private readonly shotsOfPoint: number,
+    private readonly extra: Pick<BatchTask, 'engine' | 'scoring'> = {},
+  ) {
+    this.length = Math.max(0, end - first);
   }
-  return tasks;
+
+  at(index: number): BatchTask | undefined {
+    if (!(index >= 0 && index < this.length)) return undefined;
+    const b = this.first + index;
+    return { point: this.point, purpose: this.purpose, batch: b, count: Math.min(this.batchSize, this.shotsOfPoint - b * this.batchSize), ...this.extra };
+  }
+
+  /** Shots in these tasks. */
+  get shots(): number {
+    if (this.length === 0) return 0;
+    return Math.min(this.shotsOfPoint, (this.first + this.length) * this.batchSize) - this.first * this.batchSize;
+  }
+
+  /** The same batches with other extra fields. */
+  with(extra: Pick<BatchTask, 'engine' | 'scoring'>): PlannedTasks {
+    return new PlannedTasks(this.point, this.purpose, this.first, this.first + this.length, this.batchSize, this.shotsOfPoint, extra);
+  }
+}
+
+/** Several task lists one after another. */
+export class ConcatenatedTasks implements TaskList {
+  readonly length: number;
+  /** starts[k]: index of list k's first task. */
+  private readonly starts: number[] = [];
+
+  constructor(private readonly lists: readonly TaskList[]) {
+    let n = 0;
+    for (const l of lists) { this.starts.push(n); n += l.length; }
+    this.length = n;
+  }
+
+  at(index: number): BatchTask | undefined {
+    if (!(index >= 0 && index < this.length)) return undefined;
+    // the last list starting at or before index (binary search; lists may be empty)
+    let lo = 0, hi = this.lists.length - 1;
+    while (lo < hi) {
+      const mid = (lo + hi + 1) >> 1;
+      if (this.starts[mid]! <= index) lo = mid;
+      else hi = mid - 1;
+    }
+    return this.lists[lo]!.at(index - this.starts[lo]!);
+  }
+}
+
+/** The batches of one point and purpose (a shard's part when given), as tasks made on demand. */
+export function batchPlan(scenario: Scenario, point: number, purpose: StreamPurpose, shard?: { index: number; count: number }): PlannedTasks {
+  const shots = purpose === 'calibrate' ? scenario.calibrationShots : scenario.shots;
+  const [first, end] = shardRange(batchCount(scenario, purpose), shard);
+  return new PlannedTasks(point, purpose, first, end, scenario.batchSize, shots);
 }

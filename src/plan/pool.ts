@@ -14,7 +14,7 @@ import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { InputError } from '../errors.ts';
 import type { ShotBatch } from './batch.ts';
-import type { BatchTask } from './batches.ts';
+import type { BatchTask, TaskList } from './batches.ts';
 import type { TalliedBatch } from './exact-fused.ts';
 import type { BatchExecutor, SweepPoint } from './run.ts';
 
@@ -145,7 +145,7 @@ export function workerPoolExecutor(workers: number, options: PoolOptions = {}): 
   };
 
   return {
-    async *run(points: readonly SweepPoint[], tasks: readonly BatchTask[]): AsyncGenerator<ShotBatch | TalliedBatch> {
+    async *run(points: readonly SweepPoint[], tasks: TaskList): AsyncGenerator<ShotBatch | TalliedBatch> {
       if (tasks.length === 0) return;
       if (broken) throw broken;
       const pool = start();
@@ -168,7 +168,7 @@ export function workerPoolExecutor(workers: number, options: PoolOptions = {}): 
           promise.catch(() => {}); // rejections are rethrown when the result is awaited
           results.set(seq, promise);
           best.busy++;
-          best.worker.postMessage({ type: 'task', run, seq, task: tasks[seq]! } satisfies ToWorker);
+          best.worker.postMessage({ type: 'task', run, seq, task: tasks.at(seq)! } satisfies ToWorker);
         }
       };
       try {

@@ -15,7 +15,7 @@ import type { ShotBatch } from './batch.ts';
 import { calibrate, unavailableBudget, withCalibration, type PipelineCalibration } from './calibrate.ts';
 import { compilePoint, type CompiledPoint } from './compile.ts';
 import { scoreBatch, type ScoredPipeline } from './score.ts';
-import { batchPlan, type BatchTask } from './batches.ts';
+import { batchPlan, ConcatenatedTasks, type TaskList } from './batches.ts';
 import { SEED_BLOCK } from '../random/streams.ts';
 import { chooseEngine, type EngineChoice, type EngineRequest } from './engine.ts';
 import { TaskRunner } from './task.ts';
@@ -34,7 +34,7 @@ export interface SweepPoint {
  * ShotBatch, or a TalliedBatch for a task with `scoring` (exact-fused.ts).
  */
 export interface BatchExecutor {
-  run(points: readonly SweepPoint[], tasks: readonly BatchTask[]): AsyncIterable<ShotBatch | TalliedBatch>;
+  run(points: readonly SweepPoint[], tasks: TaskList): AsyncIterable<ShotBatch | TalliedBatch>;
   close?(): Promise<void>;
 }
 
@@ -43,7 +43,7 @@ export function inProcessExecutor(): BatchExecutor {
   return {
     async *run(points, tasks) {
       const runner = new TaskRunner(points.map((p) => p.scenario));
-      for (const t of tasks) yield runner.run(t);
+      for (let i = 0; i < tasks.length; i++) yield runner.run(tasks.at(i)!);
     },
   };
 }
@@ -187,7 +187,7 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
   const engine = choice.engine;
   const results: PointResult[] = [];
   const first = options.firstPoint ?? 0;
-  const calibrationTasks = points.flatMap((p, i) => (i < first ? [] : batchPlan(p.scenario, i, 'calibrate').map((t) => ({ ...t, engine }))));
+  const calibrationTasks = new ConcatenatedTasks(points.flatMap((p, i) => (i < first ? [] : [batchPlan(p.scenario, i, 'calibrate').with({ engine })])));
   // batches arrive in task order, i.e. point by point: calibrate each point as soon as its
   // batches are in, so only one point's calibration shots are held at a time
   let pending: ShotBatch[] = [];
@@ -208,13 +208,14 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
   const scorePoints = points.map((p, i) => (i < first ? p : { ...p, scenario: results[i - first]!.compiled.scenario }));
   // without per-shot consumers the exact engine scores and tallies where it simulates
   const fused = engine === 'exact' && !options.onScoredBatch;
-  const scoreTasks = points.flatMap((p, i) => {
+  const scorePlans = points.flatMap((p, i) => {
     if (i < first) return [];
     const r = results[i - first]!;
     const scoring = fused ? fusedScoring(r.compiled, r.calibrations) : null;
-    return batchPlan(p.scenario, i, 'score', options.shard).map((t) => (scoring ? { ...t, engine, scoring } : { ...t, engine }));
+    return [batchPlan(p.scenario, i, 'score', options.shard).with(scoring ? { engine, scoring } : { engine })];
   });
-  const totalShots = scoreTasks.reduce((a, t) => a + t.count, 0);
+  const scoreTasks = new ConcatenatedTasks(scorePlans);
+  const totalShots = scorePlans.reduce((a, t) => a + t.shots, 0);
   let done = 0;
   for await (const b of executor.run(scorePoints, scoreTasks)) {
     const r = results[b.point - first]!;

@@ -59,7 +59,7 @@ describe('workers', () => {
     pools.push(pool);
     const scenario = twoStateScenario({ shots: 1024 });
     const run = async () => {
-      for await (const _ of pool.run([{ parameters: {}, scenario }], [{ point: 3, purpose: 'score', batch: 0, count: 1024 }])) void _;
+      for await (const _ of pool.run([{ parameters: {}, scenario }], [{ point: 3, purpose: 'score' as const, batch: 0, count: 1024 }])) void _;
     };
     await expect(run()).rejects.toThrow(/point 3, which the runner does not have/);
   }, 30_000);
