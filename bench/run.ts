@@ -1,6 +1,11 @@
 /**
  * `npm run bench`: every case in bench/cases/, each beside the numpy baseline measured in the
  * same run, with the ratio. Speed lives here, never in tests.
+ *
+ * This machine's speed drifts by up to 2× over seconds (shared host), so a case with a baseline
+ * runs in ROUNDS paired rounds — baseline, then case, back to back — and the ratio reported is
+ * the median of the rounds' ratios (each round compares two measurements a few seconds apart);
+ * the rates shown are the medians of each side. `npm run bench -- FILTER [ROUNDS]`.
  */
 import { execFileSync } from 'node:child_process';
 import { readdirSync } from 'node:fs';
@@ -10,6 +15,7 @@ import type { BenchCase } from './harness.ts';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const filter = process.argv[2];
+const ROUNDS = Number(process.argv[3] ?? 3);
 
 function baseline(name: string): Record<string, number | string> {
   const script = join(here, `${name.replace('numpy-', 'numpy_')}.py`);
@@ -17,7 +23,7 @@ function baseline(name: string): Record<string, number | string> {
   // current numpy is slowed by these (set on some processors for old OpenBLAS builds)
   delete env.OPENBLAS_CORETYPE;
   delete env.OPENBLAS_L2_SIZE;
-  const out = execFileSync('python3', [script, '4'], { encoding: 'utf8', env });
+  const out = execFileSync('python3', [script, '2'], { encoding: 'utf8', env });
   return JSON.parse(out.trim().split('\n').pop()!) as Record<string, number | string>;
 }
 
@@ -29,21 +35,30 @@ for (const f of files) {
   const mod = (await import(pathToFileURL(join(here, 'cases', f)).href)) as { cases: BenchCase[] };
   cases.push(...mod.cases);
 }
-const baselines = new Map<string, Record<string, number | string>>();
-console.log(`singleshot benchmarks — node ${process.version}, ${cases.length} cases`);
+const median = (xs: readonly number[]): number => {
+  const v = [...xs].sort((a, b) => a - b);
+  return v.length % 2 ? v[(v.length - 1) / 2]! : (v[v.length / 2 - 1]! + v[v.length / 2]!) / 2;
+};
+console.log(`singleshot benchmarks — node ${process.version}, ${cases.length} cases; cases with a numpy baseline in ${ROUNDS} paired rounds`);
 for (const c of cases) {
   if (filter && !c.name.includes(filter)) continue;
-  if (c.baseline && !baselines.has(c.baseline)) {
+  if (!c.baseline || !c.baselineField) {
+    const r = await c.run();
+    console.log(`${c.name}: ${fmt(r.rate)} ${c.unit}${r.detail ? `  [${r.detail}]` : ''}`);
+    continue;
+  }
+  const ours: number[] = [], refs: number[] = [], ratios: number[] = [];
+  let detail = '', numpy = '';
+  for (let k = 0; k < ROUNDS; k++) {
     const b = baseline(c.baseline);
-    baselines.set(c.baseline, b);
-    console.log(`baseline ${c.baseline} (numpy ${b.numpy}): ${fmt(Number(b.samples_per_s ?? 0))} samples/s, ${fmt(Number(b.shots_per_s))} shots/s`);
+    numpy = String(b.numpy);
+    const r = await c.run();
+    const ref = Number(b[c.baselineField]);
+    ours.push(r.rate); refs.push(ref); ratios.push(r.rate / ref);
+    detail = r.detail ?? '';
   }
-  const r = await c.run();
-  let line = `${c.name}: ${fmt(r.rate)} ${c.unit}`;
-  if (c.baseline && c.baselineField) {
-    const ref = Number(baselines.get(c.baseline)![c.baselineField]);
-    line += `  (${(r.rate / ref).toFixed(2)}× ${c.baseline})`;
-  }
-  if (r.detail) line += `  [${r.detail}]`;
-  console.log(line);
+  console.log(
+    `${c.name}: ${fmt(median(ours))} ${c.unit}  (${median(ratios).toFixed(2)}× ${c.baseline}, median of ${ROUNDS} paired rounds: `
+    + `${ratios.map((x) => x.toFixed(2)).join(', ')}; numpy ${numpy} ${fmt(median(refs))} ${c.unit})${detail ? `  [last round: ${detail}]` : ''}`,
+  );
 }

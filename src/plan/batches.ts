@@ -42,33 +42,47 @@ export interface TaskList {
   at(index: number): BatchTask | undefined;
 }
 
-/** The batches [first, end) of one point and purpose, each task with `extra` fields (engine, scoring). */
+/**
+ * The batches [first, end) of one point and purpose, each task with `extra` fields (engine,
+ * scoring), `group` consecutive batches per task (the last task may hold fewer).
+ */
 export class PlannedTasks implements TaskList {
   readonly length: number;
 
   constructor(
     private readonly point: number, private readonly purpose: StreamPurpose, private readonly first: number,
-    end: number, private readonly batchSize: number, private readonly shotsOfPoint: number,
-    private readonly extra: Pick<BatchTask, 'engine' | 'scoring'> = {},
+    private readonly end: number, private readonly batchSize: number, private readonly shotsOfPoint: number,
+    private readonly extra: Pick<BatchTask, 'engine' | 'scoring'> = {}, private readonly group = 1,
   ) {
-    this.length = Math.max(0, end - first);
+    this.length = Math.max(0, Math.ceil((end - first) / group));
   }
 
   at(index: number): BatchTask | undefined {
     if (!(index >= 0 && index < this.length)) return undefined;
-    const b = this.first + index;
-    return { point: this.point, purpose: this.purpose, batch: b, count: Math.min(this.batchSize, this.shotsOfPoint - b * this.batchSize), ...this.extra };
+    const b = this.first + index * this.group;
+    const last = Math.min(this.end, b + this.group);
+    const count = Math.min(last * this.batchSize, this.shotsOfPoint) - b * this.batchSize;
+    return { point: this.point, purpose: this.purpose, batch: b, count, ...this.extra };
   }
 
   /** Shots in these tasks. */
   get shots(): number {
-    if (this.length === 0) return 0;
-    return Math.min(this.shotsOfPoint, (this.first + this.length) * this.batchSize) - this.first * this.batchSize;
+    if (this.end <= this.first) return 0;
+    return Math.min(this.shotsOfPoint, this.end * this.batchSize) - this.first * this.batchSize;
   }
 
   /** The same batches with other extra fields. */
   with(extra: Pick<BatchTask, 'engine' | 'scoring'>): PlannedTasks {
-    return new PlannedTasks(this.point, this.purpose, this.first, this.first + this.length, this.batchSize, this.shotsOfPoint, extra);
+    return new PlannedTasks(this.point, this.purpose, this.first, this.end, this.batchSize, this.shotsOfPoint, extra, this.group);
+  }
+
+  /**
+   * The same batches, `group` per task: for work whose batches cost little next to handing a
+   * task to a worker (the fused exact path). A task's shots then span several batches; the
+   * numbers do not change, since they depend on seeding blocks only.
+   */
+  grouped(group: number): PlannedTasks {
+    return new PlannedTasks(this.point, this.purpose, this.first, this.end, this.batchSize, this.shotsOfPoint, this.extra, group);
   }
 }
 

@@ -181,6 +181,9 @@ export function resolveEngine(points: readonly SweepPoint[], engine: EngineReque
   return chooseEngine(points.map((p) => p.scenario), engine ?? 'traces');
 }
 
+/** Batches per task on the fused exact path (a batch there takes well under a millisecond). */
+const FUSED_BATCHES_PER_TASK = 16;
+
 export async function runPoints(points: readonly SweepPoint[], options: RunOptions = {}): Promise<RunResult> {
   const executor = options.executor ?? inProcessExecutor();
   const choice = resolveEngine(points, options.engine);
@@ -212,7 +215,8 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
     if (i < first) return [];
     const r = results[i - first]!;
     const scoring = fused ? fusedScoring(r.compiled, r.calibrations) : null;
-    return [batchPlan(p.scenario, i, 'score', options.shard).with(scoring ? { engine, scoring } : { engine })];
+    const plan = batchPlan(p.scenario, i, 'score', options.shard);
+    return [scoring ? plan.with({ engine, scoring }).grouped(FUSED_BATCHES_PER_TASK) : plan.with({ engine })];
   });
   const scoreTasks = new ConcatenatedTasks(scorePlans);
   const totalShots = scorePlans.reduce((a, t) => a + t.shots, 0);

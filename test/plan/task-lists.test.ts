@@ -32,6 +32,23 @@ describe('task lists', () => {
     expect(batchCount(s, 'score')).toBe(Math.ceil(shots / batchSize));
   });
 
+  it.each([[1], [3], [16], [100]])('grouped %i batches per task: the same shots, contiguous and in order, at most group·batchSize per task', (group) => {
+    const s = { ...twoStateScenario({ shots: 41000 }), batchSize: 1024 };
+    for (const shard of [undefined, { index: 1, count: 3 }]) {
+      const plain = batchPlan(s, 0, 'score', shard);
+      const g = plain.grouped(group);
+      const tasks = all(g) as BatchTask[];
+      expect(g.length).toBe(Math.ceil(plain.length / group));
+      let next = plain.at(0)!.batch * 1024;
+      for (const t of tasks) {
+        expect(t.batch * 1024, 'contiguous').toBe(next);
+        expect(t.count).toBeLessThanOrEqual(group * 1024);
+        next += t.count;
+      }
+      expect(tasks.reduce((a, t) => a + t.count, 0)).toBe(plain.shots);
+    }
+  });
+
   it('carries the extra fields and concatenates points in order, skipping empty parts', () => {
     const a = batchPlan({ ...twoStateScenario({ shots: 3000 }), batchSize: 1024 }, 0, 'score').with({ engine: 'exact' });
     const empty = batchPlan({ ...twoStateScenario({ shots: 1024 }), batchSize: 1024 }, 1, 'score', { index: 0, count: 2 });
