@@ -11,6 +11,7 @@
  */
 import { CAUSE_MAPPING, CAUSE_NOISE, CAUSE_NONE, CAUSE_PREPARATION, CAUSES } from '../analysis/causes.ts';
 import { emptyTally, type Tally } from '../analysis/tally.ts';
+import { pushNode, type TallyNode } from '../analysis/tally-tree.ts';
 import { momentsFromShiftedSums } from '../analysis/moments.ts';
 import { fastKernelApplies, fastTallyBlock, finishTwoByTwo } from './exact-fast.ts';
 import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../random/streams.ts';
@@ -37,7 +38,7 @@ export interface FusedScoring {
   pipelines: FusedPipeline[];
 }
 
-/** A scored batch as tallies only: the leaves of the tally tree and the paired counts. */
+/** A scored batch as tallies only: its nodes of the tally tree and the paired counts. */
 export interface TalliedBatch {
   kind: 'tallied';
   point: number;
@@ -45,8 +46,11 @@ export interface TalliedBatch {
   batch: number;
   firstShot: number;
   count: number;
-  /** leaves[pipeline][k]: the tally of the batch's k-th seeding block. */
-  leaves: Tally[][];
+  /**
+   * nodes[pipeline]: the batch's seeding-block tallies as tally-tree nodes, siblings within the
+   * batch already merged (analysis/tally-tree.ts pushNode: the same nodes the run would build).
+   */
+  nodes: TallyNode[][];
   /** Per pipeline pair (emptyPairTallies order): both wrong, only A wrong, only B wrong. */
   pairs: Float64Array;
 }
@@ -113,7 +117,7 @@ function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number,
 
 /**
  * Shots [batch·batchSize, batch·batchSize + count) through the exact engine, scored and tallied
- * per seeding block: the same leaves and paired counts as simulateExactBatch → scoreBatch →
+ * per seeding block: the same tally-tree nodes and paired counts as simulateExactBatch → scoreBatch →
  * tallyBatch, without the per-shot arrays.
  */
 export function simulateTalliedBatch(
@@ -134,7 +138,9 @@ export function simulateTalliedBatch(
   for (let d = 0; d < t.outputs; d++) (t.isQuadrature[d] ? qOut : iOut)[t.pipeline[d]!] = d;
   const fast = fastKernelApplies(t, history, nPipes, outcomes);
   const firstShot = batch * sc.batchSize;
-  const leaves: Tally[][] = scoring.pipelines.map(() => []);
+  const nodes: TallyNode[][] = [];
+  for (let p = 0; p < nPipes; p++) nodes.push([]);
+  const firstBlock = firstShot / SEED_BLOCK;
   const pairs = new Float64Array(3 * (nPipes * (nPipes - 1)) / 2);
   const zeros = f.zeros;
   const blocks = new BlockStreams(sc.seed, pointIndex, purpose, firstShot / SEED_BLOCK);
@@ -146,7 +152,7 @@ export function simulateTalliedBatch(
     if (fast) {
       const leaf = emptyTally(states, outcomes);
       fastTallyBlock(history, t, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf, columns, scratch.store);
-      leaves[0]!.push(leaf);
+      pushNode(nodes[0]!, { level: 0, index: firstBlock + from / SEED_BLOCK, tally: leaf });
       continue;
     }
     sampleHistories(history, stream, columns, 0, len, scratch.store);
@@ -158,11 +164,11 @@ export function simulateTalliedBatch(
       tallyBlock(
         leaf, s, values[iOut[p]!]!, qOut[p]! >= 0 ? values[qOut[p]!]! : zeros, columns, jumpCause, outcomeOf, len, f.wrong[p]!, f,
       );
-      leaves[p]!.push(leaf);
+      pushNode(nodes[p]!, { level: 0, index: firstBlock + from / SEED_BLOCK, tally: leaf });
     }
     if (nPipes > 1) addPairCounts(pairs, f.wrong, len);
   }
-  return { kind: 'tallied', point: pointIndex, purpose, batch, firstShot, count, leaves, pairs };
+  return { kind: 'tallied', point: pointIndex, purpose, batch, firstShot, count, nodes, pairs };
 }
 
 /** The first-jump cause as a pipeline that stops reading at `last` sees it (score.ts). */

@@ -149,11 +149,10 @@ export function tallyBatch(r: PointResult, b: ShotBatch, scored: readonly Scored
   addPairs(r.pairs, scored.map((s) => s.cause), b.count);
 }
 
-/** Adds a batch scored and tallied where it was simulated (exact-fused.ts): its leaves and paired counts. */
+/** Adds a batch scored and tallied where it was simulated (exact-fused.ts): its tally-tree nodes and paired counts. */
 export function addTalliedBatch(r: PointResult, b: TalliedBatch): void {
-  const firstBlock = b.firstShot / SEED_BLOCK;
-  b.leaves.forEach((leaves, p) => {
-    leaves.forEach((tally, k) => pushNode(r.tallyStacks[p]!, { level: 0, index: firstBlock + k, tally }));
+  b.nodes.forEach((nodes, p) => {
+    for (const node of nodes) pushNode(r.tallyStacks[p]!, node);
   });
   r.pairs.forEach((pair, k) => {
     pair.counts.bothWrong += b.pairs[3 * k]!;
