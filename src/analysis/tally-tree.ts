@@ -13,7 +13,7 @@
  * shard saves its stack; pushing the shards' stacks in order rebuilds, node by node, the same
  * tree as one process that pushed every block — hence identical bits.
  */
-import { emptyTally, mergeTallies, type Tally, type TallyInput } from './tally.ts';
+import { emptyTally, mergeInto, mergeTallies, type Tally, type TallyInput } from './tally.ts';
 
 /** One aligned piece of the tree. */
 export interface TallyNode {
@@ -34,7 +34,8 @@ export function nodeStart(n: TallyNode): number {
 
 /**
  * Pushes a node that starts where the stack ends (throws otherwise) and merges siblings.
- * The stack is modified in place.
+ * The stack is modified in place, and it owns the pushed tallies: a merge adds the right
+ * sibling into the left one's tally (mergeInto) rather than allocating a third.
  */
 export function pushNode(stack: TallyNode[], node: TallyNode): void {
   const top = stack[stack.length - 1];
@@ -48,7 +49,7 @@ export function pushNode(stack: TallyNode[], node: TallyNode): void {
     const a = stack[n - 2]!, b = stack[n - 1]!;
     if (a.level !== b.level || a.index % 2 !== 0 || b.index !== a.index + 1) return;
     stack.length = n - 2;
-    stack.push({ level: a.level + 1, index: a.index / 2, tally: mergeTallies(a.tally, b.tally) });
+    stack.push({ level: a.level + 1, index: a.index / 2, tally: mergeInto(a.tally, b.tally) });
   }
 }
 

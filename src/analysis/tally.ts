@@ -95,6 +95,19 @@ export function mergeTallies(a: Tally, b: Tally): Tally {
   return out;
 }
 
+/**
+ * Merges b into a in place (a first, then b) and returns a: the numbers of mergeTallies(a, b),
+ * without a new tally — for the tally tree, which owns its nodes' tallies.
+ */
+export function mergeInto(a: Tally, b: Tally): Tally {
+  addInto(a.assignments, b.assignments, a.assignments);
+  addInto(a.causes, b.causes, a.causes);
+  for (let s = 0; s < a.states; s++) a.clean[s] = mergeMoments(a.clean[s]!, b.clean[s]!);
+  addInto(a.discarded, b.discarded, a.discarded);
+  addInto(a.discardedWrong, b.discardedWrong, a.discardedWrong);
+  return a;
+}
+
 /** into = x + y, element by element (a module function: a closure per merge costs more than the sums). */
 function addInto(x: Float64Array, y: Float64Array, into: Float64Array): void {
   for (let i = 0; i < into.length; i++) into[i] = x[i]! + y[i]!;
