@@ -86,13 +86,7 @@ export function addToTally(tally: Tally, b: TallyInput, chunk = 1024): Tally {
 
 /** Merges two tallies (a first, then b). */
 export function mergeTallies(a: Tally, b: Tally): Tally {
-  const out = emptyTally(a.states, a.outcomes);
-  addInto(a.assignments, b.assignments, out.assignments);
-  addInto(a.causes, b.causes, out.causes);
-  for (let s = 0; s < a.states; s++) out.clean[s] = mergeMoments(a.clean[s]!, b.clean[s]!);
-  addInto(a.discarded, b.discarded, out.discarded);
-  addInto(a.discardedWrong, b.discardedWrong, out.discardedWrong);
-  return out;
+  return mergeOnto(emptyTally(a.states, a.outcomes), a, b);
 }
 
 /**
@@ -100,12 +94,17 @@ export function mergeTallies(a: Tally, b: Tally): Tally {
  * without a new tally — for the tally tree, which owns its nodes' tallies.
  */
 export function mergeInto(a: Tally, b: Tally): Tally {
-  addInto(a.assignments, b.assignments, a.assignments);
-  addInto(a.causes, b.causes, a.causes);
-  for (let s = 0; s < a.states; s++) a.clean[s] = mergeMoments(a.clean[s]!, b.clean[s]!);
-  addInto(a.discarded, b.discarded, a.discarded);
-  addInto(a.discardedWrong, b.discardedWrong, a.discardedWrong);
-  return a;
+  return mergeOnto(a, a, b);
+}
+
+/** out = a ⊕ b (out may be a). */
+function mergeOnto(out: Tally, a: Tally, b: Tally): Tally {
+  addInto(a.assignments, b.assignments, out.assignments);
+  addInto(a.causes, b.causes, out.causes);
+  for (let s = 0; s < a.states; s++) out.clean[s] = mergeMoments(a.clean[s]!, b.clean[s]!);
+  addInto(a.discarded, b.discarded, out.discarded);
+  addInto(a.discardedWrong, b.discardedWrong, out.discardedWrong);
+  return out;
 }
 
 /** into = x + y, element by element (a module function: a closure per merge costs more than the sums). */
