@@ -47,7 +47,7 @@ export interface BatchScratch {
 }
 
 /** The slow-noise runtime of a point and purpose, kept in the scratch (its caches serve later batches). */
-function noiseRuntime(point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, scratch: BatchScratch): NoiseRuntime {
+export function noiseRuntime(point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, scratch: BatchScratch): NoiseRuntime {
   if (scratch.noiseOf !== point || !scratch.noise) {
     scratch.noise = new Map();
     scratch.noiseOf = point;

@@ -1,10 +1,10 @@
 /**
  * Which engine runs a scenario, and why. The exact-statistic engine (exact-batch.ts) is valid
  * when every pipeline is a linear functional of the record and every noise source is Gaussian
- * and white; otherwise only the trace engine (batch.ts) is right.
+ * (white, or 1/f on its timeline); otherwise only the trace engine (batch.ts) is right.
  *
  * The test is deliberately conservative: a scenario or pipeline key that this file does not
- * list as exact-safe blocks the exact engine, so a new signal-chain feature (1/f, telegraph
+ * list as exact-safe blocks the exact engine, so a new signal-chain feature (telegraph
  * noise, clipping, ADC, an HMM classifier …) runs on the trace engine until someone checks
  * that the exact engine handles it and adds its key below.
  */
@@ -31,8 +31,12 @@ export const EXACT_SCENARIO_KEYS: ReadonlySet<string> = new Set([
   // the sensor only sets levels, rates and white noise (applied before compiling); a sweep only makes points
   'sensor', 'sweep',
 ]);
-/** Signal-chain keys the exact engine handles: carrier, gain, white Gaussian noise (given or from its parts), analog response. */
-export const EXACT_SIGNAL_KEYS: ReadonlySet<string> = new Set(['carrier', 'gain', 'white', 'unit', 'components', 'response']);
+/**
+ * Signal-chain keys the exact engine handles: carrier, gain, white Gaussian noise (given or from
+ * its parts), analog response, and 1/f noise (Gaussian: its part of each value comes from the
+ * same slow-noise timeline as in the trace engine, through the kernels carried onto it).
+ */
+export const EXACT_SIGNAL_KEYS: ReadonlySet<string> = new Set(['carrier', 'gain', 'white', 'unit', 'components', 'response', 'flicker']);
 /** Pipeline keys the exact engine handles (the kernels carry the linear processing; weights and classifier are checked apart). */
 export const EXACT_PIPELINE_KEYS: ReadonlySet<string> = new Set([
   'name', 'referencePhase', 'threshold', 'window', 'filter', 'decimate', 'ambiguousBand', 'weights', 'classifier', 'calibratedWeights',
@@ -41,7 +45,6 @@ export const EXACT_PIPELINE_KEYS: ReadonlySet<string> = new Set([
 /** Why a known key blocks the exact engine. */
 const KNOWN_BLOCKERS: Record<string, string> = {
   keepTraces: 'traces are kept, which needs every record',
-  'signal.flicker': '1/f noise is correlated across shots (not yet in the exact engine)',
   'signal.telegraph': 'telegraph noise is not Gaussian',
   'signal.digitizer': 'clipping and quantisation are not linear',
 };
@@ -76,8 +79,9 @@ export function exactBlockers(input: Scenario): string[] {
   return out;
 }
 
-const EXACT_WHY = 'every pipeline is a linear functional of the record and the noise is white Gaussian, '
-  + 'so each integrated I/Q is drawn from its exact distribution (signal from the state path, noise as one joint Gaussian)';
+const EXACT_WHY = 'every pipeline is a linear functional of the record and the noise is Gaussian, '
+  + 'so each integrated I/Q is drawn from its exact distribution (signal from the state path, white noise as one joint Gaussian, '
+  + '1/f through each kernel from its timeline across shots)';
 const TRACES_WHY = 'every sample of every record is synthesised and processed';
 
 /** Picks the engine for a run (the same for all its points). `--engine exact` on an unsuitable scenario is an InputError. */

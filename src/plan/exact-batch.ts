@@ -1,7 +1,7 @@
 /**
  * The exact-statistic engine: when every pipeline is a linear functional of the record
- * (value = Σ_k K[k]·record[k], CompiledPipeline.kernels) and the noise is white Gaussian, the
- * integrated values of a shot are its noise-free signal part plus one draw of a joint Gaussian.
+ * (value = Σ_k K[k]·record[k], CompiledPipeline.kernels) and the noise is Gaussian, the
+ * integrated values of a shot are its noise-free signal part plus Gaussian noise drawn directly.
  * No record is synthesised:
  * - signal: from the shot's path, by prefix sums of K·waveform per state (O(1) per jump);
  * - noise: the outputs of ALL pipelines (I and Q each) share one record, so their white parts
@@ -11,18 +11,18 @@
  * (history.ts), so both engines see identical histories; the distributions of the values agree
  * exactly (tests: test/plan/exact-engine.test.ts).
  *
- * Noise correlated ACROSS shots (1/f on the continuous timeline) is not handled yet: engine.ts
- * keeps such scenarios on the trace engine. The place for it is `addAcrossShotNoise` below: the
- * outputs' slow parts form a stationary Gaussian sequence over shot index m with covariance
- * C_ab(m) = ∫ S(f)·H_a(f)·H_b(f)*·e^(i2πf·m·shotPeriod) df (H the kernel's transfer function),
- * to be drawn from the point's 'slow-noise' streams (never the per-shot stream), after which the
- * within-shot white part is drawn as here.
+ * - 1/f noise (correlated across samples and shots): its part of each value is Σ_j G_j·w_j, w the
+ *   shot's stretch of the point's 1/f timeline (signal/flicker-timeline.ts, drawn from the point's
+ *   'slow-noise' streams, never the per-shot ones) and G the output's kernel carried onto that
+ *   timeline's grid (compile-noise.ts) — the very numbers the trace engine adds to its values
+ *   when no digitizer needs the 1/f noise in the record, so both engines see the same 1/f part
+ *   shot for shot, with the timeline's covariance across successive shots.
  */
 import { choleskyLower } from '../analysis/cholesky.ts';
 import { kernelPrefixSums, whiteCovariance, type SupportedKernel } from '../analysis/linear-statistic.ts';
 import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../random/streams.ts';
 import type { RandomStream } from '../random/stream.ts';
-import { makeScratch, makeShotBatch, scratchHistory, type BatchScratch, type ShotBatch } from './batch.ts';
+import { makeScratch, makeShotBatch, noiseRuntime, scratchHistory, type BatchScratch, type ShotBatch } from './batch.ts';
 import type { CompiledPoint } from './compile.ts';
 import { sampleHistories, type PathStore } from './history.ts';
 
@@ -167,7 +167,7 @@ export function simulateExactBatch(
     sampleHistories(history, stream, out, from, to, store);
     blockValues(t, lane, scratch.normals, targets, out.initial, from, to, store);
   }
-  addAcrossShotNoise(point, out);
+  addFlickerValues(point, pointIndex, purpose, scratch, t, targets, out.firstShot, 0, count);
   return out;
 }
 
@@ -311,7 +311,18 @@ function respondedPathValue(
 }
 
 /**
- * Hook for Gaussian noise correlated across shots (1/f): adds each shot's slow part to the
- * outputs. Nothing to add while engine.ts keeps such scenarios on the trace engine.
+ * Adds the 1/f part to targets[d][i] for the shots [from, to) of a batch whose first shot is
+ * `firstShot` (nothing without 1/f noise): the same per-shot timeline draw and carried dot
+ * product as the trace engine's values (batch.ts), in shot order.
  */
-function addAcrossShotNoise(_point: CompiledPoint, _out: ShotBatch): void {}
+export function addFlickerValues(
+  point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, scratch: BatchScratch, t: ExactTables,
+  targets: readonly Float64Array[], firstShot: number, from: number, to: number,
+): void {
+  if (!point.noise.flicker) return;
+  const slow = noiseRuntime(point, pointIndex, purpose, scratch);
+  for (let i = from; i < to; i++) {
+    slow.shot(firstShot + i);
+    for (let d = 0; d < t.outputs; d++) targets[d]![i] += slow.flickerValue(t.pipeline[d]!, t.isQuadrature[d] === 1);
+  }
+}

@@ -17,7 +17,7 @@ import { fastKernelApplies, fastTallyBlock, finishTwoByTwo } from './exact-fast.
 import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../random/streams.ts';
 import type { CompiledPoint } from './compile.ts';
 import type { PipelineCalibration } from './calibrate.ts';
-import { blockValues, makeExactScratch, refreshExactScratch, type ExactScratch } from './exact-batch.ts';
+import { addFlickerValues, blockValues, makeExactScratch, refreshExactScratch, type ExactScratch } from './exact-batch.ts';
 import { sampleHistories, type HistoryColumns } from './history.ts';
 import { scratchHistory } from './batch.ts';
 
@@ -136,7 +136,8 @@ export function simulateTalliedBatch(
   // output index of each pipeline's I and Q (−1: no Q, the value is 0)
   const iOut = new Int32Array(nPipes).fill(-1), qOut = new Int32Array(nPipes).fill(-1);
   for (let d = 0; d < t.outputs; d++) (t.isQuadrature[d] ? qOut : iOut)[t.pipeline[d]!] = d;
-  const fast = fastKernelApplies(t, history, nPipes, outcomes);
+  // (1/f noise adds a per-shot timeline draw: the separate passes below)
+  const fast = point.noise.flicker === null && fastKernelApplies(t, history, nPipes, outcomes);
   const firstShot = batch * sc.batchSize;
   const nodes: TallyNode[][] = [];
   for (let p = 0; p < nPipes; p++) nodes.push([]);
@@ -157,6 +158,7 @@ export function simulateTalliedBatch(
     }
     sampleHistories(history, stream, columns, 0, len, scratch.store);
     blockValues(t, lane, scratch.normals, values, columns.initial, 0, len, scratch.store);
+    addFlickerValues(point, pointIndex, purpose, scratch, t, values, firstShot + from, 0, len);
     for (let p = 0; p < nPipes; p++) {
       const s = scoring.pipelines[p]!;
       const leaf = emptyTally(states, outcomes);

@@ -1,6 +1,6 @@
 /**
  * The engine choice: auto takes the exact engine exactly when every pipeline is linear in the
- * record and the noise is white Gaussian (analog response allowed); any other signal-chain
+ * record and the noise is Gaussian — white, 1/f (analog response allowed); any other signal-chain
  * feature — or an unknown one — keeps the trace engine, and the reason names it. Asking for the
  * exact engine where it does not apply is an InputError naming the reason.
  */
@@ -23,12 +23,15 @@ const exactCases: [string, Scenario][] = [
     s.pipelines[0] = { ...s.pipelines[0]!, decimate: 4, ambiguousBand: null, weights: 'boxcar', classifier: 'threshold' };
   })],
   ['no noise at all', withChange((s) => { s.signal.white = null; })],
+  ['1/f noise (amplifier- and sensor-side)', withChange((s) => {
+    s.signal.flicker = [
+      { name: 'f', amplitude: 1e-3, exponent: 1, low: 1, high: 1e6, injection: 'amplifier', inDetuning: false },
+      { name: 'g', amplitude: 1e-4, exponent: 1.2, low: 10, high: 1e6, injection: 'sensor', inDetuning: false },
+    ];
+  })],
 ];
 
 const traceCases: [string, Scenario, RegExp][] = [
-  ['1/f noise', withChange((s) => {
-    s.signal.flicker = [{ name: 'f', amplitude: 1e-3, exponent: 1, low: 1, high: 1e6, injection: 'amplifier', inDetuning: false }];
-  }), /signal\.flicker: 1\/f noise is correlated across shots/],
   ['telegraph noise', withChange((s) => {
     s.signal.telegraph = [{ name: 't', amplitude: 0.1, rateUp: 1e3, rateDown: 1e3, injection: 'amplifier', inDetuning: false }];
   }), /signal\.telegraph: telegraph noise is not Gaussian/],
@@ -44,7 +47,7 @@ describe('engine choice', () => {
     expect(exactBlockers(s)).toEqual([]);
     const c = chooseEngine([s], 'auto');
     expect(c.engine).toBe('exact');
-    expect(c.reason).toMatch(/^auto: every pipeline is a linear functional of the record and the noise is white Gaussian/);
+    expect(c.reason).toMatch(/^auto: every pipeline is a linear functional of the record and the noise is Gaussian/);
   });
 
   it.each(traceCases)('%s: auto keeps the trace engine and says why', (_name, s, why) => {

@@ -53,10 +53,26 @@ function mixedErrors(seed: number): Scenario {
   return s;
 }
 
+/**
+ * Sensor-side 1/f noise (it rides on the carrier like the signal, so demodulation keeps it) and a
+ * weaker amplifier-side source, on white noise and relaxation. The band starts at 50 kHz, so
+ * successive shots (4 µs apart) are correlated over a few shots only and the samples the
+ * distribution tests compare are nearly independent.
+ */
+function withFlicker(seed: number): Scenario {
+  const s = twoStateScenario({ ...base, t1: 12e-6, sigmaPerSample: 3, seed });
+  s.signal.flicker = [
+    { name: 'sensor 1/f', amplitude: 0.15, exponent: 1, low: 50e3, high: 10e6, injection: 'sensor', inDetuning: false },
+    { name: 'amplifier 1/f', amplitude: 0.05, exponent: 1.2, low: 50e3, high: 10e6, injection: 'amplifier', inDetuning: false },
+  ];
+  return s;
+}
+
 const scenarios: [string, (seed: number) => Scenario][] = [
   ['white noise + relaxation', whiteRelaxation],
   ['carrier + finite bandwidth', finiteBandwidth],
   ['preparation, mapping, leakage, square carrier, two pipelines', mixedErrors],
+  ['1/f noise (sensor- and amplifier-side) + relaxation', withFlicker],
 ];
 
 type Engine = (point: ReturnType<typeof compilePoint>, pointIndex: number, purpose: "score", batch: number, count: number) => ShotBatch;
@@ -124,6 +140,13 @@ describe('different seeds: the engines agree in distribution', () => {
     expect(r.pValue, `D = ${r.statistic}, p = ${r.pValue}`).toBeLessThan(0.01);
   });
 
+  it('the KS check sees the 1/f part: the exact engine without it is rejected against the trace engine with it (p < 0.01)', () => {
+    const without = withFlicker(22);
+    without.signal.flicker = [];
+    const r = ksTwoSample(column(batches(simulateBatch, withFlicker(21), 3), 0, 'inPhase'), column(batches(simulateExactBatch, without, 3), 0, 'inPhase'));
+    expect(r.pValue, `D = ${r.statistic}, p = ${r.pValue}`).toBeLessThan(0.01);
+  });
+
   it.each(scenarios)('%s: error rates agree within the 99.9-percent interval of their difference', async (_name, make) => {
     const shots = 20480;
     const run = (engine: 'exact' | 'traces', seed: number) => runPoints([{ parameters: {}, scenario: { ...make(seed), shots } }], { engine });
@@ -140,6 +163,30 @@ describe('different seeds: the engines agree in distribution', () => {
       expect(a, 'the comparison needs errors to compare').toBeGreaterThan(20 / st.shots);
     });
   }, 60_000);
+});
+
+describe('the 1/f part of the outputs', () => {
+  it('is the trace engine\'s, shot for shot, and a sizeable part of the noise here', () => {
+    const s = withFlicker(51);
+    s.signal.white = null;
+    const [t] = batches(simulateBatch, s, 1), [e] = batches(simulateExactBatch, s, 1);
+    const quiet = withFlicker(51);
+    quiet.signal.white = null;
+    quiet.signal.flicker = [];
+    const [c] = batches(simulateExactBatch, quiet, 1);
+    let worst = 0, scale = 0, power = 0;
+    for (let i = 0; i < t!.count; i++) {
+      const f = e!.values[0]!.inPhase[i]! - c!.values[0]!.inPhase[i]!;
+      power += f * f;
+      worst = Math.max(worst, Math.abs(t!.values[0]!.inPhase[i]! - e!.values[0]!.inPhase[i]!));
+      scale = Math.max(scale, Math.abs(t!.values[0]!.inPhase[i]!));
+    }
+    const sigmaFlicker = Math.sqrt(power / t!.count);
+    const sigmaWhite = compilePoint(withFlicker(51)).whiteSigma * Math.sqrt(2 / 200);
+    // tolerance: roundings of sums of ~200 terms (common practice, no source)
+    expect(worst, `max |trace − exact| = ${worst}`).toBeLessThanOrEqual(1e-12 * scale);
+    expect(sigmaFlicker / sigmaWhite, `1/f σ ${sigmaFlicker} against white σ ${sigmaWhite}`).toBeGreaterThan(0.8);
+  });
 });
 
 describe('the white part of the outputs', () => {

@@ -70,6 +70,14 @@ describe('fused exact path', () => {
     ['baseband (no Q), relaxation', async () => twoStateScenario({ t1: 3e-6, carrier: 'none', recordLength: 2e-6, sampleRate: 20e6, shots: 2500 })],
     ['two states (one-loop kernel): flips both ways, both transitions, response, band', twoState],
     ['two states (one-loop kernel): a pipeline window shorter than the timing window', shortWindow],
+    ['1/f noise on both sides of the sensor (per-shot timeline draws)', async () => {
+      const s = twoStateScenario({ t1: 5e-6, recordLength: 2e-6, sampleRate: 20e6, shots: 4100, batchSize: 2048 });
+      s.signal.flicker = [
+        { name: 'sensor 1/f', amplitude: 0.1, exponent: 1, low: 1e3, high: 5e6, injection: 'sensor', inDetuning: false },
+        { name: 'amplifier 1/f', amplitude: 0.05, exponent: 1.5, low: 1e3, high: 5e6, injection: 'amplifier', inDetuning: false },
+      ];
+      return s;
+    }],
   ])('%s: the same tally tree and paired counts to the bit', async (_name, make) => {
     const [fused, perShot] = await both(await make());
     expect(fused.points[0]!.tallyStacks[0]!.length).toBeGreaterThan(0);
