@@ -75,6 +75,8 @@ export interface RunToDirectoryResult {
 
 /** Runs estimated shorter than this (s) stay on one thread unless `workers` is given. */
 export const POOL_MIN_SECONDS = 2;
+/** ... and so do runs whose batches are estimated shorter than this (s). */
+export const POOL_MIN_BATCH_SECONDS = 5e-3;
 
 
 /** The sweep points of a loaded scenario, as `run` makes them (merge rebuilds points this way). */
@@ -104,7 +106,10 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   const files: string[] = [];
   writeManifest(o.outDir, { complete: false, seed: first.seed, engine: provenance.engine, engineReason: choice.reason, shard, files, scenario: loaded.canonical });
   const scoredBatches = points.reduce((n, p) => n + batchCount(p.scenario, 'score'), 0);
-  const workers = o.workers ?? (choice.engine === 'traces' && estimate.seconds > POOL_MIN_SECONDS ? defaultWorkers() : 1);
+  // threads pay off when a batch costs more than handing it over: trace-engine batches, and
+  // exact-engine ones with 1/f timelines to synthesise (plain exact batches take under a millisecond)
+  const perBatch = estimate.seconds / Math.max(1, scoredBatches);
+  const workers = o.workers ?? (estimate.seconds > POOL_MIN_SECONDS && perBatch > POOL_MIN_BATCH_SECONDS ? defaultWorkers() : 1);
   const pool = !o.executor && workers > 1 && scoredBatches > 1 ? workerPoolExecutor(Math.min(workers, scoredBatches)) : null;
   const executor = o.executor ?? pool ?? inProcessExecutor();
   const outcomeOf = first.states.map((s) => s.outcome);

@@ -67,7 +67,7 @@ export function makeRunCommand(): Command {
     .option('--refine-points <n>', 'points --refine adds (default 6)', positiveInteger('--refine-points'))
     .option('--no-report', 'do not write report.html')
     .option('--engine <kind>', 'exact (draw each integrated value from its exact distribution), traces (synthesise every sample), or auto: exact when valid', engineOption, 'auto')
-    .option('--workers <n>', `simulation threads (default: all ${defaultWorkers()} cores for a trace-engine run estimated over 2 s, else 1)`, positiveInteger('--workers'))
+    .option('--workers <n>', `simulation threads (default: all ${defaultWorkers()} cores for a run estimated over 2 s whose batches take over 5 ms — trace engine, or exact with 1/f — else 1)`, positiveInteger('--workers'))
     .action(async (file: string, opts: { engine: EngineRequest; workers?: number; out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; force?: boolean; quiet?: boolean; keepTraces?: 'raw' | 'baseband'; refine?: string | true; refinePoints?: number; report: boolean }) => {
       const progress = makeProgress({ quiet: opts.quiet });
       const { result, files, refinement, report, sweep } = await withInterruptSignals((signal) => runToDirectory({
