@@ -16,18 +16,21 @@ import type { Tally } from '../analysis/tally.ts';
 import { normalSlowPath, type RandomStream } from '../random/stream.ts';
 import { ZIGGURAT } from '../random/ziggurat.ts';
 import { factorEntry, signalValue, type ExactTables } from './exact-batch.ts';
+import type { CompiledPoint } from './compile.ts';
 import type { FusedPipeline } from './exact-fused.ts';
 import { walkChain, type HistoryColumns, type HistoryTables, type PathStore } from './history.ts';
 
 const INV_TWO_POW_32 = 1 / 4294967296;
 const LAYER_K = ZIGGURAT.k;
 const LAYER_W = ZIGGURAT.w;
-/** fastTallyBlock's scalar arguments (see there). */
-const SCALARS = new Float64Array(8);
 
-/** Whether `fastTallyBlock` handles a point: 2 states, 2 outcomes, 1 pipeline, ≤ 2 outputs and columns. */
-export function fastKernelApplies(t: ExactTables, h: HistoryTables, pipelines: number, outcomes: number): boolean {
-  return h.states === 2 && outcomes === 2 && pipelines === 1 && t.outputs >= 1 && t.outputs <= 2 && t.columns.length <= 2;
+/**
+ * Whether `fastTallyBlock` handles a point: 2 states, 2 outcomes, 1 pipeline, ≤ 2 outputs and
+ * columns, and no 1/f noise (its per-shot timeline draw runs in the separate passes).
+ */
+export function fastKernelApplies(point: CompiledPoint, t: ExactTables, h: HistoryTables, pipelines: number, outcomes: number): boolean {
+  return point.noise.flicker === null && h.states === 2 && outcomes === 2 && pipelines === 1
+    && t.outputs >= 1 && t.outputs <= 2 && t.columns.length <= 2;
 }
 
 /**
@@ -39,19 +42,14 @@ export function fastTallyBlock(
   h: HistoryTables, t: ExactTables, s: FusedPipeline, outcomeOf: Uint8Array, stream: RandomStream, lane: RandomStream,
   len: number, leaf: Tally, columns: HistoryColumns, store: PathStore,
 ): void {
-  // module constants copied to locals: V8 reloads and checks a module binding on every use in a loop
-  const inv = INV_TWO_POW_32, layer_k = LAYER_K, layer_w = LAYER_W;
-  // (lastSample null: the pipeline reads to the window's end, so no jump is after its last sample)
   const { prepareCumulative, prepProbability, prepInto, mapProbability, mapInto, anyPrep, anyMap, noJumpCut, exitRate } = h;
   const nCauses = CAUSES.length;
   const { causes, discarded, discardedWrong } = leaf;
-  // the scalars through a Float64Array: read back they are doubles whatever representation the
-  // caller's objects gave them (a Smi cos of 1 in one call halved the loop's speed in later ones)
-  const scalars = SCALARS;
-  scalars[0] = s.cos; scalars[1] = s.sin; scalars[2] = s.threshold; scalars[3] = s.band;
-  scalars[4] = s.lastSample ?? Infinity; scalars[5] = h.recordLength; scalars[6] = h.lastWindowSample; scalars[7] = t.sampleRate;
-  const cos = scalars[0]!, sin = scalars[1]!, threshold = scalars[2]!, band = scalars[3]!, lastSample = scalars[4]!;
-  const recordLength = scalars[5]!, lastWindowSample = scalars[6]!, fs = scalars[7]!;
+  const cos = s.cos, sin = s.sin, threshold = s.threshold, band = s.band;
+  // (lastSample null: the pipeline reads to the window's end, so no jump is after its last sample)
+  const lastSample = s.lastSample ?? Infinity;
+  const { recordLength, lastWindowSample } = h;
+  const fs = t.sampleRate;
   const flip = s.highIsOne ? 0 : 1;
   const firstCut = prepareCumulative[0]!;
   const nCols = t.columns.length, hasQ = t.outputs === 2;
@@ -76,25 +74,25 @@ export function fastTallyBlock(
     // history (sampleHistories, draw for draw): xoshiro128** steps on the block's stream, inline
     m = Math.imul(a1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
     x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
-    let u = ((r >>> 0) + 0.5) * inv;
+    let u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
     const intended = +(u > firstCut);
     let prepared = intended;
     if (anyPrep) {
       m = Math.imul(a1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
       x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
-      u = ((r >>> 0) + 0.5) * inv;
+      u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
       prepared = intended + +(u < prepProbability[intended]!) * (prepInto[intended]! - intended);
     }
     let initial = prepared;
     if (anyMap) {
       m = Math.imul(a1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
       x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
-      u = ((r >>> 0) + 0.5) * inv;
+      u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
       initial = prepared + +(u < mapProbability[prepared]!) * (mapInto[prepared]! - prepared);
     }
     m = Math.imul(a1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
     x = a1 << 9; n2 = a2 ^ a0; n3 = a3 ^ a1; a1 ^= n2; a0 ^= n3; a2 = n2 ^ x; a3 = (n3 << 11) | (n3 >>> 21);
-    u = ((r >>> 0) + 0.5) * inv;
+    u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
     let jc = 0, jumped = false, pathI = 0, pathQ = 0;
     if (u >= noJumpCut[initial]!) {
       const time = -Math.log(u) / exitRate[initial]!;
@@ -108,8 +106,9 @@ export function fastTallyBlock(
           jc = time <= lastWindowSample ? jumpCause[initial * 2 + next]! : 0;
           if (!(time <= lastSample)) jc = 0;
           if (t.response === null) {
-            pathI = oneJumpValue(prefix[initial]!, prefix[next]!, loI, hiI, Math.ceil(time * fs));
-            if (hasQ) pathQ = oneJumpValue(prefix[2 + initial]!, prefix[2 + next]!, loQ, hiQ, Math.ceil(time * fs));
+            const switchAt = Math.ceil(time * fs);
+            pathI = oneJumpValue(prefix[initial]!, prefix[next]!, loI, hiI, switchAt);
+            if (hasQ) pathQ = oneJumpValue(prefix[2 + initial]!, prefix[2 + next]!, loQ, hiQ, switchAt);
           } else {
             store.times[0] = time; store.entered[0] = next;
             pathI = signalValue(t, 0, initial, store.times, store.entered, 0, 1);
@@ -135,7 +134,7 @@ export function fastTallyBlock(
       m = Math.imul(b1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
       x = b1 << 9; n2 = b2 ^ b0; n3 = b3 ^ b1; b1 ^= n2; b0 ^= n3; b2 = n2 ^ x; b3 = (n3 << 11) | (n3 >>> 21);
       const layer = r & 127, pos = r >> 7;
-      if (Math.abs(pos) < layer_k[layer]!) z0 = pos * layer_w[layer]!;
+      if (Math.abs(pos) < LAYER_K[layer]!) z0 = pos * LAYER_W[layer]!;
       else {
         ls[0] = b0; ls[1] = b1; ls[2] = b2; ls[3] = b3;
         z0 = normalSlowPath(ls, pos, layer);
@@ -145,7 +144,7 @@ export function fastTallyBlock(
         m = Math.imul(b1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
         x = b1 << 9; n2 = b2 ^ b0; n3 = b3 ^ b1; b1 ^= n2; b0 ^= n3; b2 = n2 ^ x; b3 = (n3 << 11) | (n3 >>> 21);
         const layer1 = r & 127, pos1 = r >> 7;
-        if (Math.abs(pos1) < layer_k[layer1]!) z1 = pos1 * layer_w[layer1]!;
+        if (Math.abs(pos1) < LAYER_K[layer1]!) z1 = pos1 * LAYER_W[layer1]!;
         else {
           ls[0] = b0; ls[1] = b1; ls[2] = b2; ls[3] = b3;
           z1 = normalSlowPath(ls, pos1, layer1);

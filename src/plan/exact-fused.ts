@@ -136,8 +136,7 @@ export function simulateTalliedBatch(
   // output index of each pipeline's I and Q (−1: no Q, the value is 0)
   const iOut = new Int32Array(nPipes).fill(-1), qOut = new Int32Array(nPipes).fill(-1);
   for (let d = 0; d < t.outputs; d++) (t.isQuadrature[d] ? qOut : iOut)[t.pipeline[d]!] = d;
-  // (1/f noise adds a per-shot timeline draw: the separate passes below)
-  const fast = point.noise.flicker === null && fastKernelApplies(t, history, nPipes, outcomes);
+  const fast = fastKernelApplies(point, t, history, nPipes, outcomes);
   const firstShot = batch * sc.batchSize;
   const nodes: TallyNode[][] = [];
   for (let p = 0; p < nPipes; p++) nodes.push([]);

@@ -114,8 +114,6 @@ const INV_TWO_POW_32 = 1 / 4294967296;
 export function sampleHistories(
   t: HistoryTables, stream: RandomStream, out: HistoryColumns, from: number, to: number, store: PathStore,
 ): void {
-  // module constants copied to locals: V8 reloads and checks a module binding on every use in a loop
-  const inv = INV_TWO_POW_32;
   const last = t.states - 1;
   const { prepareCumulative, exitRate, recordLength } = t;
   const { prepProbability, prepInto, mapProbability, mapInto, anyPrep, anyMap, noJumpCut } = t;
@@ -132,7 +130,7 @@ export function sampleHistories(
     // xoshiro128** step (as random/stream.ts nextInt32), inline
     m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
     x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
-    let u = ((r >>> 0) + 0.5) * inv;
+    let u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
     // the first k with u ≤ cumulative[k]: without a branch for two states (a loop here costs
     // more than the whole draw), else a short search
     const intended = last === 1 ? +(u > firstCut) : firstAbove(prepareCumulative, last, u);
@@ -140,14 +138,14 @@ export function sampleHistories(
     if (anyPrep) {
       m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
       x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
-      u = ((r >>> 0) + 0.5) * inv;
+      u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
       prepared = intended + +(u < prepProbability[intended]!) * (prepInto[intended]! - intended);
     }
     let initial = prepared;
     if (anyMap) {
       m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
       x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
-      u = ((r >>> 0) + 0.5) * inv;
+      u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
       initial = prepared + +(u < mapProbability[prepared]!) * (mapInto[prepared]! - prepared);
     }
     intendedCol[i] = intended;
@@ -160,7 +158,7 @@ export function sampleHistories(
     // the first holding time
     m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
     x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
-    u = ((r >>> 0) + 0.5) * inv;
+    u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;
     if (u < noJumpCut[initial]!) continue;
     const time = -Math.log(u) / exitRate[initial]!;
     if (time >= recordLength) continue;

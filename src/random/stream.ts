@@ -129,8 +129,6 @@ export function normalSlowPath(st: Int32Array, pos: number, layer: number): numb
  * locals; the rare rejection writes it back, resolves the draw and reloads it.
  */
 function addNormalsFast(st: Int32Array, out: Float64Array, base: Float64Array, start: number, count: number, sigma: number): void {
-  // module constants copied to locals: V8 reloads and checks a module binding on every use in a loop
-  const layer_k = LAYER_K, layer_w = LAYER_W;
   let s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
   const end = start + count;
   for (let i = start; i < end; i++) {
@@ -145,7 +143,7 @@ function addNormalsFast(st: Int32Array, out: Float64Array, base: Float64Array, s
     s3 = (n3 << 11) | (n3 >>> 21);
     const layer = u & 127;
     const pos = u >> 7;
-    if (Math.abs(pos) < layer_k[layer]!) out[i] = base[i]! + sigma * (pos * layer_w[layer]!);
+    if (Math.abs(pos) < LAYER_K[layer]!) out[i] = base[i]! + sigma * (pos * LAYER_W[layer]!);
     else {
       st[0] = s0; st[1] = s1; st[2] = s2; st[3] = s3;
       out[i] = base[i]! + sigma * normalSlowPath(st, pos, layer);
