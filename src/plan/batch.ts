@@ -5,11 +5,11 @@
 import { makePathBuffer, type PathBuffer } from '../physics/chain.ts';
 import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../random/streams.ts';
 import type { RandomStream } from '../random/stream.ts';
-import { addWhiteNoise, writeSignal } from '../signal/trace.ts';
+import { writeSignal } from '../signal/trace.ts';
 import { writeRespondedSignal } from '../signal/response.ts';
 import { digitize } from '../signal/digitizer.ts';
 import { makeNoiseRuntime, type NoiseRuntime } from './noise-runtime.ts';
-import { dotRange, dotRangePair } from '../dsp/integrate.ts';
+import { RecordKernel } from '../signal/record-kernel.ts';
 import type { CompiledPoint } from './compile.ts';
 import { historyTables, makePathStore, sampleHistories, type HistoryColumns, type HistoryTables, type PathStore } from './history.ts';
 import { makeShotCollector, type KeptBins, type KeptTraces } from './collect.ts';
@@ -34,7 +34,11 @@ export interface ShotBatch extends HistoryColumns {
 
 /** Scratch buffers reused across batches of one point (no per-shot allocation). */
 export interface BatchScratch {
+  /** The record of the shot being simulated (the kernel's, once the trace engine has run). */
   record: Float64Array;
+  /** The per-sample loops on `kernelOf`'s waveforms and kernels (made on first use). */
+  kernel?: RecordKernel;
+  kernelOf?: CompiledPoint;
   path: PathBuffer;
   /** The jumps of one seeding block's shots (histories are drawn a block at a time). */
   store: PathStore;
@@ -119,6 +123,16 @@ export function loadPath(store: PathStore, j: number, path: PathBuffer): void {
   path.jumps = b - a;
 }
 
+/** The scratch's record kernel for `point` (made again for another point); the record becomes its. */
+export function scratchKernel(point: CompiledPoint, scratch: BatchScratch): RecordKernel {
+  if (scratch.kernelOf !== point || !scratch.kernel) {
+    scratch.kernel = new RecordKernel(point.grid.samples, point.waveforms, point.pipelines.map((p) => p.kernels));
+    scratch.kernelOf = point;
+    scratch.record = scratch.kernel.record;
+  }
+  return scratch.kernel;
+}
+
 /**
  * Runs shots [batch·batchSize, batch·batchSize + count) of one point and purpose through the
  * trace engine. Each seeding block first draws its shots' histories (history.ts), then, shot by
@@ -131,6 +145,7 @@ export function simulateBatch(
 ): ShotBatch {
   const out = makeShotBatch(point, pointIndex, purpose, batch, count);
   const tables = scratchHistory(point, scratch);
+  const kernel = scratchKernel(point, scratch);
   const { record, path, store } = scratch;
   const fs = point.grid.sampleRate;
   const lo = point.synthLo, hi = point.synthHi;
@@ -146,7 +161,7 @@ export function simulateBatch(
       loadPath(store, i - from, path);
       // the common shot (no jump, nothing but white noise): signal and noise in one pass
       const plain = !response && !slow && path.jumps === 0 && point.whiteSigma > 0;
-      if (plain) stream.addNormalsOnto(record, point.waveforms[out.initial[i]!]!, lo, hi - lo, point.whiteSigma);
+      if (plain) kernel.noiseOntoWaveform(stream, out.initial[i]!, lo, hi, point.whiteSigma);
       else if (response) writeRespondedSignal(record, lo, hi, point.levelWaves, response, out.initial[i]!, path, fs);
       else writeSignal(record, lo, hi, point.waveforms, out.initial[i]!, path, fs);
       if (slow) {
@@ -156,19 +171,13 @@ export function simulateBatch(
         slow.addTelegraph(record, lo, hi);
         if (digitizer) slow.addFlicker(record, lo, hi);
       }
-      if (!plain) addWhiteNoise(record, lo, hi, point.whiteSigma, stream);
+      if (!plain) kernel.addNoise(stream, lo, hi, point.whiteSigma);
       if (digitizer) clipped += digitize(record, lo, hi, digitizer);
       const carried = slow !== null && slow.hasFlicker && digitizer === null;
       for (let p = 0; p < point.pipelines.length; p++) {
-        const k = point.pipelines[p]!.kernels;
-        if (k.quadrature) {
-          dotRangePair(k.inPhase, k.quadrature, record, k.lo, k.hi, pair);
-          out.values[p]!.inPhase[i] = pair[0]! + (carried ? slow.flickerValue(p, false) : 0);
-          out.values[p]!.quadrature[i] = pair[1]! + (carried ? slow.flickerValue(p, true) : 0);
-        } else {
-          out.values[p]!.inPhase[i] = dotRange(k.inPhase, record, k.lo, k.hi) + (carried ? slow.flickerValue(p, false) : 0);
-          out.values[p]!.quadrature[i] = 0;
-        }
+        kernel.values(p, pair);
+        out.values[p]!.inPhase[i] = pair[0]! + (carried ? slow.flickerValue(p, false) : 0);
+        out.values[p]!.quadrature[i] = point.pipelines[p]!.kernels.quadrature ? pair[1]! + (carried ? slow.flickerValue(p, true) : 0) : 0;
       }
       // kept traces and bins see the whole record (after the values, which do not depend on them)
       if (carried && collector) slow.addFlicker(record, lo, hi);

@@ -1,0 +1,79 @@
+/**
+ * The WebAssembly record kernel (signal/record-kernel.ts) gives the numbers of the TypeScript
+ * loops it replaces in the trace engine, to the bit: white noise onto a waveform or onto the
+ * record (RandomStream.addNormalsOnto / addNormals, ziggurat rejections included, the same
+ * stream state after), and the dot products with a pipeline's kernels (dotRange, dotRangePair),
+ * over even and odd ranges. And the compiled module in the repository is that of the .wat
+ * source (wabt compiles it again here). Exactness: common practice, no source.
+ */
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { makeStream } from '../../src/random/streams.ts';
+import { dotRange, dotRangePair } from '../../src/dsp/integrate.ts';
+import { RecordKernel } from '../../src/signal/record-kernel.ts';
+import { WASM_BYTES } from '../../src/signal/record-kernel-wasm.ts';
+import { compileWat } from '../../scripts/wasm-source.ts';
+
+function wave(n: number, seed: number): Float64Array {
+  const s = makeStream(seed, 0, 'calibrate', 0), w = new Float64Array(n);
+  for (let i = 0; i < n; i++) w[i] = 3 * s.nextDouble() - 1;
+  return w;
+}
+
+function sameBits(a: Float64Array, b: Float64Array, what: string): void {
+  let differ = 0, first = -1;
+  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) { differ++; if (first < 0) first = i; }
+  expect(differ, `${what}: first difference at ${first} (${a[first]} vs ${b[first]})`).toBe(0);
+}
+
+describe('record kernel (WebAssembly)', () => {
+  it('the module in the repository is the compiled record-kernel.wat (run `npm run build:wasm` after editing it)', async () => {
+    const text = readFileSync(new URL('../../src/signal/record-kernel.wat', import.meta.url), 'utf8');
+    const bytes = await compileWat('record-kernel.wat', text);
+    expect(Buffer.from(bytes).equals(Buffer.from(WASM_BYTES))).toBe(true);
+  });
+
+  it('noise onto a waveform: 600 records of 1999 samples (~1.2 M normals, ~14 k rejections) equal addNormalsOnto, state included', () => {
+    const n = 1999, waves = [wave(n, 1), wave(n, 2)];
+    const kernel = new RecordKernel(n, waves, []);
+    const a = makeStream(7, 3, 'score', 11), b = makeStream(7, 3, 'score', 11);
+    const ours = new Float64Array(n);
+    for (let shot = 0; shot < 600; shot++) {
+      const lo = shot % 3, hi = n - (shot % 5), w = shot % 2;
+      kernel.noiseOntoWaveform(a, w, lo, hi, 0.5 + shot / 100);
+      ours.fill(0);
+      b.addNormalsOnto(ours, waves[w]!, lo, hi - lo, 0.5 + shot / 100);
+      sameBits(kernel.record.subarray(lo, hi), ours.subarray(lo, hi), `shot ${shot}`);
+      expect(Array.from(a.state())).toEqual(Array.from(b.state()));
+    }
+  });
+
+  it('noise added onto the record in place equals addNormals, and σ = 0 draws nothing', () => {
+    const n = 4096, kernel = new RecordKernel(n, [wave(n, 3)], []);
+    const a = makeStream(8, 0, 'score', 0), b = makeStream(8, 0, 'score', 0);
+    const start = wave(n, 4);
+    kernel.record.set(start);
+    const ours = Float64Array.from(start);
+    for (let r = 0; r < 20; r++) {
+      kernel.addNoise(a, 5 + r, n - r, 2);
+      b.addNormals(ours, 5 + r, n - r - 5 - r, 2);
+    }
+    sameBits(kernel.record, ours, 'record');
+    const before = Array.from(a.state());
+    kernel.addNoise(a, 0, n, 0);
+    expect(Array.from(a.state())).toEqual(before);
+  });
+
+  it.each([[0, 2000], [1, 2000], [3, 1000], [0, 1], [7, 8]])('dot products over [%i, %i) equal dotRange and dotRangePair', (lo, hi) => {
+    const n = 2000, ki = wave(n, 5), kq = wave(n, 6);
+    const kernel = new RecordKernel(n, [], [{ inPhase: ki, quadrature: kq, lo, hi }, { inPhase: kq, quadrature: null, lo, hi }]);
+    kernel.record.set(wave(n, 9));
+    const out = new Float64Array(2), pair = new Float64Array(2);
+    kernel.values(0, out);
+    dotRangePair(ki, kq, kernel.record, lo, hi, pair);
+    expect([Object.is(out[0], pair[0]), Object.is(out[1], pair[1])]).toEqual([true, true]);
+    kernel.values(1, out);
+    expect(Object.is(out[0], dotRange(kq, kernel.record, lo, hi))).toBe(true);
+    expect(out[1]).toBe(0);
+  });
+});
