@@ -10,7 +10,7 @@ import { fileURLToPath } from 'node:url';
 import { compileWat, wasmModuleSource } from './wasm-source.ts';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-const sources = ['src/signal/record-kernel.wat'];
+const sources = ['src/plan/kernels.wat'];
 for (const source of sources) {
   const bytes = await compileWat(source, readFileSync(join(root, source), 'utf8'));
   const target = join(root, source.replace(/\.wat$/, '-wasm.ts'));

@@ -9,7 +9,7 @@ import { writeSignal } from '../signal/trace.ts';
 import { writeRespondedSignal } from '../signal/response.ts';
 import { digitize } from '../signal/digitizer.ts';
 import { makeNoiseRuntime, type NoiseRuntime } from './noise-runtime.ts';
-import { RecordKernel } from '../signal/record-kernel.ts';
+import { RecordKernel } from './record-kernel.ts';
 import type { CompiledPoint } from './compile.ts';
 import { historyTables, makePathStore, sampleHistories, type HistoryColumns, type HistoryTables, type PathStore } from './history.ts';
 import { makeShotCollector, type KeptBins, type KeptTraces } from './collect.ts';

@@ -192,7 +192,7 @@ export function fastTallyBlock(
  * Whether, in a two-state chain, every jump is the last: each state that can leave goes to the
  * other with certainty (the row's cumulative probabilities), and that one cannot leave.
  */
-function singleJumpChain(h: HistoryTables): boolean {
+export function singleJumpChain(h: HistoryTables): boolean {
   for (let s = 0; s < 2; s++) {
     if (!(h.exitRate[s]! > 0)) continue;
     const other = 1 - s;

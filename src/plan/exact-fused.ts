@@ -14,6 +14,7 @@ import { emptyTally, type Tally } from '../analysis/tally.ts';
 import { pushNode, type TallyNode } from '../analysis/tally-tree.ts';
 import { momentsFromShiftedSums } from '../analysis/moments.ts';
 import { fastKernelApplies, fastTallyBlock, finishTwoByTwo } from './exact-fast.ts';
+import { ExactKernel, exactKernelApplies } from './exact-kernel.ts';
 import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../random/streams.ts';
 import type { CompiledPoint } from './compile.ts';
 import type { PipelineCalibration } from './calibrate.ts';
@@ -91,6 +92,8 @@ interface FusedScratch {
   shift: Float64Array;
   sum1: Float64Array;
   sum2: Float64Array;
+  /** The WebAssembly kernel of the scratch's current exact tables (made on first use). */
+  kernel?: ExactKernel;
 }
 
 const fusedScratches = new WeakMap<ExactScratch, FusedScratch>();
@@ -137,6 +140,12 @@ export function simulateTalliedBatch(
   const iOut = new Int32Array(nPipes).fill(-1), qOut = new Int32Array(nPipes).fill(-1);
   for (let d = 0; d < t.outputs; d++) (t.isQuadrature[d] ? qOut : iOut)[t.pipeline[d]!] = d;
   const fast = fastKernelApplies(point, t, history, nPipes, outcomes);
+  // the common point's loop as WebAssembly where it applies (the same numbers), else in TypeScript
+  let kernel: ExactKernel | null = null;
+  if (fast && exactKernelApplies(t, history)) {
+    if (f.kernel?.tables !== t) f.kernel = new ExactKernel(t);
+    kernel = f.kernel;
+  }
   const firstShot = batch * sc.batchSize;
   const nodes: TallyNode[][] = [];
   for (let p = 0; p < nPipes; p++) nodes.push([]);
@@ -151,7 +160,8 @@ export function simulateTalliedBatch(
     const len = Math.min(count, from + SEED_BLOCK) - from;
     if (fast) {
       const leaf = emptyTally(states, outcomes);
-      fastTallyBlock(history, t, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf, columns, scratch.store);
+      if (kernel) kernel.tallyBlock(history, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf);
+      else fastTallyBlock(history, t, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf, columns, scratch.store);
       pushNode(nodes[0]!, { level: 0, index: firstBlock + from / SEED_BLOCK, tally: leaf });
       continue;
     }

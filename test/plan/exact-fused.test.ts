@@ -61,6 +61,16 @@ const shortWindow = async () => {
   const s = await twoState();
   return { ...s, pipelines: [{ ...s.pipelines[0]!, ambiguousBand: null, window: { start: 0.5e-6, length: 1e-6 } }] } as Scenario;
 };
+/**
+ * The two-state fixture with no analog response and relaxation only: every jump ends the
+ * chain, so the one-loop kernel runs as WebAssembly (plan/exact-kernel.ts) — with preparation
+ * and mapping errors and the band, and optionally a pipeline window that ends early.
+ */
+const oneJump = async (window?: { start: number; length: number }) => {
+  const s = await twoState();
+  const pipeline = window ? { ...s.pipelines[0]!, window } : s.pipelines[0]!;
+  return { ...s, transitions: s.transitions.filter((t) => t.from === 1), signal: { ...s.signal, response: null }, pipelines: [pipeline] } as Scenario;
+};
 
 describe('fused exact path', () => {
   it.each([
@@ -70,6 +80,8 @@ describe('fused exact path', () => {
     ['baseband (no Q), relaxation', async () => twoStateScenario({ t1: 3e-6, carrier: 'none', recordLength: 2e-6, sampleRate: 20e6, shots: 2500 })],
     ['two states (one-loop kernel): flips both ways, both transitions, response, band', twoState],
     ['two states (one-loop kernel): a pipeline window shorter than the timing window', shortWindow],
+    ['two states (WebAssembly kernel): flips both ways, relaxation only, no response, band', () => oneJump()],
+    ['two states (WebAssembly kernel): the same with a pipeline window ending early', () => oneJump({ start: 0.5e-6, length: 1e-6 })],
     ['1/f noise on both sides of the sensor (per-shot timeline draws)', async () => {
       const s = twoStateScenario({ t1: 5e-6, recordLength: 2e-6, sampleRate: 20e6, shots: 4100, batchSize: 2048 });
       s.signal.flicker = [

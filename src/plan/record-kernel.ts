@@ -1,26 +1,20 @@
 /**
  * The trace engine's per-sample loops on one point's arrays, run as WebAssembly
- * (record-kernel.wat): white noise onto a record, and the record's dot products with each
+ * (kernels.wat): white noise onto a record, and the record's dot products with each
  * pipeline's kernels. The numbers are those of the TypeScript loops (RandomStream.addNormalsOnto,
  * dotRange, dotRangePair) to the bit; only the speed differs.
  *
  * The waveforms and kernels are copied once into the instance's memory; `record` is a view of
  * that memory, so every other stage reads and writes the record as an ordinary Float64Array.
  */
-import { normalSlowPath, type RandomStream } from '../random/stream.ts';
-import { ZIGGURAT } from '../random/ziggurat.ts';
-import { WASM_BYTES } from './record-kernel-wasm.ts';
-
-const STATE = 0, RESULT = 16, LAYER_K = 64, LAYER_W = 1024, ARRAYS = 2048;
-const PAGE = 65536;
+import type { RandomStream } from '../random/stream.ts';
+import { instantiateKernels, LAYOUT } from './kernel-memory.ts';
 
 interface Exports {
   addNormalsOnto(out: number, base: number, count: number, sigma: number): void;
   dot(a: number, x: number, lo: number, hi: number): void;
   dotPair(a: number, b: number, x: number, lo: number, hi: number): void;
 }
-
-let compiled: WebAssembly.Module | null = null;
 
 /** A pipeline's kernels inside the instance (byte offsets; quadrature −1 at baseband). */
 interface PlacedKernels { inPhase: number; quadrature: number; lo: number; hi: number }
@@ -39,13 +33,11 @@ export class RecordKernel {
 
   constructor(samples: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[]) {
     const arrays = waveforms.length + 1 + 2 * pipelines.length;
-    const memory = new WebAssembly.Memory({ initial: Math.ceil((ARRAYS + arrays * samples * 8) / PAGE) });
-    const buffer = memory.buffer;
-    this.state = new Int32Array(buffer, STATE, 4);
-    this.result = new Float64Array(buffer, RESULT, 2);
-    new Int32Array(buffer, LAYER_K, 128).set(ZIGGURAT.k);
-    new Float64Array(buffer, LAYER_W, 128).set(ZIGGURAT.w);
-    let next = ARRAYS;
+    const { buffer, exports } = instantiateKernels(arrays * samples * 8);
+    this.exports = exports as unknown as Exports;
+    this.state = new Int32Array(buffer, LAYOUT.stream, 4);
+    this.result = new Float64Array(buffer, LAYOUT.dotResults, 2);
+    let next: number = LAYOUT.arrays;
     const place = (values: Float64Array | null): number => {
       const at = next;
       next += samples * 8;
@@ -56,12 +48,6 @@ export class RecordKernel {
     this.kernels = pipelines.map((k) => ({ inPhase: place(k.inPhase), quadrature: k.quadrature ? place(k.quadrature) : -1, lo: k.lo, hi: k.hi }));
     this.recordAt = place(null);
     this.record = new Float64Array(buffer, this.recordAt, samples);
-    compiled ??= new WebAssembly.Module(WASM_BYTES);
-    const state = this.state;
-    const instance = new WebAssembly.Instance(compiled, {
-      env: { memory, normalSlowPath: (pos: number, layer: number) => normalSlowPath(state, pos, layer) },
-    });
-    this.exports = instance.exports as unknown as Exports;
   }
 
   /** record[lo … hi) = waveform `wave` + sigma·N(0,1) from `stream` (RandomStream.addNormalsOnto). */

@@ -1,5 +1,5 @@
 /**
- * The WebAssembly record kernel (signal/record-kernel.ts) gives the numbers of the TypeScript
+ * The WebAssembly record kernel (plan/record-kernel.ts) gives the numbers of the TypeScript
  * loops it replaces in the trace engine, to the bit: white noise onto a waveform or onto the
  * record (RandomStream.addNormalsOnto / addNormals, ziggurat rejections included, the same
  * stream state after), and the dot products with a pipeline's kernels (dotRange, dotRangePair),
@@ -10,8 +10,8 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { makeStream } from '../../src/random/streams.ts';
 import { dotRange, dotRangePair } from '../../src/dsp/integrate.ts';
-import { RecordKernel } from '../../src/signal/record-kernel.ts';
-import { WASM_BYTES } from '../../src/signal/record-kernel-wasm.ts';
+import { RecordKernel } from '../../src/plan/record-kernel.ts';
+import { WASM_BYTES } from '../../src/plan/kernels-wasm.ts';
 import { compileWat } from '../../scripts/wasm-source.ts';
 
 function wave(n: number, seed: number): Float64Array {
@@ -27,9 +27,9 @@ function sameBits(a: Float64Array, b: Float64Array, what: string): void {
 }
 
 describe('record kernel (WebAssembly)', () => {
-  it('the module in the repository is the compiled record-kernel.wat (run `npm run build:wasm` after editing it)', async () => {
-    const text = readFileSync(new URL('../../src/signal/record-kernel.wat', import.meta.url), 'utf8');
-    const bytes = await compileWat('record-kernel.wat', text);
+  it('the module in the repository is the compiled kernels.wat (run `npm run build:wasm` after editing it)', async () => {
+    const text = readFileSync(new URL('../../src/plan/kernels.wat', import.meta.url), 'utf8');
+    const bytes = await compileWat('kernels.wat', text);
     expect(Buffer.from(bytes).equals(Buffer.from(WASM_BYTES))).toBe(true);
   });
 

@@ -1,0 +1,100 @@
+/**
+ * exact-fast.ts fastTallyBlock as WebAssembly (kernels.wat tallyBlock), for the points it suits:
+ * those of fastTallyBlock whose every jump ends the chain and whose signal has no analog
+ * response (the general chain walk and the response's closed form stay in TypeScript). The
+ * block's tally is the same to the bit (test/plan/exact-kernel.test.ts).
+ *
+ * One instance per exact tables: their prefix sums are copied once into its memory; the
+ * point's and pipeline's scalars are written before each block (a few dozen numbers).
+ */
+import { CAUSES } from '../analysis/causes.ts';
+import { momentsFromShiftedSums } from '../analysis/moments.ts';
+import type { Tally } from '../analysis/tally.ts';
+import type { RandomStream } from '../random/stream.ts';
+import { factorEntry, type ExactTables } from './exact-batch.ts';
+import { finishTwoByTwo, singleJumpChain } from './exact-fast.ts';
+import type { FusedPipeline } from './exact-fused.ts';
+import type { HistoryTables } from './history.ts';
+import { instantiateKernels, LAYOUT } from './kernel-memory.ts';
+
+/** i32 results: sumState, sumOutcome, sumBoth, n0, n1, then causes[2·C], discarded[2], discardedWrong[2]. */
+const CAUSES_AT = 5, DISCARDED_AT = CAUSES_AT + 2 * CAUSES.length, DISCARDED_WRONG_AT = DISCARDED_AT + 2;
+
+/** Whether the WebAssembly kernel handles a point fastTallyBlock handles (exact-fast.ts fastKernelApplies). */
+export function exactKernelApplies(t: ExactTables, h: HistoryTables): boolean {
+  return t.response === null && singleJumpChain(h);
+}
+
+export class ExactKernel {
+  /** The tables whose prefix sums the instance holds. */
+  readonly tables: ExactTables;
+  private readonly tallyBlockWasm: (len: number) => void;
+  private readonly stream: Int32Array;
+  private readonly lane: Int32Array;
+  private readonly f64: Float64Array;
+  private readonly i32: Int32Array;
+  private readonly f64Out: Float64Array;
+  private readonly i32Out: Int32Array;
+
+  constructor(t: ExactTables) {
+    this.tables = t;
+    // prefix[d·2 + s] for d = I (0) and Q (1), s = 0, 1; each holds hi − lo + 1 sums
+    const sizes = t.prefix.slice(0, 2 * t.outputs).map((p) => p.length * 8);
+    const { buffer, exports } = instantiateKernels(sizes.reduce((a, b) => a + b, 0));
+    this.tallyBlockWasm = exports.tallyBlock as (len: number) => void;
+    this.stream = new Int32Array(buffer, LAYOUT.stream, 4);
+    this.lane = new Int32Array(buffer, LAYOUT.lane, 4);
+    this.f64 = new Float64Array(buffer, LAYOUT.f64Params, 24);
+    this.i32 = new Int32Array(buffer, LAYOUT.i32Params, 24);
+    this.f64Out = new Float64Array(buffer, LAYOUT.f64Results, 6);
+    this.i32Out = new Int32Array(buffer, LAYOUT.i32Results, DISCARDED_WRONG_AT + 2);
+    let at: number = LAYOUT.arrays;
+    for (let j = 0; j < sizes.length; j++) {
+      new Float64Array(buffer, at, t.prefix[j]!.length).set(t.prefix[j]!);
+      this.i32[20 + j] = at;
+      at += sizes[j]!;
+    }
+  }
+
+  /** fastTallyBlock's work on one seeding block (same arguments, less its scratch), into `leaf`. */
+  tallyBlock(h: HistoryTables, s: FusedPipeline, outcomeOf: Uint8Array, stream: RandomStream, lane: RandomStream, len: number, leaf: Tally): void {
+    const t = this.tables, p = this.f64, q = this.i32;
+    const hasQ = t.outputs === 2;
+    p[0] = h.prepareCumulative[0]!;
+    p[1] = h.prepProbability[0]!; p[2] = h.prepProbability[1]!;
+    p[3] = h.mapProbability[0]!; p[4] = h.mapProbability[1]!;
+    p[5] = h.noJumpCut[0]!; p[6] = h.noJumpCut[1]!;
+    p[7] = h.exitRate[0]!; p[8] = h.exitRate[1]!;
+    p[9] = h.recordLength; p[10] = h.lastWindowSample;
+    // (lastSample null: the pipeline reads to the window's end, so no jump is after its last sample)
+    p[11] = s.lastSample ?? Infinity;
+    p[12] = t.sampleRate;
+    p[13] = t.full[0]!; p[14] = t.full[1]!;
+    p[15] = hasQ ? t.full[2]! : 0; p[16] = hasQ ? t.full[3]! : 0;
+    p[17] = factorEntry(t, 0, 0); p[18] = hasQ ? factorEntry(t, 1, 0) : 0; p[19] = hasQ ? factorEntry(t, 1, 1) : 0;
+    p[20] = s.cos; p[21] = s.sin; p[22] = s.threshold; p[23] = s.band;
+    q[0] = h.prepInto[0]!; q[1] = h.prepInto[1]!;
+    q[2] = h.mapInto[0]!; q[3] = h.mapInto[1]!;
+    for (let k = 0; k < 4; k++) q[4 + k] = h.jumpCause[k]!;
+    q[8] = outcomeOf[0]!; q[9] = outcomeOf[1]!;
+    q[10] = +h.anyPrep; q[11] = +h.anyMap; q[12] = +hasQ; q[13] = +(p[19] !== 0);
+    q[14] = t.columns.length; q[15] = s.highIsOne ? 0 : 1;
+    q[16] = t.lo[0]!; q[17] = t.hi[0]!; q[18] = hasQ ? t.lo[1]! : 0; q[19] = hasQ ? t.hi[1]! : 0;
+    this.i32Out.fill(0);
+    this.stream.set(stream.s);
+    this.lane.set(lane.s);
+    this.tallyBlockWasm(len);
+    stream.s.set(this.stream);
+    lane.s.set(this.lane);
+    const r = this.i32Out, m = this.f64Out;
+    const nCauses = CAUSES.length;
+    for (let k = 0; k < 2 * nCauses; k++) leaf.causes[k] = r[CAUSES_AT + k]!;
+    for (let st = 0; st < 2; st++) {
+      leaf.discarded[st] = r[DISCARDED_AT + st]!;
+      leaf.discardedWrong[st] = r[DISCARDED_WRONG_AT + st]!;
+    }
+    finishTwoByTwo(leaf, len, r[0]!, r[1]!, r[2]!);
+    leaf.clean[0] = momentsFromShiftedSums(r[3]!, m[4]!, m[0]!, m[2]!);
+    leaf.clean[1] = momentsFromShiftedSums(r[4]!, m[5]!, m[1]!, m[3]!);
+  }
+}

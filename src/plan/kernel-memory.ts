@@ -1,0 +1,36 @@
+/**
+ * The memory of the WebAssembly kernels (kernels.wat) and their instantiation: one module,
+ * compiled once per thread; one instance per owner (a point's record kernel, or an exact
+ * kernel), each with its own memory sized for its arrays.
+ */
+import { ZIGGURAT } from '../random/ziggurat.ts';
+import { WASM_BYTES } from './kernels-wasm.ts';
+
+/** Byte offsets of kernels.wat's memory layout (its header comment lists them). */
+export const LAYOUT = {
+  stream: 0, lane: 16, dotResults: 32,
+  layerBounds: 64, layerFactors: 1024, layerDensities: 2048,
+  f64Params: 3072, i32Params: 3328, f64Results: 3456, i32Results: 3520,
+  arrays: 4096,
+} as const;
+
+const PAGE = 65536;
+let compiled: WebAssembly.Module | null = null;
+
+export interface KernelInstance {
+  buffer: ArrayBuffer;
+  exports: Record<string, unknown>;
+}
+
+/** A fresh instance whose memory holds the ziggurat's tables and `arrayBytes` beyond the header. */
+export function instantiateKernels(arrayBytes: number): KernelInstance {
+  const memory = new WebAssembly.Memory({ initial: Math.max(1, Math.ceil((LAYOUT.arrays + arrayBytes) / PAGE)) });
+  const buffer = memory.buffer;
+  new Int32Array(buffer, LAYOUT.layerBounds, 128).set(ZIGGURAT.k);
+  new Float64Array(buffer, LAYOUT.layerFactors, 128).set(ZIGGURAT.w);
+  new Float64Array(buffer, LAYOUT.layerDensities, 128).set(ZIGGURAT.f);
+  compiled ??= new WebAssembly.Module(WASM_BYTES);
+  // Math.exp and Math.log themselves, so that the rejection branch's numbers are the TypeScript ones
+  const instance = new WebAssembly.Instance(compiled, { env: { memory, exp: Math.exp, log: Math.log } });
+  return { buffer, exports: instance.exports };
+}

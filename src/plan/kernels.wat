@@ -1,0 +1,427 @@
+;; The simulator's two hot loops as WebAssembly, and the ziggurat they share:
+;;   - the trace engine's per-sample loops (plan/record-kernel.ts): white noise onto a record,
+;;     and the record's dot products with a pipeline's kernels (random/stream.ts addNormalsFast,
+;;     dsp/integrate.ts dotRange and dotRangePair);
+;;   - the exact engine's one-loop kernel (plan/exact-kernel.ts; exact-fast.ts fastTallyBlock)
+;;     for the common point whose every jump ends the chain and whose signal has no analog
+;;     response.
+;; Each does the arithmetic of its TypeScript counterpart in the same order, with Math.exp and
+;; Math.log imported, so the numbers are the same to the bit (test/plan/kernels.test.ts,
+;; test/plan/exact-fused.test.ts); V8 compiles them without typed-array bounds checks and with
+;; the generator states in registers, which is where the time goes.
+;;
+;; Edit this file, then `npm run build:wasm` (writes kernels-wasm.ts); a test fails when the two
+;; differ.
+;;
+;; Memory (imported, laid out by kernel-memory.ts; offsets in bytes):
+;;   0     a stream's state, four i32 (xoshiro128**): the record's noise, or the history stream
+;;   16    the exact engine's normals lane, likewise
+;;   32    the dot products' results, two f64
+;;   64    the ziggurat's acceptance bounds, 128 i32
+;;   1024  the ziggurat's position-to-x factors, 128 f64
+;;   2048  the ziggurat's densities at the layers' edges, 128 f64
+;;   3072  the exact kernel's f64 parameters P0 … P23 (see exact-kernel.ts for the list)
+;;   3328  its i32 parameters Q0 … Q23
+;;   3456  its f64 results: s10 s11 s20 s21 shift0 shift1
+;;   3520  its i32 results: sumState sumOutcome sumBoth n0 n1, causes[2·8], discarded[2], discardedWrong[2]
+;;   4096… arrays (waveforms, kernels and record; or prefix sums of kernel × waveform)
+(module
+  (import "env" "memory" (memory 1))
+  (import "env" "exp" (func $exp (param f64) (result f64)))
+  (import "env" "log" (func $log (param f64) (result f64)))
+
+  ;; one xoshiro128** step on the state at byte `st`; returns the 32-bit output
+  (func $next (param $st i32) (result i32)
+    (local $s0 i32) (local $s1 i32) (local $s2 i32) (local $s3 i32) (local $n2 i32) (local $n3 i32)
+    (local.set $s0 (i32.load (local.get $st))) (local.set $s1 (i32.load offset=4 (local.get $st)))
+    (local.set $s2 (i32.load offset=8 (local.get $st))) (local.set $s3 (i32.load offset=12 (local.get $st)))
+    (local.set $n2 (i32.xor (local.get $s2) (local.get $s0)))
+    (local.set $n3 (i32.xor (local.get $s3) (local.get $s1)))
+    (i32.store offset=4 (local.get $st) (i32.xor (local.get $s1) (local.get $n2)))
+    (i32.store (local.get $st) (i32.xor (local.get $s0) (local.get $n3)))
+    (i32.store offset=8 (local.get $st) (i32.xor (local.get $n2) (i32.shl (local.get $s1) (i32.const 9))))
+    (i32.store offset=12 (local.get $st) (i32.rotl (local.get $n3) (i32.const 11)))
+    (i32.mul (i32.rotl (i32.mul (local.get $s1) (i32.const 5)) (i32.const 7)) (i32.const 9)))
+
+  ;; a uniform in (0, 1) from the next output, as RandomStream.nextDouble
+  (func $uniform (param $st i32) (result f64)
+    (f64.mul (f64.add (f64.convert_i32_u (call $next (local.get $st))) (f64.const 0.5)) (f64.const 0x1p-32)))
+
+  ;; the ziggurat's rejection branch for a draw that missed its layer's fast region, drawing
+  ;; further from the state at byte `st` (random/stream.ts normalSlowPath, step for step)
+  (func $normalSlow (param $st i32) (param $pos i32) (param $layer i32) (result f64)
+    (local $x f64) (local $y f64) (local $fl f64) (local $u i32)
+    (loop $again
+      (if (i32.eqz (local.get $layer))
+        (then
+          ;; the base strip's tail beyond R = 3.442619855899 (Marsaglia & Tsang 2000)
+          (loop $tail
+            (local.set $x (f64.div (f64.neg (call $log (call $uniform (local.get $st)))) (f64.const 3.442619855899)))
+            (local.set $y (f64.neg (call $log (call $uniform (local.get $st)))))
+            (br_if $tail (f64.lt (f64.add (local.get $y) (local.get $y)) (f64.mul (local.get $x) (local.get $x)))))
+          (return (select (f64.add (f64.const 3.442619855899) (local.get $x))
+                          (f64.sub (f64.const -3.442619855899) (local.get $x))
+                          (i32.gt_s (local.get $pos) (i32.const 0))))))
+      ;; a wedge: accept under the density
+      (local.set $x (f64.mul (f64.convert_i32_s (local.get $pos)) (f64.load offset=1024 (i32.shl (local.get $layer) (i32.const 3)))))
+      (local.set $fl (f64.load offset=2048 (i32.shl (local.get $layer) (i32.const 3))))
+      (if (f64.lt (f64.add (local.get $fl)
+                           (f64.mul (call $uniform (local.get $st))
+                                    (f64.sub (f64.load offset=2040 (i32.shl (local.get $layer) (i32.const 3))) (local.get $fl))))
+                  (call $exp (f64.mul (f64.mul (f64.const -0.5) (local.get $x)) (local.get $x))))
+        (then (return (local.get $x))))
+      ;; else a fresh draw
+      (local.set $u (call $next (local.get $st)))
+      (local.set $layer (i32.and (local.get $u) (i32.const 127)))
+      (local.set $pos (i32.shr_s (local.get $u) (i32.const 7)))
+      (if (i32.lt_s (select (local.get $pos) (i32.sub (i32.const 0) (local.get $pos)) (i32.ge_s (local.get $pos) (i32.const 0)))
+                    (i32.load offset=64 (i32.shl (local.get $layer) (i32.const 2))))
+        (then (return (f64.mul (f64.convert_i32_s (local.get $pos)) (f64.load offset=1024 (i32.shl (local.get $layer) (i32.const 3)))))))
+      (br $again))
+    (unreachable))
+
+  ;; out[i] = base[i] + sigma·n_i for i in [0, count), n_i the i-th standard normal of the
+  ;; stream; `out` and `base` are byte offsets of f64 arrays (they may be equal)
+  (func (export "addNormalsOnto") (param $out i32) (param $base i32) (param $count i32) (param $sigma f64)
+    (local $s0 i32) (local $s1 i32) (local $s2 i32) (local $s3 i32)
+    (local $u i32) (local $n2 i32) (local $n3 i32) (local $layer i32) (local $pos i32)
+    (local $at i32) (local $end i32) (local $z f64)
+    (local.set $s0 (i32.load (i32.const 0)))
+    (local.set $s1 (i32.load (i32.const 4)))
+    (local.set $s2 (i32.load (i32.const 8)))
+    (local.set $s3 (i32.load (i32.const 12)))
+    (local.set $end (i32.shl (local.get $count) (i32.const 3)))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_u (local.get $at) (local.get $end)))
+        ;; one xoshiro128** step
+        (local.set $u (i32.mul (i32.rotl (i32.mul (local.get $s1) (i32.const 5)) (i32.const 7)) (i32.const 9)))
+        (local.set $n2 (i32.xor (local.get $s2) (local.get $s0)))
+        (local.set $n3 (i32.xor (local.get $s3) (local.get $s1)))
+        (local.set $s2 (i32.xor (local.get $n2) (i32.shl (local.get $s1) (i32.const 9))))
+        (local.set $s1 (i32.xor (local.get $s1) (local.get $n2)))
+        (local.set $s0 (i32.xor (local.get $s0) (local.get $n3)))
+        (local.set $s3 (i32.rotl (local.get $n3) (i32.const 11)))
+        ;; the ziggurat: 7 low bits pick the layer, the upper 25 (signed) the position
+        (local.set $layer (i32.and (local.get $u) (i32.const 127)))
+        (local.set $pos (i32.shr_s (local.get $u) (i32.const 7)))
+        (if (i32.lt_s
+              (select (local.get $pos) (i32.sub (i32.const 0) (local.get $pos)) (i32.ge_s (local.get $pos) (i32.const 0)))
+              (i32.load offset=64 (i32.shl (local.get $layer) (i32.const 2))))
+          (then
+            (local.set $z (f64.mul (f64.convert_i32_s (local.get $pos))
+                                   (f64.load offset=1024 (i32.shl (local.get $layer) (i32.const 3))))))
+          (else
+            ;; rare (~1 %): the rejection branch, on the state in memory
+            (i32.store (i32.const 0) (local.get $s0))
+            (i32.store (i32.const 4) (local.get $s1))
+            (i32.store (i32.const 8) (local.get $s2))
+            (i32.store (i32.const 12) (local.get $s3))
+            (local.set $z (call $normalSlow (i32.const 0) (local.get $pos) (local.get $layer)))
+            (local.set $s0 (i32.load (i32.const 0)))
+            (local.set $s1 (i32.load (i32.const 4)))
+            (local.set $s2 (i32.load (i32.const 8)))
+            (local.set $s3 (i32.load (i32.const 12)))))
+        (f64.store (i32.add (local.get $out) (local.get $at))
+          (f64.add (f64.load (i32.add (local.get $base) (local.get $at)))
+                   (f64.mul (local.get $sigma) (local.get $z))))
+        (local.set $at (i32.add (local.get $at) (i32.const 8)))
+        (br $next)))
+    (i32.store (i32.const 0) (local.get $s0))
+    (i32.store (i32.const 4) (local.get $s1))
+    (i32.store (i32.const 8) (local.get $s2))
+    (i32.store (i32.const 12) (local.get $s3)))
+
+  ;; Σ_{k=lo}^{hi−1} a[k]·x[k] into the f64 at 32, with dotRange's even/odd accumulators
+  (func (export "dot") (param $a i32) (param $x i32) (param $lo i32) (param $hi i32)
+    (local $k i32) (local $o i32) (local $s0 f64) (local $s1 f64)
+    (local.set $k (local.get $lo))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (i32.add (local.get $k) (i32.const 1)) (local.get $hi)))
+        (local.set $o (i32.shl (local.get $k) (i32.const 3)))
+        (local.set $s0 (f64.add (local.get $s0)
+          (f64.mul (f64.load (i32.add (local.get $a) (local.get $o))) (f64.load (i32.add (local.get $x) (local.get $o))))))
+        (local.set $s1 (f64.add (local.get $s1)
+          (f64.mul (f64.load offset=8 (i32.add (local.get $a) (local.get $o))) (f64.load offset=8 (i32.add (local.get $x) (local.get $o))))))
+        (local.set $k (i32.add (local.get $k) (i32.const 2)))
+        (br $next)))
+    (if (i32.lt_s (local.get $k) (local.get $hi))
+      (then
+        (local.set $o (i32.shl (local.get $k) (i32.const 3)))
+        (local.set $s0 (f64.add (local.get $s0)
+          (f64.mul (f64.load (i32.add (local.get $a) (local.get $o))) (f64.load (i32.add (local.get $x) (local.get $o))))))))
+    (f64.store (i32.const 32) (f64.add (local.get $s0) (local.get $s1))))
+
+  ;; Σ a[k]·x[k] and Σ b[k]·x[k] over [lo, hi) into the f64s at 32 and 40, as dotRangePair
+  (func (export "dotPair") (param $a i32) (param $b i32) (param $x i32) (param $lo i32) (param $hi i32)
+    (local $k i32) (local $o i32) (local $a0 f64) (local $a1 f64) (local $b0 f64) (local $b1 f64) (local $x0 f64) (local $x1 f64)
+    (local.set $k (local.get $lo))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (i32.add (local.get $k) (i32.const 1)) (local.get $hi)))
+        (local.set $o (i32.shl (local.get $k) (i32.const 3)))
+        (local.set $x0 (f64.load (i32.add (local.get $x) (local.get $o))))
+        (local.set $x1 (f64.load offset=8 (i32.add (local.get $x) (local.get $o))))
+        (local.set $a0 (f64.add (local.get $a0) (f64.mul (f64.load (i32.add (local.get $a) (local.get $o))) (local.get $x0))))
+        (local.set $a1 (f64.add (local.get $a1) (f64.mul (f64.load offset=8 (i32.add (local.get $a) (local.get $o))) (local.get $x1))))
+        (local.set $b0 (f64.add (local.get $b0) (f64.mul (f64.load (i32.add (local.get $b) (local.get $o))) (local.get $x0))))
+        (local.set $b1 (f64.add (local.get $b1) (f64.mul (f64.load offset=8 (i32.add (local.get $b) (local.get $o))) (local.get $x1))))
+        (local.set $k (i32.add (local.get $k) (i32.const 2)))
+        (br $next)))
+    (if (i32.lt_s (local.get $k) (local.get $hi))
+      (then
+        (local.set $o (i32.shl (local.get $k) (i32.const 3)))
+        (local.set $x0 (f64.load (i32.add (local.get $x) (local.get $o))))
+        (local.set $a0 (f64.add (local.get $a0) (f64.mul (f64.load (i32.add (local.get $a) (local.get $o))) (local.get $x0))))
+        (local.set $b0 (f64.add (local.get $b0) (f64.mul (f64.load (i32.add (local.get $b) (local.get $o))) (local.get $x0))))))
+    (f64.store (i32.const 32) (f64.add (local.get $a0) (local.get $a1)))
+    (f64.store (i32.const 40) (f64.add (local.get $b0) (local.get $b1))))
+
+  ;; exact-fast.ts oneJumpValue: the path's value for one jump switching at sample `switchAt`
+  (func $oneJump (param $from i32) (param $to i32) (param $lo i32) (param $hi i32) (param $switchAt f64) (result f64)
+    (local $u i32) (local $k i32) (local $v f64)
+    (local.set $u (i32.trunc_f64_s (f64.min (f64.convert_i32_s (local.get $hi))
+                                            (f64.max (f64.convert_i32_s (local.get $lo)) (local.get $switchAt)))))
+    (local.set $k (local.get $lo))
+    (if (i32.gt_s (local.get $u) (local.get $k))
+      (then
+        (local.set $v (f64.add (local.get $v)
+          (f64.sub (f64.load (i32.add (local.get $from) (i32.shl (i32.sub (local.get $u) (local.get $lo)) (i32.const 3))))
+                   (f64.load (i32.add (local.get $from) (i32.shl (i32.sub (local.get $k) (local.get $lo)) (i32.const 3)))))))
+        (local.set $k (local.get $u))))
+    (f64.add (local.get $v)
+      (f64.sub (f64.load (i32.add (local.get $to) (i32.shl (i32.sub (local.get $hi) (local.get $lo)) (i32.const 3))))
+               (f64.load (i32.add (local.get $to) (i32.shl (i32.sub (local.get $k) (local.get $lo)) (i32.const 3)))))))
+
+  (func (export "tallyBlock") (param $len i32)
+    (local $a0 i32) (local $a1 i32) (local $a2 i32) (local $a3 i32)
+    (local $b0 i32) (local $b1 i32) (local $b2 i32) (local $b3 i32)
+    (local $r i32) (local $n2 i32) (local $n3 i32) (local $i i32)
+    (local $u f64) (local $intended i32) (local $prepared i32) (local $initial i32) (local $next i32)
+    (local $jc i32) (local $jumped i32) (local $time f64) (local $switchAt f64) (local $pathI f64) (local $pathQ f64)
+    (local $layer i32) (local $pos i32) (local $z0 f64) (local $z1 f64)
+    (local $valueI f64) (local $valueQ f64) (local $v f64) (local $outcome i32) (local $cause i32)
+    (local $clean i32) (local $w0 i32) (local $w1 i32) (local $d0 f64) (local $d1 f64) (local $e0 f64) (local $e1 f64)
+    (local $sumState i32) (local $sumOutcome i32) (local $sumBoth i32) (local $n0 i32) (local $n1 i32)
+    (local $shift0 f64) (local $shift1 f64) (local $s10 f64) (local $s11 f64) (local $s20 f64) (local $s21 f64)
+    (local $at i32)
+    ;; parameters used every shot, in locals
+    (local $firstCut f64) (local $cI0 f64) (local $cQ0 f64) (local $cQ1 f64)
+    (local $cos f64) (local $sin f64) (local $threshold f64) (local $band f64)
+    (local $anyPrep i32) (local $anyMap i32) (local $hasQ i32) (local $qTwoTerms i32) (local $nCols i32) (local $flip i32)
+    (local.set $firstCut (f64.load (i32.const 3072)))
+    (local.set $cI0 (f64.load (i32.const 3208)))
+    (local.set $cQ0 (f64.load (i32.const 3216)))
+    (local.set $cQ1 (f64.load (i32.const 3224)))
+    (local.set $cos (f64.load (i32.const 3232)))
+    (local.set $sin (f64.load (i32.const 3240)))
+    (local.set $threshold (f64.load (i32.const 3248)))
+    (local.set $band (f64.load (i32.const 3256)))
+    (local.set $anyPrep (i32.load (i32.const 3368)))
+    (local.set $anyMap (i32.load (i32.const 3372)))
+    (local.set $hasQ (i32.load (i32.const 3376)))
+    (local.set $qTwoTerms (i32.load (i32.const 3380)))
+    (local.set $nCols (i32.load (i32.const 3384)))
+    (local.set $flip (i32.load (i32.const 3388)))
+    (local.set $a0 (i32.load (i32.const 0))) (local.set $a1 (i32.load (i32.const 4)))
+    (local.set $a2 (i32.load (i32.const 8))) (local.set $a3 (i32.load (i32.const 12)))
+    (local.set $b0 (i32.load (i32.const 16))) (local.set $b1 (i32.load (i32.const 20)))
+    (local.set $b2 (i32.load (i32.const 24))) (local.set $b3 (i32.load (i32.const 28)))
+    (block $done
+      (loop $shot
+        (br_if $done (i32.ge_s (local.get $i) (local.get $len)))
+        ;; the intended state: a xoshiro128** step on the stream, u in (0, 1)
+        (local.set $r (i32.mul (i32.rotl (i32.mul (local.get $a1) (i32.const 5)) (i32.const 7)) (i32.const 9)))
+        (local.set $n2 (i32.xor (local.get $a2) (local.get $a0))) (local.set $n3 (i32.xor (local.get $a3) (local.get $a1)))
+        (local.set $a2 (i32.xor (local.get $n2) (i32.shl (local.get $a1) (i32.const 9))))
+        (local.set $a1 (i32.xor (local.get $a1) (local.get $n2))) (local.set $a0 (i32.xor (local.get $a0) (local.get $n3)))
+        (local.set $a3 (i32.rotl (local.get $n3) (i32.const 11)))
+        (local.set $u (f64.mul (f64.add (f64.convert_i32_u (local.get $r)) (f64.const 0.5)) (f64.const 0x1p-32)))
+        (local.set $intended (f64.gt (local.get $u) (local.get $firstCut)))
+        (local.set $prepared (local.get $intended))
+        (if (local.get $anyPrep)
+          (then
+            (local.set $r (i32.mul (i32.rotl (i32.mul (local.get $a1) (i32.const 5)) (i32.const 7)) (i32.const 9)))
+            (local.set $n2 (i32.xor (local.get $a2) (local.get $a0))) (local.set $n3 (i32.xor (local.get $a3) (local.get $a1)))
+            (local.set $a2 (i32.xor (local.get $n2) (i32.shl (local.get $a1) (i32.const 9))))
+            (local.set $a1 (i32.xor (local.get $a1) (local.get $n2))) (local.set $a0 (i32.xor (local.get $a0) (local.get $n3)))
+            (local.set $a3 (i32.rotl (local.get $n3) (i32.const 11)))
+            (local.set $u (f64.mul (f64.add (f64.convert_i32_u (local.get $r)) (f64.const 0.5)) (f64.const 0x1p-32)))
+            ;; P1+s prepProbability[s], Q0+s prepInto[s]
+            (if (f64.lt (local.get $u) (f64.load offset=3080 (i32.shl (local.get $intended) (i32.const 3))))
+              (then (local.set $prepared (i32.load offset=3328 (i32.shl (local.get $intended) (i32.const 2))))))))
+        (local.set $initial (local.get $prepared))
+        (if (local.get $anyMap)
+          (then
+            (local.set $r (i32.mul (i32.rotl (i32.mul (local.get $a1) (i32.const 5)) (i32.const 7)) (i32.const 9)))
+            (local.set $n2 (i32.xor (local.get $a2) (local.get $a0))) (local.set $n3 (i32.xor (local.get $a3) (local.get $a1)))
+            (local.set $a2 (i32.xor (local.get $n2) (i32.shl (local.get $a1) (i32.const 9))))
+            (local.set $a1 (i32.xor (local.get $a1) (local.get $n2))) (local.set $a0 (i32.xor (local.get $a0) (local.get $n3)))
+            (local.set $a3 (i32.rotl (local.get $n3) (i32.const 11)))
+            (local.set $u (f64.mul (f64.add (f64.convert_i32_u (local.get $r)) (f64.const 0.5)) (f64.const 0x1p-32)))
+            ;; P3+s mapProbability[s], Q2+s mapInto[s]
+            (if (f64.lt (local.get $u) (f64.load offset=3096 (i32.shl (local.get $prepared) (i32.const 3))))
+              (then (local.set $initial (i32.load offset=3336 (i32.shl (local.get $prepared) (i32.const 2))))))))
+        ;; the jump: its uniform, then (rarely) its time, cause and the path's values
+        (local.set $r (i32.mul (i32.rotl (i32.mul (local.get $a1) (i32.const 5)) (i32.const 7)) (i32.const 9)))
+        (local.set $n2 (i32.xor (local.get $a2) (local.get $a0))) (local.set $n3 (i32.xor (local.get $a3) (local.get $a1)))
+        (local.set $a2 (i32.xor (local.get $n2) (i32.shl (local.get $a1) (i32.const 9))))
+        (local.set $a1 (i32.xor (local.get $a1) (local.get $n2))) (local.set $a0 (i32.xor (local.get $a0) (local.get $n3)))
+        (local.set $a3 (i32.rotl (local.get $n3) (i32.const 11)))
+        (local.set $u (f64.mul (f64.add (f64.convert_i32_u (local.get $r)) (f64.const 0.5)) (f64.const 0x1p-32)))
+        (local.set $jc (i32.const 0))
+        (local.set $jumped (i32.const 0))
+        (local.set $pathI (f64.const 0))
+        (local.set $pathQ (f64.const 0))
+        ;; P5+s noJumpCut[s]
+        (if (f64.ge (local.get $u) (f64.load offset=3112 (i32.shl (local.get $initial) (i32.const 3))))
+          (then
+            ;; P7+s exitRate[s]
+            (local.set $time (f64.div (f64.neg (call $log (local.get $u)))
+                                      (f64.load offset=3128 (i32.shl (local.get $initial) (i32.const 3)))))
+            ;; P9 recordLength
+            (if (f64.lt (local.get $time) (f64.load (i32.const 3144)))
+              (then
+                (local.set $jumped (i32.const 1))
+                ;; the destination's uniform (its outcome is certain here): one step, output unused
+                (local.set $n2 (i32.xor (local.get $a2) (local.get $a0))) (local.set $n3 (i32.xor (local.get $a3) (local.get $a1)))
+                (local.set $a2 (i32.xor (local.get $n2) (i32.shl (local.get $a1) (i32.const 9))))
+                (local.set $a1 (i32.xor (local.get $a1) (local.get $n2))) (local.set $a0 (i32.xor (local.get $a0) (local.get $n3)))
+                (local.set $a3 (i32.rotl (local.get $n3) (i32.const 11)))
+                (local.set $next (i32.sub (i32.const 1) (local.get $initial)))
+                ;; P10 lastWindowSample, Q4 + 2·initial + next jumpCause
+                (if (f64.le (local.get $time) (f64.load (i32.const 3152)))
+                  (then (local.set $jc (i32.load offset=3344
+                    (i32.shl (i32.add (i32.shl (local.get $initial) (i32.const 1)) (local.get $next)) (i32.const 2))))))
+                ;; P11 lastSample
+                (if (i32.eqz (f64.le (local.get $time) (f64.load (i32.const 3160))))
+                  (then (local.set $jc (i32.const 0))))
+                ;; P12 sampleRate; Q16-19 lo/hi of I and Q; Q20-23 prefix offsets (I s0, I s1, Q s0, Q s1)
+                (local.set $switchAt (f64.ceil (f64.mul (local.get $time) (f64.load (i32.const 3168)))))
+                (local.set $pathI (call $oneJump
+                  (i32.load offset=3408 (i32.shl (local.get $initial) (i32.const 2)))
+                  (i32.load offset=3408 (i32.shl (local.get $next) (i32.const 2)))
+                  (i32.load (i32.const 3392)) (i32.load (i32.const 3396)) (local.get $switchAt)))
+                (if (local.get $hasQ)
+                  (then (local.set $pathQ (call $oneJump
+                    (i32.load offset=3416 (i32.shl (local.get $initial) (i32.const 2)))
+                    (i32.load offset=3416 (i32.shl (local.get $next) (i32.const 2)))
+                    (i32.load (i32.const 3400)) (i32.load (i32.const 3404)) (local.get $switchAt)))))))))
+        ;; the shot's normals from the lane (the ziggurat, as RandomStream.nextNormal)
+        (local.set $z0 (f64.const 0))
+        (local.set $z1 (f64.const 0))
+        (if (i32.gt_s (local.get $nCols) (i32.const 0))
+          (then
+            (local.set $r (i32.mul (i32.rotl (i32.mul (local.get $b1) (i32.const 5)) (i32.const 7)) (i32.const 9)))
+            (local.set $n2 (i32.xor (local.get $b2) (local.get $b0))) (local.set $n3 (i32.xor (local.get $b3) (local.get $b1)))
+            (local.set $b2 (i32.xor (local.get $n2) (i32.shl (local.get $b1) (i32.const 9))))
+            (local.set $b1 (i32.xor (local.get $b1) (local.get $n2))) (local.set $b0 (i32.xor (local.get $b0) (local.get $n3)))
+            (local.set $b3 (i32.rotl (local.get $n3) (i32.const 11)))
+            (local.set $layer (i32.and (local.get $r) (i32.const 127)))
+            (local.set $pos (i32.shr_s (local.get $r) (i32.const 7)))
+            (if (i32.lt_s (select (local.get $pos) (i32.sub (i32.const 0) (local.get $pos)) (i32.ge_s (local.get $pos) (i32.const 0)))
+                          (i32.load offset=64 (i32.shl (local.get $layer) (i32.const 2))))
+              (then (local.set $z0 (f64.mul (f64.convert_i32_s (local.get $pos))
+                                            (f64.load offset=1024 (i32.shl (local.get $layer) (i32.const 3))))))
+              (else
+                (i32.store (i32.const 16) (local.get $b0)) (i32.store (i32.const 20) (local.get $b1))
+                (i32.store (i32.const 24) (local.get $b2)) (i32.store (i32.const 28) (local.get $b3))
+                (local.set $z0 (call $normalSlow (i32.const 16) (local.get $pos) (local.get $layer)))
+                (local.set $b0 (i32.load (i32.const 16))) (local.set $b1 (i32.load (i32.const 20)))
+                (local.set $b2 (i32.load (i32.const 24))) (local.set $b3 (i32.load (i32.const 28)))))
+            (if (i32.gt_s (local.get $nCols) (i32.const 1))
+              (then
+                (local.set $r (i32.mul (i32.rotl (i32.mul (local.get $b1) (i32.const 5)) (i32.const 7)) (i32.const 9)))
+                (local.set $n2 (i32.xor (local.get $b2) (local.get $b0))) (local.set $n3 (i32.xor (local.get $b3) (local.get $b1)))
+                (local.set $b2 (i32.xor (local.get $n2) (i32.shl (local.get $b1) (i32.const 9))))
+                (local.set $b1 (i32.xor (local.get $b1) (local.get $n2))) (local.set $b0 (i32.xor (local.get $b0) (local.get $n3)))
+                (local.set $b3 (i32.rotl (local.get $n3) (i32.const 11)))
+                (local.set $layer (i32.and (local.get $r) (i32.const 127)))
+                (local.set $pos (i32.shr_s (local.get $r) (i32.const 7)))
+                (if (i32.lt_s (select (local.get $pos) (i32.sub (i32.const 0) (local.get $pos)) (i32.ge_s (local.get $pos) (i32.const 0)))
+                              (i32.load offset=64 (i32.shl (local.get $layer) (i32.const 2))))
+                  (then (local.set $z1 (f64.mul (f64.convert_i32_s (local.get $pos))
+                                                (f64.load offset=1024 (i32.shl (local.get $layer) (i32.const 3))))))
+                  (else
+                    (i32.store (i32.const 16) (local.get $b0)) (i32.store (i32.const 20) (local.get $b1))
+                    (i32.store (i32.const 24) (local.get $b2)) (i32.store (i32.const 28) (local.get $b3))
+                    (local.set $z1 (call $normalSlow (i32.const 16) (local.get $pos) (local.get $layer)))
+                    (local.set $b0 (i32.load (i32.const 16))) (local.set $b1 (i32.load (i32.const 20)))
+                    (local.set $b2 (i32.load (i32.const 24))) (local.set $b3 (i32.load (i32.const 28)))))))))
+        ;; the values: P13+s fullI[s], P15+s fullQ[s]
+        (local.set $valueI (f64.add (f64.load offset=3176 (i32.shl (local.get $initial) (i32.const 3)))
+                                    (f64.mul (local.get $cI0) (local.get $z0))))
+        (local.set $valueQ (f64.const 0))
+        (if (local.get $hasQ)
+          (then
+            (local.set $valueQ (f64.add (f64.load offset=3192 (i32.shl (local.get $initial) (i32.const 3)))
+                                        (f64.mul (local.get $cQ0) (local.get $z0))))
+            (if (local.get $qTwoTerms)
+              (then (local.set $valueQ (f64.add (local.get $valueQ) (f64.mul (local.get $cQ1) (local.get $z1))))))))
+        (if (local.get $jumped)
+          (then
+            (local.set $valueI (f64.add (local.get $valueI)
+              (f64.sub (local.get $pathI) (f64.load offset=3176 (i32.shl (local.get $initial) (i32.const 3))))))
+            (if (local.get $hasQ)
+              (then (local.set $valueQ (f64.add (local.get $valueQ)
+                (f64.sub (local.get $pathQ) (f64.load offset=3192 (i32.shl (local.get $initial) (i32.const 3))))))))))
+        ;; the projection and the decision
+        (local.set $v (f64.add (f64.mul (local.get $valueI) (local.get $cos)) (f64.mul (local.get $valueQ) (local.get $sin))))
+        (local.set $outcome (select (f64.lt (local.get $v) (local.get $threshold))
+                                    (f64.gt (local.get $v) (local.get $threshold))
+                                    (local.get $flip)))
+        (local.set $sumState (i32.add (local.get $sumState) (local.get $intended)))
+        (local.set $sumOutcome (i32.add (local.get $sumOutcome) (local.get $outcome)))
+        (local.set $sumBoth (i32.add (local.get $sumBoth) (i32.and (local.get $intended) (local.get $outcome))))
+        ;; the cause of a wrong shot (Q8+s outcomeOf[s]); causes at 3540 + 4·(8·intended + cause)
+        (local.set $cause (i32.const 0))
+        (if (i32.ne (local.get $outcome) (i32.load offset=3360 (i32.shl (local.get $intended) (i32.const 2))))
+          (then
+            (local.set $cause
+              (if (result i32) (i32.ne (local.get $prepared) (local.get $intended))
+                (then (i32.const 5))
+                (else (if (result i32) (i32.ne (local.get $initial) (local.get $prepared))
+                  (then (i32.const 6))
+                  (else (select (local.get $jc) (i32.const 1) (local.get $jc)))))))
+            (local.set $at (i32.shl (i32.add (i32.shl (local.get $intended) (i32.const 3)) (local.get $cause)) (i32.const 2)))
+            (i32.store offset=3540 (local.get $at) (i32.add (i32.load offset=3540 (local.get $at)) (i32.const 1)))))
+        ;; the ambiguous band: discarded[s] at 3604, discardedWrong[s] at 3612
+        (if (i32.and (f64.ge (local.get $band) (f64.const 0))
+                     (f64.lt (f64.abs (f64.sub (local.get $v) (local.get $threshold))) (local.get $band)))
+          (then
+            (local.set $at (i32.shl (local.get $intended) (i32.const 2)))
+            (i32.store offset=3604 (local.get $at) (i32.add (i32.load offset=3604 (local.get $at)) (i32.const 1)))
+            (if (local.get $cause)
+              (then (i32.store offset=3612 (local.get $at) (i32.add (i32.load offset=3612 (local.get $at)) (i32.const 1)))))))
+        ;; the shifted sums of the clean values per state (moments.ts momentsFromShiftedSums)
+        (local.set $clean (i32.and (i32.and (i32.eq (local.get $prepared) (local.get $intended))
+                                            (i32.eq (local.get $initial) (local.get $intended)))
+                                   (i32.eqz (local.get $jc))))
+        (local.set $w1 (i32.and (local.get $clean) (local.get $intended)))
+        (local.set $w0 (i32.and (local.get $clean) (i32.xor (local.get $intended) (i32.const 1))))
+        (if (i32.and (i32.eqz (local.get $n0)) (i32.ne (local.get $w0) (i32.const 0))) (then (local.set $shift0 (local.get $v))))
+        (if (i32.and (i32.eqz (local.get $n1)) (i32.ne (local.get $w1) (i32.const 0))) (then (local.set $shift1 (local.get $v))))
+        (local.set $d0 (f64.sub (local.get $v) (local.get $shift0)))
+        (local.set $d1 (f64.sub (local.get $v) (local.get $shift1)))
+        (local.set $e0 (f64.mul (f64.convert_i32_s (local.get $w0)) (local.get $d0)))
+        (local.set $e1 (f64.mul (f64.convert_i32_s (local.get $w1)) (local.get $d1)))
+        (local.set $s10 (f64.add (local.get $s10) (local.get $e0)))
+        (local.set $s20 (f64.add (local.get $s20) (f64.mul (local.get $e0) (local.get $d0))))
+        (local.set $n0 (i32.add (local.get $n0) (local.get $w0)))
+        (local.set $s11 (f64.add (local.get $s11) (local.get $e1)))
+        (local.set $s21 (f64.add (local.get $s21) (f64.mul (local.get $e1) (local.get $d1))))
+        (local.set $n1 (i32.add (local.get $n1) (local.get $w1)))
+        (local.set $i (i32.add (local.get $i) (i32.const 1)))
+        (br $shot)))
+    (i32.store (i32.const 0) (local.get $a0)) (i32.store (i32.const 4) (local.get $a1))
+    (i32.store (i32.const 8) (local.get $a2)) (i32.store (i32.const 12) (local.get $a3))
+    (i32.store (i32.const 16) (local.get $b0)) (i32.store (i32.const 20) (local.get $b1))
+    (i32.store (i32.const 24) (local.get $b2)) (i32.store (i32.const 28) (local.get $b3))
+    (f64.store (i32.const 3456) (local.get $s10)) (f64.store (i32.const 3464) (local.get $s11))
+    (f64.store (i32.const 3472) (local.get $s20)) (f64.store (i32.const 3480) (local.get $s21))
+    (f64.store (i32.const 3488) (local.get $shift0)) (f64.store (i32.const 3496) (local.get $shift1))
+    (i32.store (i32.const 3520) (local.get $sumState)) (i32.store (i32.const 3524) (local.get $sumOutcome))
+    (i32.store (i32.const 3528) (local.get $sumBoth)) (i32.store (i32.const 3532) (local.get $n0))
+    (i32.store (i32.const 3536) (local.get $n1)))
+)
