@@ -9,7 +9,7 @@ import { writeSignal } from '../signal/trace.ts';
 import { writeRespondedSignal } from '../signal/response.ts';
 import { digitize } from '../signal/digitizer.ts';
 import { makeNoiseRuntime, type NoiseRuntime } from './noise-runtime.ts';
-import { RecordKernel } from './record-kernel.ts';
+import { makeRecordLoops, type RecordLoops } from './record-kernel.ts';
 import type { CompiledPoint } from './compile.ts';
 import { historyTables, makePathStore, sampleHistories, type HistoryColumns, type HistoryTables, type PathStore } from './history.ts';
 import { makeShotCollector, type KeptBins, type KeptTraces } from './collect.ts';
@@ -37,7 +37,7 @@ export interface BatchScratch {
   /** The record of the shot being simulated (the kernel's, once the trace engine has run). */
   record: Float64Array;
   /** The per-sample loops on `kernelOf`'s waveforms and kernels (made on first use). */
-  kernel?: RecordKernel;
+  kernel?: RecordLoops;
   kernelOf?: CompiledPoint;
   path: PathBuffer;
   /** The jumps of one seeding block's shots (histories are drawn a block at a time). */
@@ -123,10 +123,10 @@ export function loadPath(store: PathStore, j: number, path: PathBuffer): void {
   path.jumps = b - a;
 }
 
-/** The scratch's record kernel for `point` (made again for another point); the record becomes its. */
-export function scratchKernel(point: CompiledPoint, scratch: BatchScratch): RecordKernel {
+/** The scratch's record loops for `point` (made again for another point); the record becomes theirs. */
+export function scratchKernel(point: CompiledPoint, scratch: BatchScratch): RecordLoops {
   if (scratch.kernelOf !== point || !scratch.kernel) {
-    scratch.kernel = new RecordKernel(point.grid.samples, point.waveforms, point.pipelines.map((p) => p.kernels));
+    scratch.kernel = makeRecordLoops(point.grid.samples, point.waveforms, point.pipelines.map((p) => p.kernels));
     scratch.kernelOf = point;
     scratch.record = scratch.kernel.record;
   }

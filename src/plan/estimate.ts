@@ -123,8 +123,9 @@ export function estimateRun(scenarios: readonly Scenario[], o: EstimateOptions =
     const n = makeGrid(s.timing).samples;
     const p = s.pipelines.length;
     // waveforms (one per state), kernels (I and Q per pipeline), record scratch, carrier and
-    // reference tables while compiling: kept by the run and by each executor
-    const perCompile = 8 * n * (s.states.length + 2 * p + 1 + 4);
+    // reference tables while compiling, and the record kernel's own copy of the waveforms,
+    // kernels and record (plan/record-kernel.ts): kept by the run and by each executor
+    const perCompile = 8 * n * (s.states.length + 2 * p + 1 + 4) + 8 * n * (s.states.length + 2 * p + 1);
     compiled += perCompile * (1 + workers);
     // every calibration shot is held until the threshold is set: batch columns + projected copies
     calibration += s.calibrationShots * (shotBytes(p) + p * 24);

@@ -15,14 +15,22 @@ import { factorEntry, type ExactTables } from './exact-batch.ts';
 import { finishTwoByTwo, singleJumpChain } from './exact-fast.ts';
 import type { FusedPipeline } from './exact-fused.ts';
 import type { HistoryTables } from './history.ts';
-import { instantiateKernels, LAYOUT } from './kernel-memory.ts';
+import { instantiateKernels, LAYOUT, MAX_KERNEL_BYTES } from './kernel-memory.ts';
 
 /** i32 results: sumState, sumOutcome, sumBoth, n0, n1, then causes[2·C], discarded[2], discardedWrong[2]. */
 const CAUSES_AT = 5, DISCARDED_AT = CAUSES_AT + 2 * CAUSES.length, DISCARDED_WRONG_AT = DISCARDED_AT + 2;
 
-/** Whether the WebAssembly kernel handles a point fastTallyBlock handles (exact-fast.ts fastKernelApplies). */
+/**
+ * Whether the WebAssembly kernel handles a point fastTallyBlock handles (exact-fast.ts
+ * fastKernelApplies): no analog response, every jump the last, and prefix sums that fit.
+ */
 export function exactKernelApplies(t: ExactTables, h: HistoryTables): boolean {
-  return t.response === null && singleJumpChain(h);
+  return t.response === null && singleJumpChain(h) && prefixBytes(t) <= MAX_KERNEL_BYTES;
+}
+
+/** Bytes of the prefix sums the kernel holds: prefix[d·2 + s] for I and Q (d < outputs), s = 0, 1. */
+function prefixBytes(t: ExactTables): number {
+  return t.prefix.slice(0, 2 * t.outputs).reduce((n, p) => n + 8 * p.length, 0);
 }
 
 export class ExactKernel {
@@ -40,7 +48,7 @@ export class ExactKernel {
     this.tables = t;
     // prefix[d·2 + s] for d = I (0) and Q (1), s = 0, 1; each holds hi − lo + 1 sums
     const sizes = t.prefix.slice(0, 2 * t.outputs).map((p) => p.length * 8);
-    const { buffer, exports } = instantiateKernels(sizes.reduce((a, b) => a + b, 0));
+    const { buffer, exports } = instantiateKernels(prefixBytes(t));
     this.tallyBlockWasm = exports.tallyBlock as (len: number) => void;
     this.stream = new Int32Array(buffer, LAYOUT.stream, 4);
     this.lane = new Int32Array(buffer, LAYOUT.lane, 4);

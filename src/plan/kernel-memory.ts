@@ -15,6 +15,11 @@ export const LAYOUT = {
 } as const;
 
 const PAGE = 65536;
+/**
+ * The most array bytes an instance takes. A WebAssembly memory holds at most 4 GiB; owners whose
+ * arrays need more than this run their TypeScript loops instead (the same numbers).
+ */
+export const MAX_KERNEL_BYTES = 2 ** 31;
 let compiled: WebAssembly.Module | null = null;
 
 export interface KernelInstance {

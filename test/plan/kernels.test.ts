@@ -10,7 +10,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { makeStream } from '../../src/random/streams.ts';
 import { dotRange, dotRangePair } from '../../src/dsp/integrate.ts';
-import { RecordKernel } from '../../src/plan/record-kernel.ts';
+import { makeRecordLoops, RecordKernel, TypeScriptRecordLoops } from '../../src/plan/record-kernel.ts';
 import { WASM_BYTES } from '../../src/plan/kernels-wasm.ts';
 import { compileWat } from '../../scripts/wasm-source.ts';
 
@@ -75,5 +75,29 @@ describe('record kernel (WebAssembly)', () => {
     kernel.values(1, out);
     expect(Object.is(out[0], dotRange(kq, kernel.record, lo, hi))).toBe(true);
     expect(out[1]).toBe(0);
+  });
+
+  it('past the size limit the TypeScript loops serve instead, with the same records and values', () => {
+    const n = 1501, waves = [wave(n, 10), wave(n, 11), wave(n, 12)];
+    const pipes = [{ inPhase: wave(n, 13), quadrature: wave(n, 14), lo: 3, hi: 1400 }, { inPhase: wave(n, 15), quadrature: null, lo: 0, hi: n }];
+    const wasm = makeRecordLoops(n, waves, pipes), ts = makeRecordLoops(n, waves, pipes, 0);
+    expect(wasm).toBeInstanceOf(RecordKernel);
+    expect(ts).toBeInstanceOf(TypeScriptRecordLoops);
+    const a = makeStream(9, 1, 'score', 2), b = makeStream(9, 1, 'score', 2);
+    const x = new Float64Array(2), y = new Float64Array(2);
+    for (let shot = 0; shot < 200; shot++) {
+      const w = shot % 3, lo = shot % 4, hi = n - (shot % 7);
+      wasm.noiseOntoWaveform(a, w, lo, hi, 1.5);
+      ts.noiseOntoWaveform(b, w, lo, hi, 1.5);
+      wasm.addNoise(a, 0, lo + 10, 0.25);
+      ts.addNoise(b, 0, lo + 10, 0.25);
+      sameBits(wasm.record.subarray(0, hi), ts.record.subarray(0, hi), `shot ${shot}`);
+      for (let p = 0; p < 2; p++) {
+        wasm.values(p, x);
+        ts.values(p, y);
+        expect([Object.is(x[0], y[0]), Object.is(x[1], y[1])], `shot ${shot}, pipeline ${p}`).toEqual([true, true]);
+      }
+    }
+    expect(Array.from(a.state())).toEqual(Array.from(b.state()));
   });
 });
