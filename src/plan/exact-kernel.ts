@@ -15,17 +15,18 @@ import { factorEntry, type ExactTables } from './exact-batch.ts';
 import { finishTwoByTwo, singleJumpChain } from './exact-fast.ts';
 import type { FusedPipeline } from './exact-fused.ts';
 import type { HistoryTables } from './history.ts';
-import { instantiateKernels, LAYOUT, MAX_KERNEL_BYTES } from './kernel-memory.ts';
+import { instantiateKernels, kernelsAvailable, LAYOUT, MAX_KERNEL_BYTES } from './kernel-memory.ts';
 
 /** i32 results: sumState, sumOutcome, sumBoth, n0, n1, then causes[2·C], discarded[2], discardedWrong[2]. */
 const CAUSES_AT = 5, DISCARDED_AT = CAUSES_AT + 2 * CAUSES.length, DISCARDED_WRONG_AT = DISCARDED_AT + 2;
 
 /**
  * Whether the WebAssembly kernel handles a point fastTallyBlock handles (exact-fast.ts
- * fastKernelApplies): no analog response, every jump the last, and prefix sums that fit.
+ * fastKernelApplies): no analog response, every jump the last, prefix sums that fit, and
+ * WebAssembly available.
  */
 export function exactKernelApplies(t: ExactTables, h: HistoryTables): boolean {
-  return t.response === null && singleJumpChain(h) && prefixBytes(t) <= MAX_KERNEL_BYTES;
+  return kernelsAvailable() && t.response === null && singleJumpChain(h) && prefixBytes(t) <= MAX_KERNEL_BYTES;
 }
 
 /** Bytes of the prefix sums the kernel holds: prefix[d·2 + s] for I and Q (d < outputs), s = 0, 1. */

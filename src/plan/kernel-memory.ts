@@ -20,6 +20,14 @@ const PAGE = 65536;
  * arrays need more than this run their TypeScript loops instead (the same numbers).
  */
 export const MAX_KERNEL_BYTES = 2 ** 31;
+
+/**
+ * Whether this thread can run WebAssembly (not, for example, under `node --jitless`); owners
+ * run their TypeScript loops when it cannot.
+ */
+export function kernelsAvailable(): boolean {
+  return typeof WebAssembly === 'object';
+}
 let compiled: WebAssembly.Module | null = null;
 
 export interface KernelInstance {

@@ -11,7 +11,7 @@
  */
 import { dotRange, dotRangePair } from '../dsp/integrate.ts';
 import type { RandomStream } from '../random/stream.ts';
-import { instantiateKernels, LAYOUT, MAX_KERNEL_BYTES } from './kernel-memory.ts';
+import { instantiateKernels, kernelsAvailable, LAYOUT, MAX_KERNEL_BYTES } from './kernel-memory.ts';
 
 interface Exports {
   addNormalsOnto(out: number, base: number, count: number, sigma: number): void;
@@ -42,12 +42,12 @@ function kernelBytes(samples: number, states: number, pipelines: number): number
 
 /**
  * The record loops of a point: WebAssembly, or TypeScript when the arrays would not fit in a
- * WebAssembly memory (`maxBytes`, MAX_KERNEL_BYTES by default).
+ * WebAssembly memory (`maxBytes`, MAX_KERNEL_BYTES by default) or WebAssembly is unavailable.
  */
 export function makeRecordLoops(
   samples: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[], maxBytes = MAX_KERNEL_BYTES,
 ): RecordLoops {
-  return kernelBytes(samples, waveforms.length, pipelines.length) <= maxBytes
+  return kernelsAvailable() && kernelBytes(samples, waveforms.length, pipelines.length) <= maxBytes
     ? new RecordKernel(samples, waveforms, pipelines)
     : new TypeScriptRecordLoops(samples, waveforms, pipelines);
 }
