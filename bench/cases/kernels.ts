@@ -63,11 +63,12 @@ export const cases: BenchCase[] = [
       const s: FusedPipeline = { cos: 1, sin: 0, threshold: 0.5, highIsOne: true, band: -1, lastSample: null };
       const outcomeOf = Uint8Array.of(0, 1);
       const kernel = new ExactKernel(scratch.exact);
+      kernel.setScoring(h, s, outcomeOf);
       const blocks = new BlockStreams(1, 0, 'score', 0);
       const stream = blocks.current(), lane = blocks.current();
       const columns = { intended: new Uint8Array(1024), prepared: new Uint8Array(1024), initial: new Uint8Array(1024), atWindowStart: new Uint8Array(1024), atWindowEnd: new Uint8Array(1024), firstJump: new Float64Array(1024), jumpCause: new Uint8Array(1024) };
       const [wasm, ts] = sideBySide(
-        () => { blocks.advanceInto(stream); blocks.laneInto(lane); kernel.tallyBlock(h, s, outcomeOf, stream, lane, 1024, emptyTally(2, 2)); return 1024; },
+        () => { blocks.advanceInto(stream); blocks.laneInto(lane); kernel.tallyBlock(stream, lane, 1024, emptyTally(2, 2)); return 1024; },
         () => { blocks.advanceInto(stream); blocks.laneInto(lane); fastTallyBlock(h, scratch.exact, s, outcomeOf, stream, lane, 1024, emptyTally(2, 2), columns, scratch.store); return 1024; },
         15, 256,
       );

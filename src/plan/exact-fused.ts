@@ -145,6 +145,7 @@ export function simulateTalliedBatch(
   if (fast && exactKernelApplies(t, history)) {
     if (f.kernel?.tables !== t) f.kernel = new ExactKernel(t);
     kernel = f.kernel;
+    kernel.setScoring(history, scoring.pipelines[0]!, outcomeOf);
   }
   const firstShot = batch * sc.batchSize;
   const nodes: TallyNode[][] = [];
@@ -160,7 +161,7 @@ export function simulateTalliedBatch(
     const len = Math.min(count, from + SEED_BLOCK) - from;
     if (fast) {
       const leaf = emptyTally(states, outcomes);
-      if (kernel) kernel.tallyBlock(history, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf);
+      if (kernel) kernel.tallyBlock(stream, lane, len, leaf);
       else fastTallyBlock(history, t, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf, columns, scratch.store);
       pushNode(nodes[0]!, { level: 0, index: firstBlock + from / SEED_BLOCK, tally: leaf });
       continue;

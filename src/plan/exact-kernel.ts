@@ -65,8 +65,11 @@ export class ExactKernel {
     }
   }
 
-  /** fastTallyBlock's work on one seeding block (same arguments, less its scratch), into `leaf`. */
-  tallyBlock(h: HistoryTables, s: FusedPipeline, outcomeOf: Uint8Array, stream: RandomStream, lane: RandomStream, len: number, leaf: Tally): void {
+  /**
+   * Writes the point's and pipeline's scalars into the instance's parameters (fastTallyBlock's
+   * arguments less the streams); the blocks that follow use them.
+   */
+  setScoring(h: HistoryTables, s: FusedPipeline, outcomeOf: Uint8Array): void {
     const t = this.tables, p = this.f64, q = this.i32;
     const hasQ = t.outputs === 2;
     p[0] = h.prepareCumulative[0]!;
@@ -89,6 +92,13 @@ export class ExactKernel {
     q[10] = +h.anyPrep; q[11] = +h.anyMap; q[12] = +hasQ; q[13] = +(p[19] !== 0);
     q[14] = t.columns.length; q[15] = s.highIsOne ? 0 : 1;
     q[16] = t.lo[0]!; q[17] = t.hi[0]!; q[18] = hasQ ? t.lo[1]! : 0; q[19] = hasQ ? t.hi[1]! : 0;
+  }
+
+  /**
+   * fastTallyBlock's work on one seeding block of `len` shots into `leaf` (a fresh tally), with
+   * the scalars of the last setScoring: histories from `stream`, normals from `lane`.
+   */
+  tallyBlock(stream: RandomStream, lane: RandomStream, len: number, leaf: Tally): void {
     this.i32Out.fill(0);
     this.stream.set(stream.s);
     this.lane.set(lane.s);
