@@ -23,20 +23,33 @@ export function emptyPairTallies(pipelines: number): PairTally[] {
   return out;
 }
 
+/**
+ * Over shots [0, count) of two pipelines' wrong flags (≠ 0: wrong), adds the shots both got
+ * wrong, only `wa` got wrong and only `wb` got wrong to into[at], into[at + 1], into[at + 2].
+ */
+export function addDisagreements(wa: ArrayLike<number>, wb: ArrayLike<number>, count: number, into: Float64Array, at: number): void {
+  let both = 0, onlyA = 0, onlyB = 0;
+  for (let i = 0; i < count; i++) {
+    const x = wa[i] !== 0, y = wb[i] !== 0;
+    if (x && y) both++;
+    else if (x) onlyA++;
+    else if (y) onlyB++;
+  }
+  into[at]! += both;
+  into[at + 1]! += onlyA;
+  into[at + 2]! += onlyB;
+}
+
+const pairCounts = new Float64Array(3);
+
 /** Adds `count` shots; wrong[p][i] ≠ 0 when pipeline p got shot i wrong. Returns `pairs`. */
 export function addPairs(pairs: PairTally[], wrong: readonly ArrayLike<number>[], count: number): PairTally[] {
   for (const pair of pairs) {
-    const wa = wrong[pair.a]!, wb = wrong[pair.b]!;
-    let both = 0, onlyA = 0, onlyB = 0;
-    for (let i = 0; i < count; i++) {
-      const x = wa[i] !== 0, y = wb[i] !== 0;
-      if (x && y) both++;
-      else if (x) onlyA++;
-      else if (y) onlyB++;
-    }
-    pair.counts.bothWrong += both;
-    pair.counts.onlyAWrong += onlyA;
-    pair.counts.onlyBWrong += onlyB;
+    pairCounts.fill(0);
+    addDisagreements(wrong[pair.a]!, wrong[pair.b]!, count, pairCounts, 0);
+    pair.counts.bothWrong += pairCounts[0]!;
+    pair.counts.onlyAWrong += pairCounts[1]!;
+    pair.counts.onlyBWrong += pairCounts[2]!;
     pair.counts.n += count;
   }
   return pairs;

@@ -12,6 +12,7 @@
 import { CAUSE_MAPPING, CAUSE_NOISE, CAUSE_NONE, CAUSE_PREPARATION, CAUSES } from '../analysis/causes.ts';
 import { emptyTally, type Tally } from '../analysis/tally.ts';
 import { pushNode, type TallyNode } from '../analysis/tally-tree.ts';
+import { addDisagreements } from '../analysis/compare.ts';
 import { momentsFromShiftedSums } from '../analysis/moments.ts';
 import { fastKernelApplies, fastTallyBlock, finishTwoByTwo } from './exact-fast.ts';
 import { ExactKernel, exactKernelApplies } from './exact-kernel.ts';
@@ -264,18 +265,6 @@ function tallyBlock(
 function addPairCounts(pairs: Float64Array, wrong: readonly Uint8Array[], len: number): void {
   let k = 0;
   for (let a = 0; a < wrong.length; a++) {
-    for (let b = a + 1; b < wrong.length; b++, k += 3) {
-      const wa = wrong[a]!, wb = wrong[b]!;
-      let both = 0, onlyA = 0, onlyB = 0;
-      for (let i = 0; i < len; i++) {
-        const x = wa[i] !== 0, y = wb[i] !== 0;
-        if (x && y) both++;
-        else if (x) onlyA++;
-        else if (y) onlyB++;
-      }
-      pairs[k]! += both;
-      pairs[k + 1]! += onlyA;
-      pairs[k + 2]! += onlyB;
-    }
+    for (let b = a + 1; b < wrong.length; b++, k += 3) addDisagreements(wrong[a]!, wrong[b]!, len, pairs, k);
   }
 }
