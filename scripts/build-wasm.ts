@@ -11,19 +11,17 @@ import { fileURLToPath } from 'node:url';
 import { compileWat, wasmModuleSource } from './wasm-source.ts';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-const sources = ['src/plan/kernels.wat'];
-for (const source of sources) {
-  let bytes: Uint8Array;
-  try {
-    // (the base name: wabt garbles some longer names in its messages)
-    bytes = await compileWat(basename(source), readFileSync(join(root, source), 'utf8'));
-  } catch (e) {
-    // wabt's message names the line and column; its stack is the minified compiler
-    console.error(String(e instanceof Error ? e.message : e).trim());
-    process.exit(1);
-  }
-  const target = join(root, source.replace(/\.wat$/, '-wasm.ts'));
-  writeFileSync(`${target}.tmp`, wasmModuleSource(source, bytes));
-  renameSync(`${target}.tmp`, target);
-  console.log(`${source}: ${bytes.length} bytes → ${target.slice(root.length + 1)}`);
+const source = 'src/plan/kernels.wat';
+let bytes: Uint8Array;
+try {
+  // (the base name: wabt garbles some longer names in its messages)
+  bytes = await compileWat(basename(source), readFileSync(join(root, source), 'utf8'));
+} catch (e) {
+  // wabt's message names the line and column; its stack is the minified compiler
+  console.error(String(e instanceof Error ? e.message : e).trim());
+  process.exit(1);
 }
+const target = join(root, source.replace(/\.wat$/, '-wasm.ts'));
+writeFileSync(`${target}.tmp`, wasmModuleSource(source, bytes));
+renameSync(`${target}.tmp`, target);
+console.log(`${source}: ${bytes.length} bytes → ${target.slice(root.length + 1)}`);

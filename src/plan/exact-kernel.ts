@@ -47,8 +47,6 @@ export class ExactKernel {
 
   constructor(t: ExactTables) {
     this.tables = t;
-    // prefix[d·2 + s] for d = I (0) and Q (1), s = 0, 1; each holds hi − lo + 1 sums
-    const sizes = t.prefix.slice(0, 2 * t.outputs).map((p) => p.length * 8);
     const { buffer, exports } = instantiateKernels(prefixBytes(t));
     this.tallyBlockWasm = exports.tallyBlock as (len: number) => void;
     this.stream = new Int32Array(buffer, LAYOUT.stream, 4);
@@ -58,10 +56,12 @@ export class ExactKernel {
     this.f64Out = new Float64Array(buffer, LAYOUT.f64Results, 6);
     this.i32Out = new Int32Array(buffer, LAYOUT.i32Results, DISCARDED_WRONG_AT + 2);
     let at: number = LAYOUT.arrays;
-    for (let j = 0; j < sizes.length; j++) {
-      new Float64Array(buffer, at, t.prefix[j]!.length).set(t.prefix[j]!);
+    // prefix[d·2 + s] for d = I (0) and Q (1), s = 0, 1, one after another (prefixBytes)
+    for (let j = 0; j < 2 * t.outputs; j++) {
+      const sums = t.prefix[j]!;
+      new Float64Array(buffer, at, sums.length).set(sums);
       this.i32[20 + j] = at;
-      at += sizes[j]!;
+      at += 8 * sums.length;
     }
   }
 
