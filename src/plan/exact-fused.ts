@@ -119,6 +119,9 @@ function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number,
   return f;
 }
 
+/** Shots in the kernel's four-lane loop: four whole seeding blocks. */
+const FOUR_BLOCKS = 4 * SEED_BLOCK;
+
 /**
  * Shots [batch·batchSize, batch·batchSize + count) through the exact engine, scored and tallied
  * per seeding block: the same tally-tree nodes and paired counts as simulateExactBatch → scoreBatch →
@@ -156,7 +159,22 @@ export function simulateTalliedBatch(
   const zeros = f.zeros;
   const blocks = new BlockStreams(sc.seed, pointIndex, purpose, firstShot / SEED_BLOCK);
   const stream = blocks.current(), lane = blocks.current();
-  for (let from = 0; from < count; from += SEED_BLOCK) {
+  // four whole blocks at a time through the kernel's four-lane loop (the same tallies), the rest one by one
+  let start = 0;
+  if (kernel) {
+    const four = kernel.fourStreams;
+    for (; start + FOUR_BLOCKS <= count; start += FOUR_BLOCKS) {
+      for (let k = 0; k < 4; k++) {
+        if (start + k > 0) blocks.advanceInto(four.streams[k]!);
+        else four.streams[k]!.s.set(stream.s);
+        blocks.laneInto(four.lanes[k]!);
+      }
+      const leaves = [0, 1, 2, 3].map(() => emptyTally(states, outcomes));
+      kernel.tallyFourBlocks(four.streams, four.lanes, SEED_BLOCK, leaves);
+      for (let k = 0; k < 4; k++) pushNode(nodes[0]!, { level: 0, index: firstBlock + start / SEED_BLOCK + k, tally: leaves[k]! });
+    }
+  }
+  for (let from = start; from < count; from += SEED_BLOCK) {
     if (from > 0) blocks.advanceInto(stream);
     blocks.laneInto(lane);
     const len = Math.min(count, from + SEED_BLOCK) - from;

@@ -10,7 +10,7 @@
 import { CAUSES } from '../analysis/causes.ts';
 import { momentsFromShiftedSums } from '../analysis/moments.ts';
 import type { Tally } from '../analysis/tally.ts';
-import type { RandomStream } from '../random/stream.ts';
+import { RandomStream } from '../random/stream.ts';
 import { factorEntry, type ExactTables } from './exact-batch.ts';
 import { finishTwoByTwo, singleJumpChain } from './exact-fast.ts';
 import type { FusedPipeline } from './exact-fused.ts';
@@ -34,9 +34,41 @@ function prefixBytes(t: ExactTables): number {
   return t.prefix.slice(0, 2 * t.outputs).reduce((n, p) => n + 8 * p.length, 0);
 }
 
+/** 2^-32: the scale of RandomStream.nextDouble's uniform (r + 0.5)·2^-32. */
+const INV_TWO_POW_32 = 1 / 4294967296;
+
+/**
+ * A decision on a uniform u = (r + 0.5)·2^-32 of a 32-bit output r, as tallyFour makes it on r
+ * itself: the decision holds exactly when (r ≥ cut, unsigned) XOR flip (flip 0 or −1).
+ */
+export interface UniformCut {
+  cut: number;
+  flip: number;
+}
+
+/**
+ * The integer cut of a decision `holds(u)` that is false then true as u grows (for example
+ * u > c, or not u < p): its first r, found by bisection over every r (u is exact for each, so
+ * the cut gives the same decision for all 2^32 outputs). `negate` asks for the opposite decision.
+ */
+export function uniformCut(holds: (u: number) => boolean, negate = false): UniformCut {
+  const at = (r: number): boolean => holds((r + 0.5) * INV_TWO_POW_32);
+  let lo = 0, hi = 2 ** 32; // the first r that holds lies in [lo, hi] (hi: none does)
+  while (lo < hi) {
+    const mid = Math.floor((lo + hi) / 2);
+    if (at(mid)) hi = mid;
+    else lo = mid + 1;
+  }
+  // no output holds: "r ≥ 0" (always) flipped
+  const base = lo === 2 ** 32 ? { cut: 0, flip: -1 } : { cut: lo | 0, flip: 0 };
+  return negate ? { cut: base.cut, flip: ~base.flip } : base;
+}
+
 export class ExactKernel {
   /** The tables whose prefix sums the instance holds. */
   readonly tables: ExactTables;
+  /** Streams for tallyFourBlocks' caller to position (one history stream and one normals lane per block). */
+  readonly fourStreams: { streams: RandomStream[]; lanes: RandomStream[] };
   private readonly tallyBlockWasm: (len: number) => void;
   private readonly stream: Int32Array;
   private readonly lane: Int32Array;
@@ -44,9 +76,17 @@ export class ExactKernel {
   private readonly i32: Int32Array;
   private readonly f64Out: Float64Array;
   private readonly i32Out: Int32Array;
+  /** tallyFour's states (word-major: word j of block k at 4j + k) and results. */
+  private readonly quadStates: Int32Array;
+  private readonly quadI32: Int32Array;
+  private readonly quadF64: Float64Array;
+  private readonly quadParams: Int32Array;
+  private readonly tallyFourWasm: (len: number) => void;
 
   constructor(t: ExactTables) {
     this.tables = t;
+    const placeholder = (): RandomStream => new RandomStream(Uint32Array.of(1, 0, 0, 0));
+    this.fourStreams = { streams: [0, 1, 2, 3].map(placeholder), lanes: [0, 1, 2, 3].map(placeholder) };
     const { buffer, exports } = instantiateKernels(prefixBytes(t));
     this.tallyBlockWasm = exports.tallyBlock as (len: number) => void;
     this.stream = new Int32Array(buffer, LAYOUT.stream, 4);
@@ -55,6 +95,11 @@ export class ExactKernel {
     this.i32 = new Int32Array(buffer, LAYOUT.i32Params, 24);
     this.f64Out = new Float64Array(buffer, LAYOUT.f64Results, 6);
     this.i32Out = new Int32Array(buffer, LAYOUT.i32Results, DISCARDED_WRONG_AT + 2);
+    this.tallyFourWasm = exports.tallyFour as (len: number) => void;
+    this.quadStates = new Int32Array(buffer, LAYOUT.quad, 32);
+    this.quadI32 = new Int32Array(buffer, LAYOUT.quad + 128, 4 * (DISCARDED_WRONG_AT + 2));
+    this.quadF64 = new Float64Array(buffer, LAYOUT.quad + 128 + 16 * (DISCARDED_WRONG_AT + 2), 4 * 6);
+    this.quadParams = new Int32Array(buffer, LAYOUT.quadParams, 4 * 20);
     let at: number = LAYOUT.arrays;
     // prefix[d·2 + s] for d = I (0) and Q (1), s = 0, 1, one after another (prefixBytes)
     for (let j = 0; j < 2 * t.outputs; j++) {
@@ -92,6 +137,22 @@ export class ExactKernel {
     q[10] = +h.anyPrep; q[11] = +h.anyMap; q[12] = +hasQ; q[13] = +(p[19] !== 0);
     q[14] = t.columns.length; q[15] = s.highIsOne ? 0 : 1;
     q[16] = t.lo[0]!; q[17] = t.hi[0]!; q[18] = hasQ ? t.lo[1]! : 0; q[19] = hasQ ? t.hi[1]! : 0;
+    // tallyFour's integer cuts for the same decisions (uniformCut), the expected outcomes and the
+    // destinations as masks; each in all four lanes
+    const c = this.quadParams;
+    const put = (at: number, x: number): void => { c.fill(x, 4 * at, 4 * at + 4); };
+    const putCuts = (at: number, cuts: readonly UniformCut[]): void => {
+      for (let st = 0; st < cuts.length; st++) { put(at + st, cuts[st]!.cut); put(at + cuts.length + st, cuts[st]!.flip); }
+    };
+    putCuts(0, [uniformCut((u) => u > p[0]!)]);
+    putCuts(2, [0, 1].map((st) => uniformCut((u) => !(u < h.prepProbability[st]!), true)));
+    putCuts(6, [0, 1].map((st) => uniformCut((u) => !(u < h.mapProbability[st]!), true)));
+    putCuts(10, [0, 1].map((st) => uniformCut((u) => u >= h.noJumpCut[st]!)));
+    for (let st = 0; st < 2; st++) {
+      put(14 + st, -outcomeOf[st]!);
+      put(16 + st, -h.prepInto[st]!);
+      put(18 + st, -h.mapInto[st]!);
+    }
   }
 
   /**
@@ -115,5 +176,41 @@ export class ExactKernel {
     finishTwoByTwo(leaf, len, r[0]!, r[1]!, r[2]!);
     leaf.clean[0] = momentsFromShiftedSums(r[3]!, m[4]!, m[0]!, m[2]!);
     leaf.clean[1] = momentsFromShiftedSums(r[4]!, m[5]!, m[1]!, m[3]!);
+  }
+
+  /**
+   * tallyBlock on four blocks of `len` shots each at once (their tallies are those of four
+   * tallyBlock calls, to the bit): block k's histories from `streams[k]`, its normals from
+   * `lanes[k]`, its tally into `leaves[k]` (fresh tallies).
+   */
+  tallyFourBlocks(streams: readonly RandomStream[], lanes: readonly RandomStream[], len: number, leaves: readonly Tally[]): void {
+    const st = this.quadStates, r = this.quadI32, m = this.quadF64;
+    for (let k = 0; k < 4; k++) {
+      for (let j = 0; j < 4; j++) {
+        st[4 * j + k] = streams[k]!.s[j]!;
+        st[16 + 4 * j + k] = lanes[k]!.s[j]!;
+      }
+    }
+    r.fill(0);
+    this.tallyFourWasm(len);
+    const nCauses = CAUSES.length;
+    for (let k = 0; k < 4; k++) {
+      for (let j = 0; j < 4; j++) {
+        streams[k]!.s[j] = st[4 * j + k]!;
+        lanes[k]!.s[j] = st[16 + 4 * j + k]!;
+      }
+      const leaf = leaves[k]!;
+      // result f of block k at 4f + k (kernels.wat: the i32 results' order of tallyBlock's)
+      const at = (f: number): number => r[4 * f + k]!;
+      for (let c = 0; c < 2 * nCauses; c++) leaf.causes[c] = at(CAUSES_AT + c);
+      for (let s = 0; s < 2; s++) {
+        leaf.discarded[s] = at(DISCARDED_AT + s);
+        leaf.discardedWrong[s] = at(DISCARDED_WRONG_AT + s);
+      }
+      finishTwoByTwo(leaf, len, at(0), at(1), at(2));
+      // f64 field f of block k at 4f + k: s10 s11 s20 s21 shift0 shift1
+      leaf.clean[0] = momentsFromShiftedSums(at(3), m[16 + k]!, m[k]!, m[8 + k]!);
+      leaf.clean[1] = momentsFromShiftedSums(at(4), m[20 + k]!, m[4 + k]!, m[12 + k]!);
+    }
   }
 }

@@ -11,7 +11,8 @@ export const LAYOUT = {
   stream: 0, lane: 16, dotResults: 32,
   layerBounds: 64, layerFactors: 1024, layerDensities: 2048,
   f64Params: 3072, i32Params: 3328, f64Results: 3456, i32Results: 3520,
-  arrays: 4096,
+  quad: 4096, quadParams: 5056,
+  arrays: 8192,
 } as const;
 
 const PAGE = 65536;

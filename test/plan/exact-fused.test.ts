@@ -82,6 +82,15 @@ describe('fused exact path', () => {
     ['two states (one-loop kernel): a pipeline window shorter than the timing window', shortWindow],
     ['two states (WebAssembly kernel): flips both ways, relaxation only, no response, band', () => oneJump()],
     ['two states (WebAssembly kernel): the same with a pipeline window ending early', () => oneJump({ start: 0.5e-6, length: 1e-6 })],
+    // batches of ≥ 4 whole seeding blocks: the kernel's four-lane loop (tallyFour), then single blocks
+    ['four-lane kernel: the benchmark workload, batches of 8 blocks and a short last one', async () => twoStateScenario({ t1: 200e-6, shots: 9000, batchSize: 8192 })],
+    ['four-lane kernel: baseband (no Q, one normal), many jumps', async () => twoStateScenario({ t1: 2e-6, carrier: 'none', recordLength: 2e-6, sampleRate: 20e6, shots: 8192, batchSize: 4096 })],
+    ['four-lane kernel: outcome 1 below the threshold, preparation error, many wrong shots', async () => twoStateScenario({ t1: 1e-6, levels: [1, 0], recordLength: 2e-6, sampleRate: 20e6, sigmaPerSample: 12, shots: 8192, batchSize: 4096, preparationError: 0.1 })],
+    ['four-lane kernel: flips both ways, band, pipeline window ending early', async () => {
+      const s = await oneJump({ start: 0.5e-6, length: 1e-6 });
+      return { ...s, shots: 12288, batchSize: 4096 };
+    }],
+    ['four-lane kernel: flips both ways, band', async () => ({ ...(await oneJump()), shots: 8192, batchSize: 8192 })],
     ['1/f noise on both sides of the sensor (per-shot timeline draws)', async () => {
       const s = twoStateScenario({ t1: 5e-6, recordLength: 2e-6, sampleRate: 20e6, shots: 4100, batchSize: 2048 });
       s.signal.flicker = [
