@@ -95,6 +95,8 @@ interface FusedScratch {
   sum2: Float64Array;
   /** The WebAssembly kernel of the scratch's current exact tables (made on first use). */
   kernel?: ExactKernel;
+  /** Tallies the four-lane loop reuses for blocks merged at once (two states, two outcomes). */
+  spareLeaves?: Tally[];
 }
 
 const fusedScratches = new WeakMap<ExactScratch, FusedScratch>();
@@ -169,9 +171,15 @@ export function simulateTalliedBatch(
         else four.streams[k]!.s.set(stream.s);
         blocks.laneInto(four.lanes[k]!);
       }
-      const leaves = [0, 1, 2, 3].map(() => emptyTally(states, outcomes));
+      // blocks 4m … 4m+3 merge into the first one's tally as they are pushed, so the other three
+      // can be the same scratch tallies every time (tallyFourBlocks writes every field)
+      const first = firstBlock + start / SEED_BLOCK;
+      const spare = (f.spareLeaves ??= [0, 1, 2].map(() => emptyTally(states, outcomes)));
+      const leaves = first % 4 === 0
+        ? [emptyTally(states, outcomes), spare[0]!, spare[1]!, spare[2]!]
+        : [0, 1, 2, 3].map(() => emptyTally(states, outcomes));
       kernel.tallyFourBlocks(four.streams, four.lanes, SEED_BLOCK, leaves);
-      for (let k = 0; k < 4; k++) pushNode(nodes[0]!, { level: 0, index: firstBlock + start / SEED_BLOCK + k, tally: leaves[k]! });
+      for (let k = 0; k < 4; k++) pushNode(nodes[0]!, { level: 0, index: first + k, tally: leaves[k]! });
     }
   }
   for (let from = start; from < count; from += SEED_BLOCK) {

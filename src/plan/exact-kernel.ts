@@ -82,6 +82,8 @@ export class ExactKernel {
   private readonly quadF64: Float64Array;
   private readonly quadParams: Int32Array;
   private readonly tallyFourWasm: (len: number) => void;
+  /** The numbers tallyFour's parameters were last made from (NaN: never). */
+  private readonly fourLaneKey = new Float64Array(13).fill(NaN);
 
   constructor(t: ExactTables) {
     this.tables = t;
@@ -137,17 +139,30 @@ export class ExactKernel {
     q[10] = +h.anyPrep; q[11] = +h.anyMap; q[12] = +hasQ; q[13] = +(p[19] !== 0);
     q[14] = t.columns.length; q[15] = s.highIsOne ? 0 : 1;
     q[16] = t.lo[0]!; q[17] = t.hi[0]!; q[18] = hasQ ? t.lo[1]! : 0; q[19] = hasQ ? t.hi[1]! : 0;
-    // tallyFour's integer cuts for the same decisions (uniformCut), the expected outcomes and the
-    // destinations as masks; each in all four lanes
+    this.setFourLaneParams(h, outcomeOf);
+  }
+
+  /**
+   * tallyFour's parameters: the integer cuts of the history's decisions (uniformCut), the
+   * expected outcomes and the destinations as masks, each in all four lanes. Made again only
+   * when the probabilities change (the bisections cost more than a batch's other set-up).
+   */
+  private setFourLaneParams(h: HistoryTables, outcomeOf: Uint8Array): void {
+    const key = this.fourLaneKey;
+    const now = [h.prepareCumulative[0]!, h.prepProbability[0]!, h.prepProbability[1]!, h.mapProbability[0]!, h.mapProbability[1]!,
+      h.noJumpCut[0]!, h.noJumpCut[1]!, outcomeOf[0]!, outcomeOf[1]!, h.prepInto[0]!, h.prepInto[1]!, h.mapInto[0]!, h.mapInto[1]!];
+    if (now.every((x, i) => Object.is(x, key[i]))) return;
+    key.set(now);
     const c = this.quadParams;
     const put = (at: number, x: number): void => { c.fill(x, 4 * at, 4 * at + 4); };
     const putCuts = (at: number, cuts: readonly UniformCut[]): void => {
       for (let st = 0; st < cuts.length; st++) { put(at + st, cuts[st]!.cut); put(at + cuts.length + st, cuts[st]!.flip); }
     };
-    putCuts(0, [uniformCut((u) => u > p[0]!)]);
-    putCuts(2, [0, 1].map((st) => uniformCut((u) => !(u < h.prepProbability[st]!), true)));
-    putCuts(6, [0, 1].map((st) => uniformCut((u) => !(u < h.mapProbability[st]!), true)));
-    putCuts(10, [0, 1].map((st) => uniformCut((u) => u >= h.noJumpCut[st]!)));
+    const [firstCut, prep0, prep1, map0, map1, jump0, jump1] = now as [number, number, number, number, number, number, number];
+    putCuts(0, [uniformCut((u) => u > firstCut)]);
+    putCuts(2, [prep0, prep1].map((p) => uniformCut((u) => !(u < p), true)));
+    putCuts(6, [map0, map1].map((p) => uniformCut((u) => !(u < p), true)));
+    putCuts(10, [jump0, jump1].map((cut) => uniformCut((u) => u >= cut)));
     for (let st = 0; st < 2; st++) {
       put(14 + st, -outcomeOf[st]!);
       put(16 + st, -h.prepInto[st]!);
@@ -200,17 +215,16 @@ export class ExactKernel {
         lanes[k]!.s[j] = st[16 + 4 * j + k]!;
       }
       const leaf = leaves[k]!;
-      // result f of block k at 4f + k (kernels.wat: the i32 results' order of tallyBlock's)
-      const at = (f: number): number => r[4 * f + k]!;
-      for (let c = 0; c < 2 * nCauses; c++) leaf.causes[c] = at(CAUSES_AT + c);
+      // result f of block k at 4f + k (kernels.wat: the i32 results in tallyBlock's order)
+      for (let c = 0; c < 2 * nCauses; c++) leaf.causes[c] = r[4 * (CAUSES_AT + c) + k]!;
       for (let s = 0; s < 2; s++) {
-        leaf.discarded[s] = at(DISCARDED_AT + s);
-        leaf.discardedWrong[s] = at(DISCARDED_WRONG_AT + s);
+        leaf.discarded[s] = r[4 * (DISCARDED_AT + s) + k]!;
+        leaf.discardedWrong[s] = r[4 * (DISCARDED_WRONG_AT + s) + k]!;
       }
-      finishTwoByTwo(leaf, len, at(0), at(1), at(2));
+      finishTwoByTwo(leaf, len, r[k]!, r[4 + k]!, r[8 + k]!);
       // f64 field f of block k at 4f + k: s10 s11 s20 s21 shift0 shift1
-      leaf.clean[0] = momentsFromShiftedSums(at(3), m[16 + k]!, m[k]!, m[8 + k]!);
-      leaf.clean[1] = momentsFromShiftedSums(at(4), m[20 + k]!, m[4 + k]!, m[12 + k]!);
+      leaf.clean[0] = momentsFromShiftedSums(r[12 + k]!, m[16 + k]!, m[k]!, m[8 + k]!);
+      leaf.clean[1] = momentsFromShiftedSums(r[16 + k]!, m[20 + k]!, m[4 + k]!, m[12 + k]!);
     }
   }
 }

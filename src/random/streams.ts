@@ -85,6 +85,13 @@ export function makeStream(seed: number, point: number, purpose: StreamPurpose, 
 }
 
 /**
+ * The start of the last BlockStreams made on this thread: batches of a point follow each other,
+ * so the next one's start is a short jump away (a few matrix products, not one per set bit of
+ * its stream index).
+ */
+const lastStart = { seed: NaN, point: -1, purpose: '' as StreamPurpose | '', block: 0, state: new Uint32Array(4) };
+
+/**
  * Streams of consecutive blocks, first → first+1 → …: each step is one jump of 2^64
  * (one matrix product) instead of a jump from the base.
  */
@@ -94,9 +101,20 @@ export class BlockStreams {
   private block: number;
 
   constructor(seed: number, point: number, purpose: StreamPurpose, firstBlock: number) {
-    this.start = Uint32Array.from(cachedBase(seed));
-    jumpStreams(this.start, streamIndex(point, purpose, firstBlock));
+    const from = lastStart.seed === seed && lastStart.point === point && lastStart.purpose === purpose
+      && lastStart.block <= firstBlock ? lastStart : null;
+    if (from) {
+      // from the last start made on this thread: a jump of the blocks between (jumps commute,
+      // so the state is the one from the base)
+      this.start = Uint32Array.from(from.state);
+      jumpStreams(this.start, firstBlock - from.block);
+    } else {
+      this.start = Uint32Array.from(cachedBase(seed));
+      jumpStreams(this.start, streamIndex(point, purpose, firstBlock));
+    }
     this.block = firstBlock;
+    Object.assign(lastStart, { seed, point, purpose, block: firstBlock });
+    lastStart.state.set(this.start);
   }
 
   /** Block index of the stream `current` returns. */

@@ -104,6 +104,19 @@ describe('block streams', () => {
     }
   });
 
+  it('BlockStreams made one after another (from the last start, a short jump) start where makeStream does', () => {
+    // forward, backward, another point, purpose and seed, and forward again across many blocks
+    const order: [number, number, 'score' | 'calibrate', number][] = [
+      [7, 3, 'score', 40], [7, 3, 'score', 44], [7, 3, 'score', 44], [7, 3, 'score', 41], [7, 3, 'score', 1000003],
+      [7, 4, 'score', 1000007], [7, 3, 'calibrate', 1000008], [8, 3, 'score', 1000009], [7, 3, 'score', 2 ** 24 - 1],
+    ];
+    for (const [seed, point, purpose, block] of order) {
+      const got = new BlockStreams(seed, point, purpose, block).current();
+      const want = makeStream(seed, point, purpose, block);
+      expect(Array.from(got.state()), `${seed}/${point}/${purpose}/${block}`).toEqual(Array.from(want.state()));
+    }
+  });
+
   it('different seeds give different base states (never all zero)', () => {
     const seen = new Set<string>();
     for (let seed = 0; seed < 200; seed++) {
