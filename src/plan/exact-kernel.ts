@@ -67,6 +67,8 @@ export function uniformCut(holds: (u: number) => boolean, negate = false): Unifo
 export class ExactKernel {
   /** The tables whose prefix sums the instance holds. */
   readonly tables: ExactTables;
+  /** The instance's memory (for benchmarks that run variants of the module on it). */
+  readonly memory: WebAssembly.Memory;
   /** Streams for tallyFourBlocks' caller to position (one history stream and one normals lane per block). */
   readonly fourStreams: { streams: RandomStream[]; lanes: RandomStream[] };
   private readonly tallyBlockWasm: (len: number) => void;
@@ -89,7 +91,8 @@ export class ExactKernel {
     this.tables = t;
     const placeholder = (): RandomStream => new RandomStream(Uint32Array.of(1, 0, 0, 0));
     this.fourStreams = { streams: [0, 1, 2, 3].map(placeholder), lanes: [0, 1, 2, 3].map(placeholder) };
-    const { buffer, exports } = instantiateKernels(prefixBytes(t));
+    const { memory, buffer, exports } = instantiateKernels(prefixBytes(t));
+    this.memory = memory;
     this.tallyBlockWasm = exports.tallyBlock as (len: number) => void;
     this.stream = new Int32Array(buffer, LAYOUT.stream, 4);
     this.lane = new Int32Array(buffer, LAYOUT.lane, 4);

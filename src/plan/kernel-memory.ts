@@ -11,8 +11,8 @@ export const LAYOUT = {
   stream: 0, lane: 16, dotResults: 32,
   layerBounds: 64, layerFactors: 1024, layerDensities: 2048,
   f64Params: 3072, i32Params: 3328, f64Results: 3456, i32Results: 3520,
-  quad: 4096, quadParams: 5056,
-  arrays: 8192,
+  quad: 4096, quadParams: 5056, quadBuffers: 8192,
+  arrays: 65536,
 } as const;
 
 const PAGE = 65536;
@@ -32,6 +32,7 @@ export function kernelsAvailable(): boolean {
 let compiled: WebAssembly.Module | null = null;
 
 export interface KernelInstance {
+  memory: WebAssembly.Memory;
   buffer: ArrayBuffer;
   exports: Record<string, unknown>;
 }
@@ -46,5 +47,5 @@ export function instantiateKernels(arrayBytes: number): KernelInstance {
   compiled ??= new WebAssembly.Module(WASM_BYTES);
   // Math.exp and Math.log themselves, so that the rejection branch's numbers are the TypeScript ones
   const instance = new WebAssembly.Instance(compiled, { env: { memory, exp: Math.exp, log: Math.log } });
-  return { buffer, exports: instance.exports };
+  return { memory, buffer, exports: instance.exports };
 }

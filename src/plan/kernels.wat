@@ -25,7 +25,7 @@
 ;;   3456  its f64 results: s10 s11 s20 s21 shift0 shift1
 ;;   3520  its i32 results: sumState sumOutcome sumBoth n0 n1, causes[2·8], discarded[2], discardedWrong[2]
 ;;   4096  the four-block exact kernel's states, results, scratch and parameters (tallyFour)
-;;   8192… arrays (waveforms, kernels and record; or prefix sums of kernel × waveform)
+;;   65536… arrays (waveforms, kernels and record; or prefix sums of kernel × waveform)
 (module
   (import "env" "memory" (memory 1))
   (import "env" "exp" (func $exp (param f64) (result f64)))
@@ -440,14 +440,17 @@
   ;;   4224  i32 results, 25 vectors (lane k at +4k): sumState sumOutcome sumBoth n0 n1,
   ;;         causes[8·s + c] (16), discarded[s] (2), discardedWrong[s] (2)
   ;;   4624  f64 results, 6 fields of four lanes: s10 s11 s20 s21 shift0 shift1
-  ;;   4816  scratch: jc, the jump draw, initial, intended, prepared (i32 ×4 each), values I
-  ;;         and Q (f64 ×4 each), normals (f64 ×4), positions and layers (i32 ×4), one state
+  ;;   4816  scratch: jc, the jump draw, initial, intended, prepared (i32 ×4 each), normals
+  ;;         (f64 ×4, at 4960), positions and layers (i32 ×4), one state
   ;;   5056  i32 parameters, each in all four lanes (16 bytes): cut and flip of the intended
   ;;         draw; cuts[s] and flips[s] of preparation, mapping and the jump; expected outcome
   ;;         mask[s]; preparation's and mapping's destination masks[s] (exact-kernel.ts setScoring)
+  ;;   8192  a chunk's buffers between passes: histories (144 bytes a shot), normals (32 bytes
+  ;;         each, at 26624), values and clean masks (64 bytes a shot, at 34816)
 
-  ;; the jump of lane k (tallyBlock's rare branch): writes its cause and corrects its values
-  (func $quadJump (param $k i32)
+  ;; the jump of lane k (tallyBlock's rare branch) into the shot's history record `rec`: its
+  ;; cause, that it jumped, and its values' corrections (path − no-jump value)
+  (func $quadJump (param $k i32) (param $rec i32)
     (local $u f64) (local $initial i32) (local $next i32) (local $time f64) (local $switchAt f64) (local $jc i32)
     (local $at i32) (local $s0 i32) (local $s1 i32) (local $s2 i32) (local $s3 i32) (local $n2 i32) (local $n3 i32)
     (local.set $at (i32.shl (local.get $k) (i32.const 2)))
@@ -470,24 +473,23 @@
         (i32.shl (i32.add (i32.shl (local.get $initial) (i32.const 1)) (local.get $next)) (i32.const 2))))))
     (if (i32.eqz (f64.le (local.get $time) (f64.load (i32.const 3160))))
       (then (local.set $jc (i32.const 0))))
-    (i32.store offset=4816 (local.get $at) (local.get $jc))
+    (i32.store offset=48 (i32.add (local.get $rec) (local.get $at)) (local.get $jc))
+    (i32.store offset=64 (i32.add (local.get $rec) (local.get $at)) (i32.const -1))
     (local.set $switchAt (f64.ceil (f64.mul (local.get $time) (f64.load (i32.const 3168)))))
-    (local.set $at (i32.shl (local.get $k) (i32.const 3)))
-    (f64.store offset=4896 (local.get $at)
-      (f64.add (f64.load offset=4896 (local.get $at))
+    (local.set $at (i32.add (local.get $rec) (i32.shl (local.get $k) (i32.const 3))))
+    (f64.store offset=80 (local.get $at)
         (f64.sub (call $oneJump
                    (i32.load offset=3408 (i32.shl (local.get $initial) (i32.const 2)))
                    (i32.load offset=3408 (i32.shl (local.get $next) (i32.const 2)))
                    (i32.load (i32.const 3392)) (i32.load (i32.const 3396)) (local.get $switchAt))
-                 (f64.load offset=3176 (i32.shl (local.get $initial) (i32.const 3))))))
+                 (f64.load offset=3176 (i32.shl (local.get $initial) (i32.const 3)))))
     (if (i32.load (i32.const 3376))
-      (then (f64.store offset=4928 (local.get $at)
-        (f64.add (f64.load offset=4928 (local.get $at))
+      (then (f64.store offset=112 (local.get $at)
           (f64.sub (call $oneJump
                      (i32.load offset=3416 (i32.shl (local.get $initial) (i32.const 2)))
                      (i32.load offset=3416 (i32.shl (local.get $next) (i32.const 2)))
                      (i32.load (i32.const 3400)) (i32.load (i32.const 3404)) (local.get $switchAt))
-                   (f64.load offset=3192 (i32.shl (local.get $initial) (i32.const 3)))))))))
+                   (f64.load offset=3192 (i32.shl (local.get $initial) (i32.const 3))))))))
 
   ;; the ziggurat's rejection branch for lane k of the normals (its state transposed to 5040)
   (func $quadSlowNormal (param $k i32)
@@ -537,7 +539,7 @@
     (local $s10lo v128) (local $s10hi v128) (local $s11lo v128) (local $s11hi v128)
     (local $s20lo v128) (local $s20hi v128) (local $s21lo v128) (local $s21hi v128)
     (local $five v128) (local $nine v128) (local $c127 v128) (local $one v128)
-    (local $i i32) (local $bits i32) (local $l i32) (local $shifting i32)
+    (local $i i32) (local $j i32) (local $count i32) (local $h i32) (local $at i32) (local $v i32) (local $bits i32) (local $l i32) (local $shifting i32)
     (local $anyPrep i32) (local $anyMap i32) (local $hasQ i32) (local $qTwoTerms i32) (local $nCols i32) (local $flip i32) (local $hasBand i32)
     (local.set $anyPrep (i32.load (i32.const 3368)))
     (local.set $anyMap (i32.load (i32.const 3372)))
@@ -553,60 +555,90 @@
     (local.set $shifting (i32.const 1))
     (local.set $five (v128.const i32x4 5 5 5 5)) (local.set $nine (v128.const i32x4 9 9 9 9))
     (local.set $c127 (v128.const i32x4 127 127 127 127)) (local.set $one (v128.const f64x2 1 1))
+    ;; chunks of 128 shots, each in four passes over buffers (at 8192): the histories, the
+    ;; normals, then the values, decisions and counts, then the clean values' sums. Each pass
+    ;; holds few vectors, so that its rare lanes' scalar calls cost little around them.
     (block $done
-      (loop $shot
+      (loop $chunk
         (br_if $done (i32.ge_s (local.get $i) (local.get $len)))
-        ;; the intended state: u > cut as the output against an integer cut
-        (local.set $r (i32x4.mul (v128.or (i32x4.shl (local.tee $m (i32x4.mul (local.get $a1) (local.get $five))) (i32.const 7)) (i32x4.shr_u (local.get $m) (i32.const 25))) (local.get $nine)))
-        (local.set $n2 (v128.xor (local.get $a2) (local.get $a0))) (local.set $n3 (v128.xor (local.get $a3) (local.get $a1)))
-        (local.set $a2 (v128.xor (local.get $n2) (i32x4.shl (local.get $a1) (i32.const 9))))
-        (local.set $a1 (v128.xor (local.get $a1) (local.get $n2))) (local.set $a0 (v128.xor (local.get $a0) (local.get $n3)))
-        (local.set $a3 (v128.or (i32x4.shl (local.get $n3) (i32.const 11)) (i32x4.shr_u (local.get $n3) (i32.const 21))))
-        (local.set $mInt (v128.xor (i32x4.ge_u (local.get $r) (v128.load (i32.const 5056))) (v128.load (i32.const 5072))))
-        (local.set $mPrep (local.get $mInt))
-        (if (local.get $anyPrep)
-          (then
+        (local.set $count (select (i32.sub (local.get $len) (local.get $i)) (i32.const 128)
+                                  (i32.lt_s (i32.sub (local.get $len) (local.get $i)) (i32.const 128))))
+        ;; histories: the shot's masks (intended, prepared, initial), jump cause and jumped
+        ;; lanes, and their values' corrections — 144 bytes a shot at 8192
+        (local.set $h (i32.const 8192))
+        (local.set $j (i32.const 0))
+        (block $end_history
+          (loop $history
+            (br_if $end_history (i32.ge_s (local.get $j) (local.get $count)))
+            ;; the intended state: u > cut as the output against an integer cut
             (local.set $r (i32x4.mul (v128.or (i32x4.shl (local.tee $m (i32x4.mul (local.get $a1) (local.get $five))) (i32.const 7)) (i32x4.shr_u (local.get $m) (i32.const 25))) (local.get $nine)))
             (local.set $n2 (v128.xor (local.get $a2) (local.get $a0))) (local.set $n3 (v128.xor (local.get $a3) (local.get $a1)))
             (local.set $a2 (v128.xor (local.get $n2) (i32x4.shl (local.get $a1) (i32.const 9))))
             (local.set $a1 (v128.xor (local.get $a1) (local.get $n2))) (local.set $a0 (v128.xor (local.get $a0) (local.get $n3)))
             (local.set $a3 (v128.or (i32x4.shl (local.get $n3) (i32.const 11)) (i32x4.shr_u (local.get $n3) (i32.const 21))))
-            ;; a hit moves the intended state to prepInto[intended] (Q0+s, as masks)
-            (local.set $hit (v128.xor
-              (i32x4.ge_u (local.get $r) (v128.bitselect (v128.load (i32.const 5104)) (v128.load (i32.const 5088)) (local.get $mInt)))
-              (v128.bitselect (v128.load (i32.const 5136)) (v128.load (i32.const 5120)) (local.get $mInt))))
-            (local.set $mPrep (v128.bitselect
-              (v128.bitselect (v128.load (i32.const 5328)) (v128.load (i32.const 5312)) (local.get $mInt))
-              (local.get $mInt) (local.get $hit)))))
-        (local.set $mInit (local.get $mPrep))
-        (if (local.get $anyMap)
-          (then
+            (local.set $mInt (v128.xor (i32x4.ge_u (local.get $r) (v128.load (i32.const 5056))) (v128.load (i32.const 5072))))
+            (local.set $mPrep (local.get $mInt))
+            (if (local.get $anyPrep)
+              (then
+                (local.set $r (i32x4.mul (v128.or (i32x4.shl (local.tee $m (i32x4.mul (local.get $a1) (local.get $five))) (i32.const 7)) (i32x4.shr_u (local.get $m) (i32.const 25))) (local.get $nine)))
+                (local.set $n2 (v128.xor (local.get $a2) (local.get $a0))) (local.set $n3 (v128.xor (local.get $a3) (local.get $a1)))
+                (local.set $a2 (v128.xor (local.get $n2) (i32x4.shl (local.get $a1) (i32.const 9))))
+                (local.set $a1 (v128.xor (local.get $a1) (local.get $n2))) (local.set $a0 (v128.xor (local.get $a0) (local.get $n3)))
+                (local.set $a3 (v128.or (i32x4.shl (local.get $n3) (i32.const 11)) (i32x4.shr_u (local.get $n3) (i32.const 21))))
+                ;; a hit moves the intended state to prepInto[intended] (Q0+s, as masks)
+                (local.set $hit (v128.xor
+                  (i32x4.ge_u (local.get $r) (v128.bitselect (v128.load (i32.const 5104)) (v128.load (i32.const 5088)) (local.get $mInt)))
+                  (v128.bitselect (v128.load (i32.const 5136)) (v128.load (i32.const 5120)) (local.get $mInt))))
+                (local.set $mPrep (v128.bitselect
+                  (v128.bitselect (v128.load (i32.const 5328)) (v128.load (i32.const 5312)) (local.get $mInt))
+                  (local.get $mInt) (local.get $hit)))))
+            (local.set $mInit (local.get $mPrep))
+            (if (local.get $anyMap)
+              (then
+                (local.set $r (i32x4.mul (v128.or (i32x4.shl (local.tee $m (i32x4.mul (local.get $a1) (local.get $five))) (i32.const 7)) (i32x4.shr_u (local.get $m) (i32.const 25))) (local.get $nine)))
+                (local.set $n2 (v128.xor (local.get $a2) (local.get $a0))) (local.set $n3 (v128.xor (local.get $a3) (local.get $a1)))
+                (local.set $a2 (v128.xor (local.get $n2) (i32x4.shl (local.get $a1) (i32.const 9))))
+                (local.set $a1 (v128.xor (local.get $a1) (local.get $n2))) (local.set $a0 (v128.xor (local.get $a0) (local.get $n3)))
+                (local.set $a3 (v128.or (i32x4.shl (local.get $n3) (i32.const 11)) (i32x4.shr_u (local.get $n3) (i32.const 21))))
+                ;; Q2+s mapInto[s]
+                (local.set $hit (v128.xor
+                  (i32x4.ge_u (local.get $r) (v128.bitselect (v128.load (i32.const 5168)) (v128.load (i32.const 5152)) (local.get $mPrep)))
+                  (v128.bitselect (v128.load (i32.const 5200)) (v128.load (i32.const 5184)) (local.get $mPrep))))
+                (local.set $mInit (v128.bitselect
+                  (v128.bitselect (v128.load (i32.const 5360)) (v128.load (i32.const 5344)) (local.get $mPrep))
+                  (local.get $mPrep) (local.get $hit)))))
+            ;; the jump's uniform: u ≥ noJumpCut[initial]; its time and the rest in $quadJump below
             (local.set $r (i32x4.mul (v128.or (i32x4.shl (local.tee $m (i32x4.mul (local.get $a1) (local.get $five))) (i32.const 7)) (i32x4.shr_u (local.get $m) (i32.const 25))) (local.get $nine)))
             (local.set $n2 (v128.xor (local.get $a2) (local.get $a0))) (local.set $n3 (v128.xor (local.get $a3) (local.get $a1)))
             (local.set $a2 (v128.xor (local.get $n2) (i32x4.shl (local.get $a1) (i32.const 9))))
             (local.set $a1 (v128.xor (local.get $a1) (local.get $n2))) (local.set $a0 (v128.xor (local.get $a0) (local.get $n3)))
             (local.set $a3 (v128.or (i32x4.shl (local.get $n3) (i32.const 11)) (i32x4.shr_u (local.get $n3) (i32.const 21))))
-            ;; Q2+s mapInto[s]
-            (local.set $hit (v128.xor
-              (i32x4.ge_u (local.get $r) (v128.bitselect (v128.load (i32.const 5168)) (v128.load (i32.const 5152)) (local.get $mPrep)))
-              (v128.bitselect (v128.load (i32.const 5200)) (v128.load (i32.const 5184)) (local.get $mPrep))))
-            (local.set $mInit (v128.bitselect
-              (v128.bitselect (v128.load (i32.const 5360)) (v128.load (i32.const 5344)) (local.get $mPrep))
-              (local.get $mPrep) (local.get $hit)))))
-        ;; the jump's uniform: u ≥ noJumpCut[initial]; its time and the rest in $quadJump below
-        (local.set $r (i32x4.mul (v128.or (i32x4.shl (local.tee $m (i32x4.mul (local.get $a1) (local.get $five))) (i32.const 7)) (i32x4.shr_u (local.get $m) (i32.const 25))) (local.get $nine)))
-        (local.set $n2 (v128.xor (local.get $a2) (local.get $a0))) (local.set $n3 (v128.xor (local.get $a3) (local.get $a1)))
-        (local.set $a2 (v128.xor (local.get $n2) (i32x4.shl (local.get $a1) (i32.const 9))))
-        (local.set $a1 (v128.xor (local.get $a1) (local.get $n2))) (local.set $a0 (v128.xor (local.get $a0) (local.get $n3)))
-        (local.set $a3 (v128.or (i32x4.shl (local.get $n3) (i32.const 11)) (i32x4.shr_u (local.get $n3) (i32.const 21))))
-        (local.set $jump (v128.xor
-          (i32x4.ge_u (local.get $r) (v128.bitselect (v128.load (i32.const 5232)) (v128.load (i32.const 5216)) (local.get $mInit)))
-          (v128.bitselect (v128.load (i32.const 5264)) (v128.load (i32.const 5248)) (local.get $mInit))))
-        ;; the shot's normals (the ziggurat on four lanes; tables gathered lane by lane)
-        (local.set $z0lo (v128.const i64x2 0 0)) (local.set $z0hi (v128.const i64x2 0 0))
-        (local.set $z1lo (v128.const i64x2 0 0)) (local.set $z1hi (v128.const i64x2 0 0))
-        (if (i32.gt_s (local.get $nCols) (i32.const 0))
-          (then
+            (local.set $jump (v128.xor
+              (i32x4.ge_u (local.get $r) (v128.bitselect (v128.load (i32.const 5232)) (v128.load (i32.const 5216)) (local.get $mInit)))
+              (v128.bitselect (v128.load (i32.const 5264)) (v128.load (i32.const 5248)) (local.get $mInit))))
+            (v128.store (local.get $h) (local.get $mInt)) (v128.store offset=16 (local.get $h) (local.get $mPrep))
+            (v128.store offset=32 (local.get $h) (local.get $mInit))
+            (v128.store offset=48 (local.get $h) (v128.const i32x4 0 0 0 0)) (v128.store offset=64 (local.get $h) (v128.const i32x4 0 0 0 0))
+            ;; the lanes that drew a jump: its time, cause and path, in scalar code on memory
+            (if (local.tee $bits (i32x4.bitmask (local.get $jump)))
+              (then
+                (v128.store (i32.const 4096) (local.get $a0)) (v128.store (i32.const 4112) (local.get $a1))
+                (v128.store (i32.const 4128) (local.get $a2)) (v128.store (i32.const 4144) (local.get $a3))
+                (v128.store (i32.const 4832) (local.get $r)) (v128.store (i32.const 4848) (local.get $mInit))
+                (loop $each
+                  (call $quadJump (i32.ctz (local.get $bits)) (local.get $h))
+                  (br_if $each (local.tee $bits (i32.and (local.get $bits) (i32.sub (local.get $bits) (i32.const 1))))))
+                (local.set $a0 (v128.load (i32.const 4096))) (local.set $a1 (v128.load (i32.const 4112)))
+                (local.set $a2 (v128.load (i32.const 4128))) (local.set $a3 (v128.load (i32.const 4144)))))
+            (local.set $h (i32.add (local.get $h) (i32.const 144)))
+            (local.set $j (i32.add (local.get $j) (i32.const 1)))
+            (br $history)))
+        ;; normals: nCols a shot, 32 bytes each at 26624
+        (local.set $h (i32.const 26624))
+        (local.set $j (i32.const 0))
+        (block $end_normal
+          (loop $normal
+            (br_if $end_normal (i32.ge_s (local.get $j) (i32.mul (local.get $count) (local.get $nCols))))
             (local.set $w (i32x4.mul (v128.or (i32x4.shl (local.tee $m (i32x4.mul (local.get $b1) (local.get $five))) (i32.const 7)) (i32x4.shr_u (local.get $m) (i32.const 25))) (local.get $nine)))
             (local.set $n2 (v128.xor (local.get $b2) (local.get $b0))) (local.set $n3 (v128.xor (local.get $b3) (local.get $b1)))
             (local.set $b2 (v128.xor (local.get $n2) (i32x4.shl (local.get $b1) (i32.const 9))))
@@ -642,152 +674,148 @@
                 (local.set $b0 (v128.load (i32.const 4160))) (local.set $b1 (v128.load (i32.const 4176)))
                 (local.set $b2 (v128.load (i32.const 4192))) (local.set $b3 (v128.load (i32.const 4208)))
                 (local.set $z0lo (v128.load (i32.const 4960))) (local.set $z0hi (v128.load (i32.const 4976)))))
-            (if (i32.gt_s (local.get $nCols) (i32.const 1))
+            (v128.store (local.get $h) (local.get $z0lo)) (v128.store offset=16 (local.get $h) (local.get $z0hi))
+            (local.set $h (i32.add (local.get $h) (i32.const 32)))
+            (local.set $j (i32.add (local.get $j) (i32.const 1)))
+            (br $normal)))
+        ;; values, decisions and counts; the values and clean masks 64 bytes a shot at 34816
+        (local.set $h (i32.const 8192))
+        (local.set $at (i32.const 26624))
+        (local.set $v (i32.const 34816))
+        (local.set $j (i32.const 0))
+        (block $end_value
+          (loop $value
+            (br_if $end_value (i32.ge_s (local.get $j) (local.get $count)))
+            (local.set $mInt (v128.load (local.get $h))) (local.set $mPrep (v128.load offset=16 (local.get $h)))
+            (local.set $mInit (v128.load offset=32 (local.get $h))) (local.set $jcv (v128.load offset=48 (local.get $h)))
+            (local.set $z0lo (v128.const i64x2 0 0)) (local.set $z0hi (v128.const i64x2 0 0))
+            (local.set $z1lo (v128.const i64x2 0 0)) (local.set $z1hi (v128.const i64x2 0 0))
+            (if (i32.gt_s (local.get $nCols) (i32.const 0))
               (then
-                (local.set $w (i32x4.mul (v128.or (i32x4.shl (local.tee $m (i32x4.mul (local.get $b1) (local.get $five))) (i32.const 7)) (i32x4.shr_u (local.get $m) (i32.const 25))) (local.get $nine)))
-                (local.set $n2 (v128.xor (local.get $b2) (local.get $b0))) (local.set $n3 (v128.xor (local.get $b3) (local.get $b1)))
-                (local.set $b2 (v128.xor (local.get $n2) (i32x4.shl (local.get $b1) (i32.const 9))))
-                (local.set $b1 (v128.xor (local.get $b1) (local.get $n2))) (local.set $b0 (v128.xor (local.get $b0) (local.get $n3)))
-                (local.set $b3 (v128.or (i32x4.shl (local.get $n3) (i32.const 11)) (i32x4.shr_u (local.get $n3) (i32.const 21))))
-                (local.set $layer (v128.and (local.get $w) (local.get $c127)))
-                (local.set $pos (i32x4.shr_s (local.get $w) (i32.const 7)))
-                (local.set $l (i32.shl (i32x4.extract_lane 0 (local.get $layer)) (i32.const 2)))
-                (local.set $ok (v128.load32_zero offset=64 (local.get $l)))
-                (local.set $z1lo (v128.load64_zero offset=1024 (i32.shl (local.get $l) (i32.const 1))))
-                (local.set $l (i32.shl (i32x4.extract_lane 1 (local.get $layer)) (i32.const 2)))
-                (local.set $ok (v128.load32_lane offset=64 1 (local.get $l) (local.get $ok)))
-                (local.set $z1lo (v128.load64_lane offset=1024 1 (i32.shl (local.get $l) (i32.const 1)) (local.get $z1lo)))
-                (local.set $l (i32.shl (i32x4.extract_lane 2 (local.get $layer)) (i32.const 2)))
-                (local.set $ok (v128.load32_lane offset=64 2 (local.get $l) (local.get $ok)))
-                (local.set $z1hi (v128.load64_zero offset=1024 (i32.shl (local.get $l) (i32.const 1))))
-                (local.set $l (i32.shl (i32x4.extract_lane 3 (local.get $layer)) (i32.const 2)))
-                (local.set $ok (v128.load32_lane offset=64 3 (local.get $l) (local.get $ok)))
-                (local.set $z1hi (v128.load64_lane offset=1024 1 (i32.shl (local.get $l) (i32.const 1)) (local.get $z1hi)))
-                (local.set $z1lo (f64x2.mul (f64x2.convert_low_i32x4_s (local.get $pos)) (local.get $z1lo)))
-                (local.set $z1hi (f64x2.mul (f64x2.convert_low_i32x4_s
-                  (i8x16.shuffle 8 9 10 11 12 13 14 15 8 9 10 11 12 13 14 15 (local.get $pos) (local.get $pos))) (local.get $z1hi)))
-                (local.set $bits (i32.xor (i32x4.bitmask (i32x4.lt_s (i32x4.abs (local.get $pos)) (local.get $ok))) (i32.const 15)))
-                (if (local.get $bits)
+                (local.set $z0lo (v128.load (local.get $at))) (local.set $z0hi (v128.load offset=16 (local.get $at)))
+                (if (i32.gt_s (local.get $nCols) (i32.const 1))
+                  (then (local.set $z1lo (v128.load offset=32 (local.get $at))) (local.set $z1hi (v128.load offset=48 (local.get $at)))))))
+            ;; the values: fullI[initial] + cI0·z0 (P13+s, P17), and Q likewise (P15+s, P18, P19)
+            (local.set $x (i64x2.extend_low_i32x4_s (local.get $mInit)))
+            (local.set $d (i64x2.extend_high_i32x4_s (local.get $mInit)))
+            (local.set $iLo (f64x2.add (v128.bitselect (v128.load64_splat (i32.const 3184)) (v128.load64_splat (i32.const 3176)) (local.get $x))
+                                       (f64x2.mul (v128.load64_splat (i32.const 3208)) (local.get $z0lo))))
+            (local.set $iHi (f64x2.add (v128.bitselect (v128.load64_splat (i32.const 3184)) (v128.load64_splat (i32.const 3176)) (local.get $d))
+                                       (f64x2.mul (v128.load64_splat (i32.const 3208)) (local.get $z0hi))))
+            (local.set $qLo (v128.const i64x2 0 0)) (local.set $qHi (v128.const i64x2 0 0))
+            (if (local.get $hasQ)
+              (then
+                (local.set $qLo (f64x2.add (v128.bitselect (v128.load64_splat (i32.const 3200)) (v128.load64_splat (i32.const 3192)) (local.get $x))
+                                           (f64x2.mul (v128.load64_splat (i32.const 3216)) (local.get $z0lo))))
+                (local.set $qHi (f64x2.add (v128.bitselect (v128.load64_splat (i32.const 3200)) (v128.load64_splat (i32.const 3192)) (local.get $d))
+                                           (f64x2.mul (v128.load64_splat (i32.const 3216)) (local.get $z0hi))))
+                (if (local.get $qTwoTerms)
                   (then
-                    (v128.store (i32.const 4160) (local.get $b0)) (v128.store (i32.const 4176) (local.get $b1))
-                    (v128.store (i32.const 4192) (local.get $b2)) (v128.store (i32.const 4208) (local.get $b3))
-                    (v128.store (i32.const 4960) (local.get $z1lo)) (v128.store (i32.const 4976) (local.get $z1hi))
-                    (v128.store (i32.const 4992) (local.get $pos)) (v128.store (i32.const 5008) (local.get $layer))
-                    (loop $each
-                      (call $quadSlowNormal (i32.ctz (local.get $bits)))
-                      (br_if $each (local.tee $bits (i32.and (local.get $bits) (i32.sub (local.get $bits) (i32.const 1))))))
-                    (local.set $b0 (v128.load (i32.const 4160))) (local.set $b1 (v128.load (i32.const 4176)))
-                    (local.set $b2 (v128.load (i32.const 4192))) (local.set $b3 (v128.load (i32.const 4208)))
-                    (local.set $z1lo (v128.load (i32.const 4960))) (local.set $z1hi (v128.load (i32.const 4976)))))))))
-        ;; the values: fullI[initial] + cI0·z0 (P13+s, P17), and Q likewise (P15+s, P18, P19)
-        (local.set $x (i64x2.extend_low_i32x4_s (local.get $mInit)))
-        (local.set $d (i64x2.extend_high_i32x4_s (local.get $mInit)))
-        (local.set $iLo (f64x2.add (v128.bitselect (v128.load64_splat (i32.const 3184)) (v128.load64_splat (i32.const 3176)) (local.get $x))
-                                   (f64x2.mul (v128.load64_splat (i32.const 3208)) (local.get $z0lo))))
-        (local.set $iHi (f64x2.add (v128.bitselect (v128.load64_splat (i32.const 3184)) (v128.load64_splat (i32.const 3176)) (local.get $d))
-                                   (f64x2.mul (v128.load64_splat (i32.const 3208)) (local.get $z0hi))))
-        (local.set $qLo (v128.const i64x2 0 0)) (local.set $qHi (v128.const i64x2 0 0))
-        (if (local.get $hasQ)
-          (then
-            (local.set $qLo (f64x2.add (v128.bitselect (v128.load64_splat (i32.const 3200)) (v128.load64_splat (i32.const 3192)) (local.get $x))
-                                       (f64x2.mul (v128.load64_splat (i32.const 3216)) (local.get $z0lo))))
-            (local.set $qHi (f64x2.add (v128.bitselect (v128.load64_splat (i32.const 3200)) (v128.load64_splat (i32.const 3192)) (local.get $d))
-                                       (f64x2.mul (v128.load64_splat (i32.const 3216)) (local.get $z0hi))))
-            (if (local.get $qTwoTerms)
+                    (local.set $qLo (f64x2.add (local.get $qLo) (f64x2.mul (v128.load64_splat (i32.const 3224)) (local.get $z1lo))))
+                    (local.set $qHi (f64x2.add (local.get $qHi) (f64x2.mul (v128.load64_splat (i32.const 3224)) (local.get $z1hi))))))))
+            ;; a jumped lane's values: + (path − no-jump value), from the history pass
+            (local.set $jump (v128.load offset=64 (local.get $h)))
+            (if (v128.any_true (local.get $jump))
               (then
-                (local.set $qLo (f64x2.add (local.get $qLo) (f64x2.mul (v128.load64_splat (i32.const 3224)) (local.get $z1lo))))
-                (local.set $qHi (f64x2.add (local.get $qHi) (f64x2.mul (v128.load64_splat (i32.const 3224)) (local.get $z1hi))))))))
-        ;; the lanes that drew a jump: its time, cause and path, in scalar code on memory
-        (local.set $jcv (v128.const i32x4 0 0 0 0))
-        (if (local.tee $bits (i32x4.bitmask (local.get $jump)))
-          (then
-            (v128.store (i32.const 4096) (local.get $a0)) (v128.store (i32.const 4112) (local.get $a1))
-            (v128.store (i32.const 4128) (local.get $a2)) (v128.store (i32.const 4144) (local.get $a3))
-            (v128.store (i32.const 4816) (v128.const i32x4 0 0 0 0))
-            (v128.store (i32.const 4832) (local.get $r)) (v128.store (i32.const 4848) (local.get $mInit))
-            (v128.store (i32.const 4896) (local.get $iLo)) (v128.store (i32.const 4912) (local.get $iHi))
-            (v128.store (i32.const 4928) (local.get $qLo)) (v128.store (i32.const 4944) (local.get $qHi))
-            (loop $each
-              (call $quadJump (i32.ctz (local.get $bits)))
-              (br_if $each (local.tee $bits (i32.and (local.get $bits) (i32.sub (local.get $bits) (i32.const 1))))))
-            (local.set $a0 (v128.load (i32.const 4096))) (local.set $a1 (v128.load (i32.const 4112)))
-            (local.set $a2 (v128.load (i32.const 4128))) (local.set $a3 (v128.load (i32.const 4144)))
-            (local.set $iLo (v128.load (i32.const 4896))) (local.set $iHi (v128.load (i32.const 4912)))
-            (local.set $qLo (v128.load (i32.const 4928))) (local.set $qHi (v128.load (i32.const 4944)))
-            (local.set $jcv (v128.load (i32.const 4816)))))
-        ;; the projection and the decision (P20 cos, P21 sin, P22 threshold)
-        (local.set $vLo (f64x2.add (f64x2.mul (local.get $iLo) (v128.load64_splat (i32.const 3232)))
-                                   (f64x2.mul (local.get $qLo) (v128.load64_splat (i32.const 3240)))))
-        (local.set $vHi (f64x2.add (f64x2.mul (local.get $iHi) (v128.load64_splat (i32.const 3232)))
-                                   (f64x2.mul (local.get $qHi) (v128.load64_splat (i32.const 3240)))))
-        (local.set $x (v128.load64_splat (i32.const 3248)))
-        (if (local.get $flip)
-          (then (local.set $out (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27
-                  (f64x2.lt (local.get $vLo) (local.get $x)) (f64x2.lt (local.get $vHi) (local.get $x)))))
-          (else (local.set $out (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27
-                  (f64x2.gt (local.get $vLo) (local.get $x)) (f64x2.gt (local.get $vHi) (local.get $x))))))
-        (local.set $sumState (i32x4.sub (local.get $sumState) (local.get $mInt)))
-        (local.set $sumOutcome (i32x4.sub (local.get $sumOutcome) (local.get $out)))
-        (local.set $sumBoth (i32x4.sub (local.get $sumBoth) (v128.and (local.get $mInt) (local.get $out))))
-        ;; wrong shots (rare): their causes in scalar code
-        (local.set $wrong (v128.xor (local.get $out)
-          (v128.bitselect (v128.load (i32.const 5296)) (v128.load (i32.const 5280)) (local.get $mInt))))
-        (if (local.tee $bits (i32x4.bitmask (local.get $wrong)))
-          (then
-            (v128.store (i32.const 4816) (local.get $jcv)) (v128.store (i32.const 4848) (local.get $mInit))
-            (v128.store (i32.const 4864) (local.get $mInt)) (v128.store (i32.const 4880) (local.get $mPrep))
-            (loop $each
-              (call $quadCause (i32.ctz (local.get $bits)))
-              (br_if $each (local.tee $bits (i32.and (local.get $bits) (i32.sub (local.get $bits) (i32.const 1))))))))
-        ;; the ambiguous band (P23): discarded[s] at result 21+s, discardedWrong[s] at 23+s
-        (if (local.get $hasBand)
-          (then
-            (local.set $d (v128.load64_splat (i32.const 3256)))
-            (local.set $ambiguous (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27
-              (f64x2.lt (f64x2.abs (f64x2.sub (local.get $vLo) (local.get $x))) (local.get $d))
-              (f64x2.lt (f64x2.abs (f64x2.sub (local.get $vHi) (local.get $x))) (local.get $d))))
-            (v128.store (i32.const 4560) (i32x4.sub (v128.load (i32.const 4560)) (v128.andnot (local.get $ambiguous) (local.get $mInt))))
-            (v128.store (i32.const 4576) (i32x4.sub (v128.load (i32.const 4576)) (v128.and (local.get $ambiguous) (local.get $mInt))))
-            (local.set $ambiguous (v128.and (local.get $ambiguous) (local.get $wrong)))
-            (v128.store (i32.const 4592) (i32x4.sub (v128.load (i32.const 4592)) (v128.andnot (local.get $ambiguous) (local.get $mInt))))
-            (v128.store (i32.const 4608) (i32x4.sub (v128.load (i32.const 4608)) (v128.and (local.get $ambiguous) (local.get $mInt))))))
-        ;; the shifted sums of the clean values per state
-        (local.set $clean (v128.and (v128.and (i32x4.eq (local.get $mPrep) (local.get $mInt)) (i32x4.eq (local.get $mInit) (local.get $mInt)))
-                                    (i32x4.eq (local.get $jcv) (v128.const i32x4 0 0 0 0))))
-        (local.set $w1 (v128.and (local.get $clean) (local.get $mInt)))
-        (local.set $w0 (v128.andnot (local.get $clean) (local.get $mInt)))
-        (if (local.get $shifting)
-          (then
-            ;; a lane's shift is its state's first clean value
-            (local.set $x (v128.and (i32x4.eq (local.get $n0) (v128.const i32x4 0 0 0 0)) (local.get $w0)))
-            (local.set $sh0lo (v128.bitselect (local.get $vLo) (local.get $sh0lo) (i64x2.extend_low_i32x4_s (local.get $x))))
-            (local.set $sh0hi (v128.bitselect (local.get $vHi) (local.get $sh0hi) (i64x2.extend_high_i32x4_s (local.get $x))))
-            (local.set $x (v128.and (i32x4.eq (local.get $n1) (v128.const i32x4 0 0 0 0)) (local.get $w1)))
-            (local.set $sh1lo (v128.bitselect (local.get $vLo) (local.get $sh1lo) (i64x2.extend_low_i32x4_s (local.get $x))))
-            (local.set $sh1hi (v128.bitselect (local.get $vHi) (local.get $sh1hi) (i64x2.extend_high_i32x4_s (local.get $x))))))
-        ;; e = w·d with w as 0.0 or 1.0 (the mask's bits and those of 1.0)
-                (local.set $d (f64x2.sub (local.get $vLo) (local.get $sh0lo)))
-        (local.set $e (f64x2.mul (v128.and (i64x2.extend_low_i32x4_s (local.get $w0)) (local.get $one)) (local.get $d)))
-        (local.set $s10lo (f64x2.add (local.get $s10lo) (local.get $e)))
-        (local.set $s20lo (f64x2.add (local.get $s20lo) (f64x2.mul (local.get $e) (local.get $d))))
-        (local.set $d (f64x2.sub (local.get $vHi) (local.get $sh0hi)))
-        (local.set $e (f64x2.mul (v128.and (i64x2.extend_high_i32x4_s (local.get $w0)) (local.get $one)) (local.get $d)))
-        (local.set $s10hi (f64x2.add (local.get $s10hi) (local.get $e)))
-        (local.set $s20hi (f64x2.add (local.get $s20hi) (f64x2.mul (local.get $e) (local.get $d))))
-        (local.set $d (f64x2.sub (local.get $vLo) (local.get $sh1lo)))
-        (local.set $e (f64x2.mul (v128.and (i64x2.extend_low_i32x4_s (local.get $w1)) (local.get $one)) (local.get $d)))
-        (local.set $s11lo (f64x2.add (local.get $s11lo) (local.get $e)))
-        (local.set $s21lo (f64x2.add (local.get $s21lo) (f64x2.mul (local.get $e) (local.get $d))))
-        (local.set $d (f64x2.sub (local.get $vHi) (local.get $sh1hi)))
-        (local.set $e (f64x2.mul (v128.and (i64x2.extend_high_i32x4_s (local.get $w1)) (local.get $one)) (local.get $d)))
-        (local.set $s11hi (f64x2.add (local.get $s11hi) (local.get $e)))
-        (local.set $s21hi (f64x2.add (local.get $s21hi) (f64x2.mul (local.get $e) (local.get $d))))
-        (local.set $n0 (i32x4.sub (local.get $n0) (local.get $w0)))
-        (local.set $n1 (i32x4.sub (local.get $n1) (local.get $w1)))
-        (if (local.get $shifting)
-          (then (local.set $shifting (i32.eqz (i32.and (i32x4.all_true (local.get $n0)) (i32x4.all_true (local.get $n1)))))))
-        (local.set $i (i32.add (local.get $i) (i32.const 1)))
-        (br $shot)))
+                (local.set $x (i64x2.extend_low_i32x4_s (local.get $jump)))
+                (local.set $d (i64x2.extend_high_i32x4_s (local.get $jump)))
+                (local.set $iLo (v128.bitselect (f64x2.add (local.get $iLo) (v128.load offset=80 (local.get $h))) (local.get $iLo) (local.get $x)))
+                (local.set $iHi (v128.bitselect (f64x2.add (local.get $iHi) (v128.load offset=96 (local.get $h))) (local.get $iHi) (local.get $d)))
+                (if (local.get $hasQ)
+                  (then
+                    (local.set $qLo (v128.bitselect (f64x2.add (local.get $qLo) (v128.load offset=112 (local.get $h))) (local.get $qLo) (local.get $x)))
+                    (local.set $qHi (v128.bitselect (f64x2.add (local.get $qHi) (v128.load offset=128 (local.get $h))) (local.get $qHi) (local.get $d)))))))
+            ;; the projection and the decision (P20 cos, P21 sin, P22 threshold)
+            (local.set $vLo (f64x2.add (f64x2.mul (local.get $iLo) (v128.load64_splat (i32.const 3232)))
+                                       (f64x2.mul (local.get $qLo) (v128.load64_splat (i32.const 3240)))))
+            (local.set $vHi (f64x2.add (f64x2.mul (local.get $iHi) (v128.load64_splat (i32.const 3232)))
+                                       (f64x2.mul (local.get $qHi) (v128.load64_splat (i32.const 3240)))))
+            (local.set $x (v128.load64_splat (i32.const 3248)))
+            (if (local.get $flip)
+              (then (local.set $out (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27
+                      (f64x2.lt (local.get $vLo) (local.get $x)) (f64x2.lt (local.get $vHi) (local.get $x)))))
+              (else (local.set $out (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27
+                      (f64x2.gt (local.get $vLo) (local.get $x)) (f64x2.gt (local.get $vHi) (local.get $x))))))
+            (local.set $sumState (i32x4.sub (local.get $sumState) (local.get $mInt)))
+            (local.set $sumOutcome (i32x4.sub (local.get $sumOutcome) (local.get $out)))
+            (local.set $sumBoth (i32x4.sub (local.get $sumBoth) (v128.and (local.get $mInt) (local.get $out))))
+            ;; wrong shots (rare): their causes in scalar code
+            (local.set $wrong (v128.xor (local.get $out)
+              (v128.bitselect (v128.load (i32.const 5296)) (v128.load (i32.const 5280)) (local.get $mInt))))
+            (if (local.tee $bits (i32x4.bitmask (local.get $wrong)))
+              (then
+                (v128.store (i32.const 4816) (local.get $jcv)) (v128.store (i32.const 4848) (local.get $mInit))
+                (v128.store (i32.const 4864) (local.get $mInt)) (v128.store (i32.const 4880) (local.get $mPrep))
+                (loop $each
+                  (call $quadCause (i32.ctz (local.get $bits)))
+                  (br_if $each (local.tee $bits (i32.and (local.get $bits) (i32.sub (local.get $bits) (i32.const 1))))))))
+            ;; the ambiguous band (P23): discarded[s] at result 21+s, discardedWrong[s] at 23+s
+            (if (local.get $hasBand)
+              (then
+                (local.set $d (v128.load64_splat (i32.const 3256)))
+                (local.set $ambiguous (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27
+                  (f64x2.lt (f64x2.abs (f64x2.sub (local.get $vLo) (local.get $x))) (local.get $d))
+                  (f64x2.lt (f64x2.abs (f64x2.sub (local.get $vHi) (local.get $x))) (local.get $d))))
+                (v128.store (i32.const 4560) (i32x4.sub (v128.load (i32.const 4560)) (v128.andnot (local.get $ambiguous) (local.get $mInt))))
+                (v128.store (i32.const 4576) (i32x4.sub (v128.load (i32.const 4576)) (v128.and (local.get $ambiguous) (local.get $mInt))))
+                (local.set $ambiguous (v128.and (local.get $ambiguous) (local.get $wrong)))
+                (v128.store (i32.const 4592) (i32x4.sub (v128.load (i32.const 4592)) (v128.andnot (local.get $ambiguous) (local.get $mInt))))
+                (v128.store (i32.const 4608) (i32x4.sub (v128.load (i32.const 4608)) (v128.and (local.get $ambiguous) (local.get $mInt))))))
+            ;; the clean shots per state, kept with the values for the sums
+            (local.set $clean (v128.and (v128.and (i32x4.eq (local.get $mPrep) (local.get $mInt)) (i32x4.eq (local.get $mInit) (local.get $mInt)))
+                                        (i32x4.eq (local.get $jcv) (v128.const i32x4 0 0 0 0))))
+            (local.set $w1 (v128.and (local.get $clean) (local.get $mInt)))
+            (local.set $w0 (v128.andnot (local.get $clean) (local.get $mInt)))
+            (v128.store (local.get $v) (local.get $vLo)) (v128.store offset=16 (local.get $v) (local.get $vHi))
+            (v128.store offset=32 (local.get $v) (local.get $w0)) (v128.store offset=48 (local.get $v) (local.get $w1))
+            (local.set $h (i32.add (local.get $h) (i32.const 144)))
+            (local.set $at (i32.add (local.get $at) (i32.shl (local.get $nCols) (i32.const 5))))
+            (local.set $v (i32.add (local.get $v) (i32.const 64)))
+            (local.set $j (i32.add (local.get $j) (i32.const 1)))
+            (br $value)))
+        ;; the shifted sums of the clean values per state, in shot order
+        (local.set $v (i32.const 34816))
+        (local.set $j (i32.const 0))
+        (block $end_sum
+          (loop $sum
+            (br_if $end_sum (i32.ge_s (local.get $j) (local.get $count)))
+            (local.set $vLo (v128.load (local.get $v))) (local.set $vHi (v128.load offset=16 (local.get $v)))
+            (local.set $w0 (v128.load offset=32 (local.get $v))) (local.set $w1 (v128.load offset=48 (local.get $v)))
+            (if (local.get $shifting)
+              (then
+                ;; a lane's shift is its state's first clean value
+                (local.set $x (v128.and (i32x4.eq (local.get $n0) (v128.const i32x4 0 0 0 0)) (local.get $w0)))
+                (local.set $sh0lo (v128.bitselect (local.get $vLo) (local.get $sh0lo) (i64x2.extend_low_i32x4_s (local.get $x))))
+                (local.set $sh0hi (v128.bitselect (local.get $vHi) (local.get $sh0hi) (i64x2.extend_high_i32x4_s (local.get $x))))
+                (local.set $x (v128.and (i32x4.eq (local.get $n1) (v128.const i32x4 0 0 0 0)) (local.get $w1)))
+                (local.set $sh1lo (v128.bitselect (local.get $vLo) (local.get $sh1lo) (i64x2.extend_low_i32x4_s (local.get $x))))
+                (local.set $sh1hi (v128.bitselect (local.get $vHi) (local.get $sh1hi) (i64x2.extend_high_i32x4_s (local.get $x))))))
+            ;; e = w·d with w as 0.0 or 1.0 (the mask's bits and those of 1.0)
+                    (local.set $d (f64x2.sub (local.get $vLo) (local.get $sh0lo)))
+            (local.set $e (f64x2.mul (v128.and (i64x2.extend_low_i32x4_s (local.get $w0)) (local.get $one)) (local.get $d)))
+            (local.set $s10lo (f64x2.add (local.get $s10lo) (local.get $e)))
+            (local.set $s20lo (f64x2.add (local.get $s20lo) (f64x2.mul (local.get $e) (local.get $d))))
+            (local.set $d (f64x2.sub (local.get $vHi) (local.get $sh0hi)))
+            (local.set $e (f64x2.mul (v128.and (i64x2.extend_high_i32x4_s (local.get $w0)) (local.get $one)) (local.get $d)))
+            (local.set $s10hi (f64x2.add (local.get $s10hi) (local.get $e)))
+            (local.set $s20hi (f64x2.add (local.get $s20hi) (f64x2.mul (local.get $e) (local.get $d))))
+            (local.set $d (f64x2.sub (local.get $vLo) (local.get $sh1lo)))
+            (local.set $e (f64x2.mul (v128.and (i64x2.extend_low_i32x4_s (local.get $w1)) (local.get $one)) (local.get $d)))
+            (local.set $s11lo (f64x2.add (local.get $s11lo) (local.get $e)))
+            (local.set $s21lo (f64x2.add (local.get $s21lo) (f64x2.mul (local.get $e) (local.get $d))))
+            (local.set $d (f64x2.sub (local.get $vHi) (local.get $sh1hi)))
+            (local.set $e (f64x2.mul (v128.and (i64x2.extend_high_i32x4_s (local.get $w1)) (local.get $one)) (local.get $d)))
+            (local.set $s11hi (f64x2.add (local.get $s11hi) (local.get $e)))
+            (local.set $s21hi (f64x2.add (local.get $s21hi) (f64x2.mul (local.get $e) (local.get $d))))
+            (local.set $n0 (i32x4.sub (local.get $n0) (local.get $w0)))
+            (local.set $n1 (i32x4.sub (local.get $n1) (local.get $w1)))
+            (if (local.get $shifting)
+              (then (local.set $shifting (i32.eqz (i32.and (i32x4.all_true (local.get $n0)) (i32x4.all_true (local.get $n1)))))))
+            (local.set $v (i32.add (local.get $v) (i32.const 64)))
+            (local.set $j (i32.add (local.get $j) (i32.const 1)))
+            (br $sum)))
+        (local.set $i (i32.add (local.get $i) (local.get $count)))
+        (br $chunk)))
     (v128.store (i32.const 4096) (local.get $a0)) (v128.store (i32.const 4112) (local.get $a1))
     (v128.store (i32.const 4128) (local.get $a2)) (v128.store (i32.const 4144) (local.get $a3))
     (v128.store (i32.const 4160) (local.get $b0)) (v128.store (i32.const 4176) (local.get $b1))
