@@ -15,7 +15,7 @@ import type { BenchCase } from './harness.ts';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const filter = process.argv[2];
-const ROUNDS = Number(process.argv[3] ?? 3);
+const ROUNDS = Number(process.argv[3] ?? 5);
 
 function baseline(name: string): Record<string, number | string> {
   const script = join(here, `${name.replace('numpy-', 'numpy_')}.py`);

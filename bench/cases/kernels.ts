@@ -75,4 +75,33 @@ export const cases: BenchCase[] = [
       return { rate: wasm, detail: `${(wasm / ts).toFixed(2)}× the TypeScript kernel's ${fmt(ts)} shots/s` };
     },
   },
+  {
+    name: 'exact engine four-lane kernel (four 1024-shot blocks side by side, SIMD) against the one-block WebAssembly kernel',
+    unit: 'shots/s',
+    async run() {
+      const scratch = makeExactScratch(point);
+      const h = scratchHistory(point, scratch);
+      const s: FusedPipeline = { cos: 1, sin: 0, threshold: 0.5, highIsOne: true, band: -1, lastSample: null };
+      const outcomeOf = Uint8Array.of(0, 1);
+      const kernel = new ExactKernel(scratch.exact);
+      kernel.setScoring(h, s, outcomeOf);
+      const blocks = new BlockStreams(1, 0, 'score', 0);
+      const { streams, lanes } = kernel.fourStreams;
+      const stream = blocks.current(), lane = blocks.current();
+      const leaves = () => [emptyTally(2, 2), emptyTally(2, 2), emptyTally(2, 2), emptyTally(2, 2)];
+      const [four, one] = sideBySide(
+        () => {
+          for (let k = 0; k < 4; k++) { blocks.advanceInto(streams[k]!); blocks.laneInto(lanes[k]!); }
+          kernel.tallyFourBlocks(streams, lanes, 1024, leaves());
+          return 4096;
+        },
+        () => {
+          for (let k = 0; k < 4; k++) { blocks.advanceInto(stream); blocks.laneInto(lane); kernel.tallyBlock(stream, lane, 1024, emptyTally(2, 2)); }
+          return 4096;
+        },
+        15, 64,
+      );
+      return { rate: four, detail: `${(four / one).toFixed(2)}× the one-block kernel's ${fmt(one)} shots/s` };
+    },
+  },
 ];

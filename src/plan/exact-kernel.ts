@@ -1,11 +1,12 @@
 /**
- * exact-fast.ts fastTallyBlock as WebAssembly (kernels.wat tallyBlock), for the points it suits:
- * those of fastTallyBlock whose every jump ends the chain and whose signal has no analog
- * response (the general chain walk and the response's closed form stay in TypeScript). The
- * block's tally is the same to the bit (test/plan/exact-kernel.test.ts).
+ * exact-fast.ts fastTallyBlock as WebAssembly, for the points it suits: those of fastTallyBlock
+ * whose every jump ends the chain and whose signal has no analog response (the general chain
+ * walk and the response's closed form stay in TypeScript). Two loops: one block (kernels.wat
+ * tallyBlock), and four blocks side by side in SIMD lanes (tallyFour, through
+ * tallyFourBlocks). Each block's tally is the same to the bit (test/plan/exact-fused.test.ts).
  *
  * One instance per exact tables: their prefix sums are copied once into its memory; the
- * point's and pipeline's scalars are written before each block (a few dozen numbers).
+ * point's and pipeline's scalars are written once per batch (setScoring).
  */
 import { CAUSES } from '../analysis/causes.ts';
 import { momentsFromShiftedSums } from '../analysis/moments.ts';
@@ -67,8 +68,6 @@ export function uniformCut(holds: (u: number) => boolean, negate = false): Unifo
 export class ExactKernel {
   /** The tables whose prefix sums the instance holds. */
   readonly tables: ExactTables;
-  /** The instance's memory (for benchmarks that run variants of the module on it). */
-  readonly memory: WebAssembly.Memory;
   /** Streams for tallyFourBlocks' caller to position (one history stream and one normals lane per block). */
   readonly fourStreams: { streams: RandomStream[]; lanes: RandomStream[] };
   private readonly tallyBlockWasm: (len: number) => void;
@@ -91,8 +90,7 @@ export class ExactKernel {
     this.tables = t;
     const placeholder = (): RandomStream => new RandomStream(Uint32Array.of(1, 0, 0, 0));
     this.fourStreams = { streams: [0, 1, 2, 3].map(placeholder), lanes: [0, 1, 2, 3].map(placeholder) };
-    const { memory, buffer, exports } = instantiateKernels(prefixBytes(t));
-    this.memory = memory;
+    const { buffer, exports } = instantiateKernels(prefixBytes(t));
     this.tallyBlockWasm = exports.tallyBlock as (len: number) => void;
     this.stream = new Int32Array(buffer, LAYOUT.stream, 4);
     this.lane = new Int32Array(buffer, LAYOUT.lane, 4);

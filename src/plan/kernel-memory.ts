@@ -32,7 +32,6 @@ export function kernelsAvailable(): boolean {
 let compiled: WebAssembly.Module | null = null;
 
 export interface KernelInstance {
-  memory: WebAssembly.Memory;
   buffer: ArrayBuffer;
   exports: Record<string, unknown>;
 }
@@ -47,5 +46,5 @@ export function instantiateKernels(arrayBytes: number): KernelInstance {
   compiled ??= new WebAssembly.Module(WASM_BYTES);
   // Math.exp and Math.log themselves, so that the rejection branch's numbers are the TypeScript ones
   const instance = new WebAssembly.Instance(compiled, { env: { memory, exp: Math.exp, log: Math.log } });
-  return { memory, buffer, exports: instance.exports };
+  return { buffer, exports: instance.exports };
 }

@@ -4,7 +4,7 @@
 ;;     dsp/integrate.ts dotRange and dotRangePair);
 ;;   - the exact engine's one-loop kernel (plan/exact-kernel.ts; exact-fast.ts fastTallyBlock)
 ;;     for the common point whose every jump ends the chain and whose signal has no analog
-;;     response.
+;;     response: on one block (tallyBlock), or on four blocks at once in SIMD lanes (tallyFour).
 ;; Each does the arithmetic of its TypeScript counterpart in the same order, with Math.exp and
 ;; Math.log imported, so the numbers are the same to the bit (test/plan/kernels.test.ts,
 ;; test/plan/exact-fused.test.ts); V8 compiles them without typed-array bounds checks and with
