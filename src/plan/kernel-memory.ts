@@ -11,7 +11,7 @@ export const LAYOUT = {
   stream: 0, lane: 16, dotResults: 32,
   layerBounds: 64, layerFactors: 1024, layerDensities: 2048,
   f64Params: 3072, i32Params: 3328, f64Results: 3456, i32Results: 3520,
-  quad: 4096, quadParams: 5056, quadBuffers: 8192,
+  quad: 4096, quadParams: 5056, expTable: 5376, quadBuffers: 8192,
   arrays: 65536,
 } as const;
 
@@ -43,6 +43,9 @@ export function instantiateKernels(arrayBytes: number): KernelInstance {
   new Int32Array(buffer, LAYOUT.layerBounds, 128).set(ZIGGURAT.k);
   new Float64Array(buffer, LAYOUT.layerFactors, 128).set(ZIGGURAT.w);
   new Float64Array(buffer, LAYOUT.layerDensities, 128).set(ZIGGURAT.f);
+  // the wedge test's estimate of exp (kernels.wat $below): exp(−j/16), j = 0 … 95
+  const expTable = new Float64Array(buffer, LAYOUT.expTable, 96);
+  for (let j = 0; j < 96; j++) expTable[j] = Math.exp(-j / 16);
   compiled ??= new WebAssembly.Module(WASM_BYTES);
   // Math.exp and Math.log themselves, so that the rejection branch's numbers are the TypeScript ones
   const instance = new WebAssembly.Instance(compiled, { env: { memory, exp: Math.exp, log: Math.log } });

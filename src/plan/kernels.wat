@@ -25,6 +25,7 @@
 ;;   3456  its f64 results: s10 s11 s20 s21 shift0 shift1
 ;;   3520  its i32 results: sumState sumOutcome sumBoth n0 n1, causes[2·8], discarded[2], discardedWrong[2]
 ;;   4096  the four-block exact kernel's states, results, scratch and parameters (tallyFour)
+;;   5376  exp(−j/16), j = 0 … 95, for the wedge test ($below)
 ;;   65536… arrays (waveforms, kernels and record; or prefix sums of kernel × waveform)
 (module
   (import "env" "memory" (memory 1))
@@ -48,6 +49,30 @@
   (func $uniform (param $st i32) (result f64)
     (f64.mul (f64.add (f64.convert_i32_u (call $next (local.get $st))) (f64.const 0.5)) (f64.const 0x1p-32)))
 
+  ;; y < Math.exp(t), the wedge's test, mostly without the exp: for −95/16 ≤ t ≤ 0 an estimate
+  ;; e = exp(−j/16)·(degree-5 Taylor polynomial of exp(r)), t = −j/16 + r with |r| < 1/16, lies
+  ;; within 1e-10 of exp(t) relative (truncation below 1e-10, the table's and the arithmetic's
+  ;; rounding ~1e-15), and Math.exp within 1 ulp; so y outside e·(1 ± 1e-9) is decided by e
+  ;; alone, and only the rare y inside calls exp (its latency, ~40 ns, was a fifth of the exact
+  ;; kernel's time). The table exp(−j/16), j = 0 … 95, is at 5376 (kernel-memory.ts).
+  (func $below (export "below") (param $y f64) (param $t f64) (result i32)
+    (local $j i32) (local $r f64) (local $e f64) (local $margin f64)
+    (if (i32.eqz (f64.ge (local.get $t) (f64.const -5.9375)))
+      (then (return (f64.lt (local.get $y) (call $exp (local.get $t))))))
+    ;; j = floor(-16 t), 0 ... 95 (t = -x^2/2 is never positive)
+    (local.set $j (i32.trunc_f64_s (f64.mul (local.get $t) (f64.const -16))))
+    (local.set $r (f64.add (local.get $t) (f64.mul (f64.convert_i32_s (local.get $j)) (f64.const 0.0625))))
+    (local.set $e (f64.mul (f64.load offset=5376 (i32.shl (local.get $j) (i32.const 3)))
+      (f64.add (f64.const 1) (f64.mul (local.get $r)
+        (f64.add (f64.const 1) (f64.mul (local.get $r)
+          (f64.add (f64.const 0.5) (f64.mul (local.get $r)
+            (f64.add (f64.const 0x1.5555555555555p-3) (f64.mul (local.get $r)
+              (f64.add (f64.const 0x1.5555555555555p-5) (f64.mul (local.get $r) (f64.const 0x1.1111111111111p-7)))))))))))))
+    (local.set $margin (f64.mul (local.get $e) (f64.const 1e-9)))
+    (if (f64.lt (local.get $y) (f64.sub (local.get $e) (local.get $margin))) (then (return (i32.const 1))))
+    (if (f64.gt (local.get $y) (f64.add (local.get $e) (local.get $margin))) (then (return (i32.const 0))))
+    (f64.lt (local.get $y) (call $exp (local.get $t))))
+
   ;; the ziggurat's rejection branch for a draw that missed its layer's fast region, drawing
   ;; further from the state at byte `st` (random/stream.ts normalSlowPath, step for step)
   (func $normalSlow (param $st i32) (param $pos i32) (param $layer i32) (result f64)
@@ -66,10 +91,10 @@
       ;; a wedge: accept under the density
       (local.set $x (f64.mul (f64.convert_i32_s (local.get $pos)) (f64.load offset=1024 (i32.shl (local.get $layer) (i32.const 3)))))
       (local.set $fl (f64.load offset=2048 (i32.shl (local.get $layer) (i32.const 3))))
-      (if (f64.lt (f64.add (local.get $fl)
-                           (f64.mul (call $uniform (local.get $st))
-                                    (f64.sub (f64.load offset=2040 (i32.shl (local.get $layer) (i32.const 3))) (local.get $fl))))
-                  (call $exp (f64.mul (f64.mul (f64.const -0.5) (local.get $x)) (local.get $x))))
+      (if (call $below (f64.add (local.get $fl)
+                                (f64.mul (call $uniform (local.get $st))
+                                         (f64.sub (f64.load offset=2040 (i32.shl (local.get $layer) (i32.const 3))) (local.get $fl))))
+                       (f64.mul (f64.mul (f64.const -0.5) (local.get $x)) (local.get $x)))
         (then (return (local.get $x))))
       ;; else a fresh draw
       (local.set $u (call $next (local.get $st)))

@@ -101,6 +101,7 @@ export class BlockStreams {
   private block: number;
 
   constructor(seed: number, point: number, purpose: StreamPurpose, firstBlock: number) {
+    const index = streamIndex(point, purpose, firstBlock); // (checks the ranges either way)
     const from = lastStart.seed === seed && lastStart.point === point && lastStart.purpose === purpose
       && lastStart.block <= firstBlock ? lastStart : null;
     if (from) {
@@ -110,7 +111,7 @@ export class BlockStreams {
       jumpStreams(this.start, firstBlock - from.block);
     } else {
       this.start = Uint32Array.from(cachedBase(seed));
-      jumpStreams(this.start, streamIndex(point, purpose, firstBlock));
+      jumpStreams(this.start, index);
     }
     this.block = firstBlock;
     Object.assign(lastStart, { seed, point, purpose, block: firstBlock });

@@ -13,6 +13,7 @@ import { dotRange, dotRangePair } from '../../src/dsp/integrate.ts';
 import { makeRecordLoops, RecordKernel, TypeScriptRecordLoops } from '../../src/plan/record-kernel.ts';
 import { WASM_BYTES } from '../../src/plan/kernels-wasm.ts';
 import { compileWat } from '../../scripts/wasm-source.ts';
+import { instantiateKernels } from '../../src/plan/kernel-memory.ts';
 
 function wave(n: number, seed: number): Float64Array {
   const s = makeStream(seed, 0, 'calibrate', 0), w = new Float64Array(n);
@@ -46,6 +47,24 @@ describe('record kernel (WebAssembly)', () => {
       sameBits(kernel.record.subarray(lo, hi), ours.subarray(lo, hi), `shot ${shot}`);
       expect(Array.from(a.state())).toEqual(Array.from(b.state()));
     }
+  });
+
+  it("the ziggurat's wedge test decides y < Math.exp(t) as Math.exp would, at the edge and away from it (2.2 M cases)", () => {
+    // kernels.wat $below decides most cases from an estimate of exp within 1e-10; cases within
+    // 1e-9 of it must call exp. y at exp(t) itself, one ulp either side, 1e-12, 5e-10 and 2e-9
+    // away, and at random around it
+    const below = instantiateKernels(0).exports.below as (y: number, t: number) => number;
+    const s = makeStream(1, 0, 'aux', 0);
+    let wrong = 0, first = '';
+    for (let i = 0; i < 200_000; i++) {
+      const t = i === 0 ? 0 : i === 1 ? -5.9375 : i === 2 ? -6.5 : -s.nextDouble() * 6.5;
+      const e = Math.exp(t);
+      for (const y of [e, e * (1 + 2 ** -52), e * (1 - 2 ** -53), e * (1 + 1e-12), e * (1 - 1e-12), e * (1 + 5e-10), e * (1 - 5e-10),
+        e * (1 + 2e-9), e * (1 - 2e-9), e * (1 - 1e-10), e * (0.9 + 0.2 * s.nextDouble())]) {
+        if (below(y, t) !== +(y < e)) { wrong++; first ||= `t = ${t}, y = ${y}`; }
+      }
+    }
+    expect(wrong, first).toBe(0);
   });
 
   it('noise added onto the record in place equals addNormals, and σ = 0 draws nothing', () => {
