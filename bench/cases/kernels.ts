@@ -34,6 +34,18 @@ function sideBySide(a: () => number, b: () => number, rounds = 15, perRound = 64
 }
 
 const point = compilePoint(benchWorkload());
+
+/** The exact kernel on the workload, scored as the benchmark's calibration would (axis I, midpoint 0.5), and block streams. */
+function exactSetUp() {
+  const scratch = makeExactScratch(point);
+  const h = scratchHistory(point, scratch);
+  const s: FusedPipeline = { cos: 1, sin: 0, threshold: 0.5, highIsOne: true, band: -1, lastSample: null };
+  const outcomeOf = Uint8Array.of(0, 1);
+  const kernel = new ExactKernel(scratch.exact);
+  kernel.setScoring(h, s, outcomeOf);
+  return { scratch, h, s, outcomeOf, kernel, blocks: new BlockStreams(1, 0, 'score', 0) };
+}
+
 const fmt = (x: number) => `${(x / 1e6).toFixed(1)} M`;
 
 export const cases: BenchCase[] = [
@@ -58,13 +70,7 @@ export const cases: BenchCase[] = [
     name: 'exact engine one-loop kernel (a 1024-shot block), WebAssembly against TypeScript',
     unit: 'shots/s',
     async run() {
-      const scratch = makeExactScratch(point);
-      const h = scratchHistory(point, scratch);
-      const s: FusedPipeline = { cos: 1, sin: 0, threshold: 0.5, highIsOne: true, band: -1, lastSample: null };
-      const outcomeOf = Uint8Array.of(0, 1);
-      const kernel = new ExactKernel(scratch.exact);
-      kernel.setScoring(h, s, outcomeOf);
-      const blocks = new BlockStreams(1, 0, 'score', 0);
+      const { scratch, h, s, outcomeOf, kernel, blocks } = exactSetUp();
       const stream = blocks.current(), lane = blocks.current();
       const columns = { intended: new Uint8Array(1024), prepared: new Uint8Array(1024), initial: new Uint8Array(1024), atWindowStart: new Uint8Array(1024), atWindowEnd: new Uint8Array(1024), firstJump: new Float64Array(1024), jumpCause: new Uint8Array(1024) };
       const [wasm, ts] = sideBySide(
@@ -79,13 +85,7 @@ export const cases: BenchCase[] = [
     name: 'exact engine four-lane kernel (four 1024-shot blocks side by side, SIMD) against the one-block WebAssembly kernel',
     unit: 'shots/s',
     async run() {
-      const scratch = makeExactScratch(point);
-      const h = scratchHistory(point, scratch);
-      const s: FusedPipeline = { cos: 1, sin: 0, threshold: 0.5, highIsOne: true, band: -1, lastSample: null };
-      const outcomeOf = Uint8Array.of(0, 1);
-      const kernel = new ExactKernel(scratch.exact);
-      kernel.setScoring(h, s, outcomeOf);
-      const blocks = new BlockStreams(1, 0, 'score', 0);
+      const { kernel, blocks } = exactSetUp();
       const { streams, lanes } = kernel.fourStreams;
       const stream = blocks.current(), lane = blocks.current();
       const leaves = () => [emptyTally(2, 2), emptyTally(2, 2), emptyTally(2, 2), emptyTally(2, 2)];
