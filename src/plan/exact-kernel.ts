@@ -182,22 +182,13 @@ export class ExactKernel {
     this.tallyBlockWasm(len);
     stream.s.set(this.stream);
     lane.s.set(this.lane);
-    const r = this.i32Out, m = this.f64Out;
-    const nCauses = CAUSES.length;
-    for (let k = 0; k < 2 * nCauses; k++) leaf.causes[k] = r[CAUSES_AT + k]!;
-    for (let st = 0; st < 2; st++) {
-      leaf.discarded[st] = r[DISCARDED_AT + st]!;
-      leaf.discardedWrong[st] = r[DISCARDED_WRONG_AT + st]!;
-    }
-    finishTwoByTwo(leaf, len, r[0]!, r[1]!, r[2]!);
-    leaf.clean[0] = momentsFromShiftedSums(r[3]!, m[4]!, m[0]!, m[2]!);
-    leaf.clean[1] = momentsFromShiftedSums(r[4]!, m[5]!, m[1]!, m[3]!);
+    writeLeaf(leaf, len, this.i32Out, this.f64Out, 1, 0);
   }
 
   /**
    * tallyBlock on four blocks of `len` shots each at once (their tallies are those of four
    * tallyBlock calls, to the bit): block k's histories from `streams[k]`, its normals from
-   * `lanes[k]`, its tally into `leaves[k]` (fresh tallies).
+   * `lanes[k]`, its tally into `leaves[k]` (every field is written, so they may be reused).
    */
   tallyFourBlocks(streams: readonly RandomStream[], lanes: readonly RandomStream[], len: number, leaves: readonly Tally[]): void {
     const st = this.quadStates, r = this.quadI32, m = this.quadF64;
@@ -209,23 +200,30 @@ export class ExactKernel {
     }
     r.fill(0);
     this.tallyFourWasm(len);
-    const nCauses = CAUSES.length;
     for (let k = 0; k < 4; k++) {
       for (let j = 0; j < 4; j++) {
         streams[k]!.s[j] = st[4 * j + k]!;
         lanes[k]!.s[j] = st[16 + 4 * j + k]!;
       }
-      const leaf = leaves[k]!;
-      // result f of block k at 4f + k (kernels.wat: the i32 results in tallyBlock's order)
-      for (let c = 0; c < 2 * nCauses; c++) leaf.causes[c] = r[4 * (CAUSES_AT + c) + k]!;
-      for (let s = 0; s < 2; s++) {
-        leaf.discarded[s] = r[4 * (DISCARDED_AT + s) + k]!;
-        leaf.discardedWrong[s] = r[4 * (DISCARDED_WRONG_AT + s) + k]!;
-      }
-      finishTwoByTwo(leaf, len, r[k]!, r[4 + k]!, r[8 + k]!);
-      // f64 field f of block k at 4f + k: s10 s11 s20 s21 shift0 shift1
-      leaf.clean[0] = momentsFromShiftedSums(r[12 + k]!, m[16 + k]!, m[k]!, m[8 + k]!);
-      leaf.clean[1] = momentsFromShiftedSums(r[16 + k]!, m[20 + k]!, m[4 + k]!, m[12 + k]!);
+      writeLeaf(leaves[k]!, len, r, m, 4, k);
     }
   }
+}
+
+/**
+ * A block's tally from the kernel's results: field f of the i32 results (sumState, sumOutcome,
+ * sumBoth, n0, n1, causes, discarded, discardedWrong) at ints[stride·f + k], and of the f64
+ * results (s10, s11, s20, s21, shift0, shift1) at floats[stride·f + k] — stride 1 for
+ * tallyBlock's, 4 and the block's lane k for tallyFour's.
+ */
+function writeLeaf(leaf: Tally, len: number, ints: Int32Array, floats: Float64Array, stride: number, k: number): void {
+  // (indexing inline: a closure per block costs a __name call under tsx, DEVELOPERS.md)
+  for (let c = 0; c < 2 * CAUSES.length; c++) leaf.causes[c] = ints[stride * (CAUSES_AT + c) + k]!;
+  for (let st = 0; st < 2; st++) {
+    leaf.discarded[st] = ints[stride * (DISCARDED_AT + st) + k]!;
+    leaf.discardedWrong[st] = ints[stride * (DISCARDED_WRONG_AT + st) + k]!;
+  }
+  finishTwoByTwo(leaf, len, ints[k]!, ints[stride + k]!, ints[2 * stride + k]!);
+  leaf.clean[0] = momentsFromShiftedSums(ints[3 * stride + k]!, floats[4 * stride + k]!, floats[k]!, floats[2 * stride + k]!);
+  leaf.clean[1] = momentsFromShiftedSums(ints[4 * stride + k]!, floats[5 * stride + k]!, floats[stride + k]!, floats[3 * stride + k]!);
 }
