@@ -204,6 +204,15 @@
     (f64.store (i32.const 32) (f64.add (local.get $a0) (local.get $a1)))
     (f64.store (i32.const 40) (f64.add (local.get $b0) (local.get $b1))))
 
+  ;; the cause of a wrong shot (analysis/causes.ts's precedence): preparation (5), mapping (6),
+  ;; else its first jump's cause if any, else noise (1)
+  (func $causeOf (param $intended i32) (param $prepared i32) (param $initial i32) (param $jc i32) (result i32)
+    (if (result i32) (i32.ne (local.get $prepared) (local.get $intended))
+      (then (i32.const 5))
+      (else (if (result i32) (i32.ne (local.get $initial) (local.get $prepared))
+        (then (i32.const 6))
+        (else (select (local.get $jc) (i32.const 1) (local.get $jc)))))))
+
   ;; exact-fast.ts oneJumpValue: the path's value for one jump switching at sample `switchAt`
   (func $oneJump (param $from i32) (param $to i32) (param $lo i32) (param $hi i32) (param $switchAt f64) (result f64)
     (local $u i32) (local $k i32) (local $v f64)
@@ -404,12 +413,7 @@
         (local.set $cause (i32.const 0))
         (if (i32.ne (local.get $outcome) (i32.load offset=3360 (i32.shl (local.get $intended) (i32.const 2))))
           (then
-            (local.set $cause
-              (if (result i32) (i32.ne (local.get $prepared) (local.get $intended))
-                (then (i32.const 5))
-                (else (if (result i32) (i32.ne (local.get $initial) (local.get $prepared))
-                  (then (i32.const 6))
-                  (else (select (local.get $jc) (i32.const 1) (local.get $jc)))))))
+            (local.set $cause (call $causeOf (local.get $intended) (local.get $prepared) (local.get $initial) (local.get $jc)))
             (local.set $at (i32.shl (i32.add (i32.shl (local.get $intended) (i32.const 3)) (local.get $cause)) (i32.const 2)))
             (i32.store offset=3540 (local.get $at) (i32.add (i32.load offset=3540 (local.get $at)) (i32.const 1)))))
         ;; the ambiguous band: discarded[s] at 3604, discardedWrong[s] at 3612
@@ -539,12 +543,7 @@
     (local.set $prepared (i32.and (i32.load offset=4880 (local.get $at)) (i32.const 1)))
     (local.set $initial (i32.and (i32.load offset=4848 (local.get $at)) (i32.const 1)))
     (local.set $jc (i32.load offset=4816 (local.get $at)))
-    (local.set $cause
-      (if (result i32) (i32.ne (local.get $prepared) (local.get $intended))
-        (then (i32.const 5))
-        (else (if (result i32) (i32.ne (local.get $initial) (local.get $prepared))
-          (then (i32.const 6))
-          (else (select (local.get $jc) (i32.const 1) (local.get $jc)))))))
+    (local.set $cause (call $causeOf (local.get $intended) (local.get $prepared) (local.get $initial) (local.get $jc)))
     (local.set $at (i32.add (local.get $at)
       (i32.shl (i32.add (i32.const 5) (i32.add (i32.shl (local.get $intended) (i32.const 3)) (local.get $cause))) (i32.const 4))))
     (i32.store offset=4224 (local.get $at) (i32.add (i32.load offset=4224 (local.get $at)) (i32.const 1))))
@@ -556,7 +555,7 @@
     (local $mInt v128) (local $mPrep v128) (local $mInit v128) (local $hit v128) (local $jump v128)
     (local $pos v128) (local $layer v128) (local $ok v128) (local $w v128)
     (local $z0lo v128) (local $z0hi v128) (local $z1lo v128) (local $z1hi v128)
-    (local $iLo v128) (local $iHi v128) (local $qLo v128) (local $qHi v128) (local $sLo v128) (local $sHi v128)
+    (local $iLo v128) (local $iHi v128) (local $qLo v128) (local $qHi v128)
     (local $vLo v128) (local $vHi v128) (local $out v128) (local $wrong v128) (local $ambiguous v128)
     (local $clean v128) (local $w0 v128) (local $w1 v128) (local $jcv v128) (local $x v128) (local $d v128) (local $e v128)
     (local $sumState v128) (local $sumOutcome v128) (local $sumBoth v128) (local $n0 v128) (local $n1 v128)
