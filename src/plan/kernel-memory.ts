@@ -22,12 +22,16 @@ const PAGE = 65536;
  */
 export const MAX_KERNEL_BYTES = 2 ** 31;
 
+let available: boolean | null = null;
+
 /**
- * Whether this thread can run WebAssembly (not, for example, under `node --jitless`); owners
- * run their TypeScript loops when it cannot.
+ * Whether this thread can run the kernels: WebAssembly at all (not, for example, under
+ * `node --jitless`), and its SIMD instructions, which tallyFour uses (V8 on x64 needs SSE4.1).
+ * Owners run their TypeScript loops when it cannot.
  */
 export function kernelsAvailable(): boolean {
-  return typeof WebAssembly === 'object';
+  available ??= typeof WebAssembly === 'object' && WebAssembly.validate(WASM_BYTES);
+  return available;
 }
 let compiled: WebAssembly.Module | null = null;
 

@@ -3,6 +3,7 @@
  * project compiles against does not declare them, and the DOM lib would bring much else).
  */
 declare namespace WebAssembly {
+  function validate(bytes: Uint8Array): boolean;
   class Module {
     constructor(bytes: Uint8Array);
   }
