@@ -1,5 +1,5 @@
-import { compilePoint } from '../src/plan/compile.ts';
-import { makeScratch, simulateBatch } from '../src/plan/batch.ts';
+import { compilePoint } from '../src/engine/compile-point.ts';
+import { makeScratch, simulateBatch } from '../src/engine/trace/batch.ts';
 import type { Scenario } from '../src/scenario/types.ts';
 /** Types and helpers shared by benchmark cases. */
 

@@ -4,7 +4,7 @@
  * Usage: node bin/run-ts.js bench/rss-child.ts SCENARIO OUT ENGINE SHOTS WORKERS
  * Prints one JSON line: { maxRssMB, shots, seconds, engine }.
  */
-import { runToDirectory } from '../src/io/run-to-directory.ts';
+import { runToDirectory } from '../src/app/run-to-directory.ts';
 
 const [scenarioPath, outDir, engine, shots, workers] = process.argv.slice(2);
 const t0 = performance.now();

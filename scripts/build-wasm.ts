@@ -11,7 +11,7 @@ import { fileURLToPath } from 'node:url';
 import { compileWat, wasmModuleSource } from './wasm-source.ts';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-const source = 'src/plan/kernels.wat';
+const source = 'src/engine/wasm/kernels.wat';
 let bytes: Uint8Array;
 try {
   // (the base name: wabt garbles some longer names in its messages)

@@ -1,10 +1,10 @@
 /**
  * singleshot as a library: every command of the CLI is a function here.
  */
-export { runToDirectory, type RunToDirectoryOptions, type RunToDirectoryResult } from './io/run-to-directory.ts';
-export { runPoints, inProcessExecutor, type RunResult, type PointResult, type SweepPoint, type BatchExecutor } from './plan/run.ts';
-export { compilePoint, type CompiledPoint } from './plan/compile.ts';
-export { simulateBatch, type ShotBatch } from './plan/batch.ts';
+export { runToDirectory, type RunToDirectoryOptions, type RunToDirectoryResult } from './app/run-to-directory.ts';
+export { runPoints, inProcessExecutor, type RunResult, type PointResult, type SweepPoint, type BatchExecutor } from './run/run-points.ts';
+export { compilePoint, type CompiledPoint } from './engine/compile-point.ts';
+export { simulateBatch, type ShotBatch } from './engine/trace/batch.ts';
 export { loadScenarioFile } from './scenario/load.ts';
 export { parseScenarioText } from './scenario/parse.ts';
 export { resolveScenario } from './scenario/resolve.ts';
@@ -16,6 +16,6 @@ export { analyticBudget, type Budget } from './analysis/budget.ts';
 export { barthelErrors } from './analysis/barthel.ts';
 export { gaussianTail } from './analysis/special.ts';
 export { wilsonInterval, clopperPearsonInterval } from './analysis/intervals.ts';
-export { resultToJson } from './io/json.ts';
+export { resultToJson } from './app/result-json.ts';
 export { InputError } from './errors.ts';
 export { main } from './cli/main.ts';

@@ -4,13 +4,13 @@
  * time differs. Measured side by side — one round of each in turn, the ratio of the medians —
  * because this machine's speed drifts.
  */
-import { compilePoint } from '../../src/plan/compile.ts';
-import { makeExactScratch } from '../../src/plan/exact-batch.ts';
-import { scratchHistory } from '../../src/plan/batch.ts';
-import { fastTallyBlock } from '../../src/plan/exact-fast.ts';
-import { ExactKernel } from '../../src/plan/exact-kernel.ts';
-import type { FusedPipeline } from '../../src/plan/exact-fused.ts';
-import { RecordKernel } from '../../src/plan/record-kernel.ts';
+import { compilePoint } from '../../src/engine/compile-point.ts';
+import { makeExactScratch } from '../../src/engine/exact/batch.ts';
+import { scratchHistory } from '../../src/engine/trace/batch.ts';
+import { fastTallyBlock } from '../../src/engine/exact/fast.ts';
+import { ExactKernel } from '../../src/engine/exact/kernel.ts';
+import type { FusedPipeline } from '../../src/engine/exact/fused.ts';
+import { RecordKernel } from '../../src/engine/wasm/record-loops.ts';
 import { emptyTally } from '../../src/analysis/tally.ts';
 import { dotRangePair } from '../../src/dsp/integrate.ts';
 import { BlockStreams } from '../../src/random/streams.ts';

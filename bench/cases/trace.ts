@@ -1,6 +1,6 @@
 /** The trace engine on one core: every sample synthesised, demodulated and integrated. */
-import { compilePoint } from '../../src/plan/compile.ts';
-import { makeScratch, simulateBatch } from '../../src/plan/batch.ts';
+import { compilePoint } from '../../src/engine/compile-point.ts';
+import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';
 import { benchWorkload } from '../workload.ts';
 import { measureRate, type BenchCase } from '../harness.ts';
 

@@ -3,7 +3,7 @@
  * is highest, whether they differ, and what refinement found.
  */
 import type { PipelineOperatingPoint } from '../analysis/operating-point.ts';
-import type { RefineOutcome } from '../io/refine-run.ts';
+import type { RefineOutcome } from '../app/refine-run.ts';
 import type { SweepSpec } from '../scenario/types.ts';
 import { formatQuantity } from '../scenario/units.ts';
 import { formatProbability } from './format.ts';

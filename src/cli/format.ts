@@ -2,7 +2,7 @@
  * The readable terminal view of a run: per point and pipeline, the error of each state with
  * its interval beside the analytic budget, then the causes.
  */
-import type { RunResult } from '../plan/run.ts';
+import type { RunResult } from '../run/run-points.ts';
 
 /** A probability in a fixed width: 3 significant digits in exponent form. */
 export function formatProbability(p: number): string {

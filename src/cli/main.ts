@@ -4,7 +4,7 @@
  */
 import { Command, CommanderError } from 'commander';
 import { InputError } from '../errors.ts';
-import { RunInterrupted } from '../io/interrupt.ts';
+import { RunInterrupted } from '../run/interrupt.ts';
 import { TOOL_VERSION } from '../io/metadata.ts';
 import { makeRunCommand } from './commands/run.ts';
 import { makeAnalyzeCommand } from './commands/analyze.ts';

@@ -4,7 +4,7 @@
  * `complete: false`); a second one exits at once after removing the temporary files.
  */
 import { abortOpenFiles } from '../io/atomic-file.ts';
-import { RunInterrupted, SIGNAL_EXIT_CODES } from '../io/interrupt.ts';
+import { RunInterrupted, SIGNAL_EXIT_CODES } from '../run/interrupt.ts';
 
 const HANDLED = ['SIGINT', 'SIGTERM'] as const;
 

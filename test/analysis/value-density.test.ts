@@ -2,9 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { mixtureCdf, mixtureDensity, valueMixture, type MixtureInput } from '../../src/analysis/value-density.ts';
 import { kolmogorovTail } from '../../src/analysis/ks.ts';
 import { normalCdf } from '../../src/analysis/special.ts';
-import { compilePoint } from '../../src/plan/compile.ts';
-import { makeScratch, simulateBatch } from '../../src/plan/batch.ts';
-import { twoStateScenario } from '../helpers/scenarios.ts';
+import { compilePoint } from '../../src/engine/compile-point.ts';
+import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';
+import { twoStateScenario } from '../support/scenarios.ts';
 
 function inputOf(sc: ReturnType<typeof twoStateScenario>) {
   const c = compilePoint(sc);

@@ -7,7 +7,7 @@ import { mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { runCli } from '../helpers/cli.ts';
+import { runCli } from '../support/cli.ts';
 
 const DIR = 'test/fixtures/bad-scenarios';
 const files = readdirSync(DIR).filter((f) => f.endsWith('.yaml')).sort();

@@ -12,7 +12,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { stringify } from 'yaml';
 import { anyMutation, FUZZ_SEED, mutatedDoc } from './harness.ts';
-import { runMain } from '../helpers/cli.ts';
+import { runMain } from '../support/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const dir = mkdtempSync(join(tmpdir(), 'singleshot-fuzz-cli-'));

@@ -11,9 +11,9 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { loadScenarioDocument } from '../../src/scenario/load.ts';
 import { InputError } from '../../src/errors.ts';
-import { runPoints } from '../../src/plan/run.ts';
-import { estimateRun } from '../../src/plan/estimate.ts';
-import { guardResources, ResourceError } from '../../src/io/resource-guard.ts';
+import { runPoints } from '../../src/run/run-points.ts';
+import { estimateRun } from '../../src/run/estimate.ts';
+import { guardResources, ResourceError } from '../../src/app/resource-guard.ts';
 import type { Scenario } from '../../src/scenario/types.ts';
 import { FUZZ_SEED, mildMutation, mutatedDoc, nonFiniteNumbers, safeJson } from './harness.ts';
 

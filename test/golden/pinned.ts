@@ -6,7 +6,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { expect, it } from 'vitest';
-import { runCli } from '../helpers/cli.ts';
+import { runCli } from '../support/cli.ts';
 import { goldenRuns, runGolden } from '../support/golden-runs.ts';
 
 const stored = JSON.parse(readFileSync('test/fixtures/golden-hashes.json', 'utf8')) as Record<string, Record<string, string>>;

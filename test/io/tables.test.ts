@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { tableFromIPC } from 'apache-arrow';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { runToDirectory } from '../../src/io/run-to-directory.ts';
+import { runToDirectory } from '../../src/app/run-to-directory.ts';
 import { readManifest } from '../../src/io/manifest.ts';
 import { TOOL_VERSION } from '../../src/io/metadata.ts';
 

@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { parseScenarioText } from '../../src/scenario/parse.ts';
 import { resolveScenario } from '../../src/scenario/resolve.ts';
-import { compilePoint } from '../../src/plan/compile.ts';
+import { compilePoint } from '../../src/engine/compile-point.ts';
 import { sensorCurrent, sensorSlope, type SensorParams } from '../../src/physics/sensor.ts';
 import { ELEMENTARY_CHARGE } from '../../src/physics/constants.ts';
 

@@ -10,10 +10,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { tableFromIPC, type Table } from 'apache-arrow';
-import { runToDirectory } from '../../src/io/run-to-directory.ts';
-import { compareBytes, rerunDirectory } from '../../src/io/rerun.ts';
+import { runToDirectory } from '../../src/app/run-to-directory.ts';
+import { compareBytes, rerunDirectory } from '../../src/app/rerun.ts';
 import { canonicalJson } from '../../src/scenario/canonical.ts';
-import { runMain } from '../helpers/cli.ts';
+import { runMain } from '../support/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const TINY = join(ROOT, 'test', 'fixtures', 'reliability', 'tiny.yaml');

@@ -13,9 +13,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { tableFromArrays, tableToIPC } from 'apache-arrow';
 import { readArrowFile, singleshotMetadata } from '../../src/io/arrow-read.ts';
 import { InputError } from '../../src/errors.ts';
-import { runToDirectory } from '../../src/io/run-to-directory.ts';
+import { runToDirectory } from '../../src/app/run-to-directory.ts';
 import { main, makeProgram } from '../../src/cli/main.ts';
-import { runMain } from '../helpers/cli.ts';
+import { runMain } from '../support/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const TINY = join(ROOT, 'test', 'fixtures', 'reliability', 'tiny.yaml');

@@ -11,11 +11,11 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { tableFromIPC } from 'apache-arrow';
-import { runToDirectory } from '../../src/io/run-to-directory.ts';
-import { RunInterrupted } from '../../src/io/interrupt.ts';
+import { runToDirectory } from '../../src/app/run-to-directory.ts';
+import { RunInterrupted } from '../../src/run/interrupt.ts';
 import { TEMP_MARKER } from '../../src/io/atomic-file.ts';
 import { readManifest } from '../../src/io/manifest.ts';
-import { runMain } from '../helpers/cli.ts';
+import { runMain } from '../support/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const TINY = join(ROOT, 'test', 'fixtures', 'reliability', 'tiny.yaml');

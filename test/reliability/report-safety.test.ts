@@ -8,7 +8,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { runToDirectory } from '../../src/io/run-to-directory.ts';
+import { runToDirectory } from '../../src/app/run-to-directory.ts';
 
 const base = mkdtempSync(join(tmpdir(), 'singleshot-report-safety-'));
 afterAll(() => rmSync(base, { recursive: true, force: true }));

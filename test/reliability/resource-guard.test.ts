@@ -7,9 +7,9 @@ import { mkdtempSync, existsSync, rmSync, statSync, writeFileSync } from 'node:f
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it, vi } from 'vitest';
-import { estimateRun, formatBytes, formatDuration, SHOT_ROW_BYTES } from '../../src/plan/estimate.ts';
-import { freeDiskBytes, guardResources, ResourceError } from '../../src/io/resource-guard.ts';
-import { runToDirectory } from '../../src/io/run-to-directory.ts';
+import { estimateRun, formatBytes, formatDuration, SHOT_ROW_BYTES } from '../../src/run/estimate.ts';
+import { freeDiskBytes, guardResources, ResourceError } from '../../src/app/resource-guard.ts';
+import { runToDirectory } from '../../src/app/run-to-directory.ts';
 import { loadScenarioFile, loadScenarioText } from '../../src/scenario/load.ts';
 import { MAX_RECORD_SAMPLES } from '../../src/scenario/limits.ts';
 import { main } from '../../src/cli/main.ts';

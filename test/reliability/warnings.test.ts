@@ -12,7 +12,7 @@ import { stringify } from 'yaml';
 import { loadScenarioDocument } from '../../src/scenario/load.ts';
 import { parseScenarioText } from '../../src/scenario/parse.ts';
 import { starterScenario } from '../../src/scenario/starter.ts';
-import { runMain } from '../helpers/cli.ts';
+import { runMain } from '../support/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const FILE = 'w.yaml';

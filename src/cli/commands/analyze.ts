@@ -1,6 +1,6 @@
 /** `singleshot analyze TRACES.arrow --pipeline FILE --out DIR [--labels COLUMN]`: run a pipeline on recorded traces. */
 import { Command } from 'commander';
-import { analyzeToDirectory, type AnalyzeResult } from '../../io/analyze.ts';
+import { analyzeToDirectory, type AnalyzeResult } from '../../app/analyze.ts';
 import { formatProbability } from '../format.ts';
 
 /** The readable summary of an analysis. */

@@ -1,7 +1,7 @@
 /** `singleshot merge DIR... --out DIR`: put the folders of a sharded run back together. */
 import { Command } from 'commander';
-import { mergeRuns } from '../../io/merge.ts';
-import { resultToJson } from '../../io/json.ts';
+import { mergeRuns } from '../../app/merge.ts';
+import { resultToJson } from '../../app/result-json.ts';
 import { formatResult } from '../format.ts';
 
 export function makeMergeCommand(): Command {

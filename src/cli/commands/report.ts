@@ -1,6 +1,6 @@
 /** `singleshot report DIR`: rebuild report.html of a finished run from its tables alone. */
 import { Command } from 'commander';
-import { writeReport } from '../../io/report/build.ts';
+import { writeReport } from '../../app/report.ts';
 
 /** Makes the `report` command: writes DIR/report.html (or --out FILE) and prints its path. */
 export function makeReportCommand(): Command {

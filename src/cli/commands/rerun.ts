@@ -1,6 +1,6 @@
 /** `singleshot rerun DIR [--out DIR2]`: reproduce a finished run from its own tables and compare the bytes. */
 import { Command } from 'commander';
-import { formatRerun, rerunDirectory } from '../../io/rerun.ts';
+import { formatRerun, rerunDirectory } from '../../app/rerun.ts';
 import { withInterruptSignals } from '../signals.ts';
 import { ExitStatus } from '../exit.ts';
 import { positiveInteger } from './run.ts';

@@ -1,15 +1,15 @@
 /** `singleshot run FILE --out DIR`: simulate, compare with the budget, write the tables. */
 import { Command, InvalidArgumentError } from 'commander';
-import { runToDirectory } from '../../io/run-to-directory.ts';
-import { resultToJson } from '../../io/json.ts';
+import { runToDirectory } from '../../app/run-to-directory.ts';
+import { resultToJson } from '../../app/result-json.ts';
 import { formatResult } from '../format.ts';
 import { makeProgress } from '../progress.ts';
 import { formatOperatingPoints } from '../format-operating.ts';
-import { operatingPointJson, runOperatingPoints } from '../../io/operating-json.ts';
+import { operatingPointJson, runOperatingPoints } from '../../app/operating-json.ts';
 import { withInterruptSignals } from '../signals.ts';
-import { describeEstimate } from '../../io/resource-guard.ts';
-import { defaultWorkers } from '../../plan/pool.ts';
-import type { EngineRequest } from '../../plan/engine.ts';
+import { describeEstimate } from '../../app/resource-guard.ts';
+import { defaultWorkers } from '../../run/pool.ts';
+import type { EngineRequest } from '../../engine/choose.ts';
 
 /** Runs longer than this (estimated, seconds) get a note with the estimate on stderr. */
 const ESTIMATE_NOTE_SECONDS = 60;

@@ -5,8 +5,8 @@
  */
 import { Float64, RecordBatch, Schema, Struct, Uint32, Bool, makeData } from 'apache-arrow';
 import { CAUSE_DISCARDED, CAUSES } from '../../analysis/causes.ts';
-import type { ShotBatch } from '../../plan/batch.ts';
-import type { ScoredPipeline } from '../../plan/score.ts';
+import type { ShotBatch } from '../../engine/trace/batch.ts';
+import type { ScoredPipeline } from '../../classify/score.ts';
 import type { Scenario } from '../../scenario/types.ts';
 import {
   boolData, dictionaryData, float64Data, makeDictionaryColumn, nullableFloat64Data, uint32Data, unitField,

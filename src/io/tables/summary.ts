@@ -3,9 +3,9 @@
  * intervals, assignment matrix, mean error, SNR (simulated and analytic), threshold.
  */
 import type { Table } from 'apache-arrow';
-import type { PointResult } from '../../plan/run.ts';
+import type { PointResult } from '../../run/run-points.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
-import { pointNoiseOf } from '../../plan/predict-noise.ts';
+import { pointNoiseOf } from '../../analysis/noise-prediction.ts';
 
 /** Plain rows, shared by the Arrow table and the JSON output. */
 export function summaryColumns(points: readonly PointResult[], unit: string, sweptUnits: Readonly<Record<string, string>> = {}): ColumnSpec[] {

@@ -22,8 +22,8 @@
  */
 import { Field, FixedSizeList, Float32, Float64, makeData, RecordBatch, Schema, Struct, Uint32 } from 'apache-arrow';
 import { attributeCause, CAUSE_NOISE, CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
-import type { ShotBatch } from '../../plan/batch.ts';
-import type { PointResult } from '../../plan/run.ts';
+import type { ShotBatch } from '../../engine/trace/batch.ts';
+import type { PointResult } from '../../run/run-points.ts';
 import type { Scenario } from '../../scenario/types.ts';
 import {
   dictionaryData, makeDictionaryColumn, nullableFloat64Data, uint32Data, unitField, type DictionaryColumn,

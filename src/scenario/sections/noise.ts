@@ -14,7 +14,7 @@ import type { KeyPath } from '../issues.ts';
 import type { SignalUse } from './states.ts';
 import { formatQuantity } from '../units.ts';
 import { planFlickerTimeline, BASE_OVERSAMPLING } from '../../signal/flicker-timeline.ts';
-import { MAX_FLICKER_SOURCES } from '../../plan/compile-noise.ts';
+import { MAX_FLICKER_SOURCES } from '../../signal/noise-plan.ts';
 
 /** Most fluctuators per point. */
 export const MAX_FLUCTUATORS = 16;

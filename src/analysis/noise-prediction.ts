@@ -1,0 +1,165 @@
+/**
+ * Predicted σ of a pipeline's integrated value, source by source, from the filter function
+ * (signal/filter-function.ts): σ² = ∫ S(f)·|H(f)|² df per source, with H the whole path from
+ * the source's injection point to the value.
+ *
+ * Derivation. The value is V = Σ_k K_k·record_k (K the projected kernel: demodulation reference,
+ * filters, window weights). A sensor-side source n(t) enters as g·c_k·n(t_k) (gain g, carrier
+ * c_k; the analog response H_a is already in n, whose spectrum is S·|H_a|²), so V gets
+ * Σ_k x_k·n(t_k) with x_k = K_k·g·c_k; an amplifier-side source has x_k = K_k·g. With a sine
+ * carrier and the factor-2 reference, K_k·c_k = (2/L)·cos(θ_k + φ)·cos θ_k = (1/L)·[cos φ +
+ * cos(2θ_k + φ)]: sensor-side noise is integrated like a baseband boxcar (the carrier does not
+ * help), while for amplifier-side noise |H_x(f)|² sits at ±f_c and low-frequency noise only meets
+ * its sinc side lobes, ∝ (πτ(f_c − f))^−2 (the carrier removes it).
+ *
+ * - white: σ²_sample·Σ K² (independent samples); every component separately, so they add up;
+ * - 1/f: Σ over bands of gᵀ·R̄·g with g the kernel carried onto each band's grid through the
+ *   interpolation weights the engine uses (flicker-timeline.ts flickerFunctionalVariance):
+ *   the interpolation's spectral effect is in the prediction exactly, as is the analog
+ *   response for sensor-side noise (folded into the generated spectrum);
+ * - telegraph: a²·π(1 − π)·Σ_k Σ_k' K_k K_k' e^(−λ|t_k − t_k'|) (Machlup, J. Appl. Phys. 25, 341 (1954));
+ * - quantisation: step²/12·Σ K² (Widrow 1956), valid when the noise spans many steps.
+ * 1/f noise correlates samples within a shot and shots with each other; the prediction is the
+ * marginal variance of one shot's value over the whole band (what the pooled σ of many shots
+ * estimates). Clipping is not predicted (the run warns when it happened).
+ */
+import { stationaryOccupation } from '../signal/telegraph.ts';
+import { exponentialQuadraticForm, squaredSum } from '../signal/filter-function.ts';
+import { flickerFunctionalVariance } from '../signal/flicker-timeline.ts';
+import { quantisationStep } from '../signal/digitizer.ts';
+import type { NoiseInjection } from '../scenario/types.ts';
+import { carryKernel, type NoisePlan } from '../signal/noise-plan.ts';
+
+/** One source's entry in the noise budget. */
+export interface NoiseSourceBudget {
+  name: string;
+  kind: 'white' | 'flicker' | 'telegraph' | 'quantisation';
+  injection: NoiseInjection;
+  /**
+   * white: one-sided density (signal unit/√Hz, before the gain); flicker: √A, its density at
+   * 1 Hz; telegraph: the amplitude; quantisation: the white density with the same variance.
+   */
+  density: number;
+  /** How the density was obtained. */
+  origin: string;
+  /** Its variance of the integrated value, its σ, and its share of the total variance. */
+  variance: number;
+  sigma: number;
+  share: number;
+}
+
+/** The predicted noise of one pipeline's integrated value. */
+export interface NoisePrediction {
+  sources: NoiseSourceBudget[];
+  /** Total variance (the sources are independent, so their variances add). */
+  variance: number;
+  sigma: number;
+}
+
+/** Predicts the noise of Σ_k kernel[k]·record[k] over [lo, hi), source by source. */
+export function predictNoise(plan: NoisePlan, kernel: Float64Array, lo: number, hi: number, sampleRate: number): NoisePrediction {
+  const sources: Omit<NoiseSourceBudget, 'sigma' | 'share'>[] = [];
+  const k2 = squaredSum(kernel, lo, hi);
+  for (const w of plan.white) {
+    sources.push({ name: w.name, kind: 'white', injection: 'amplifier', density: w.density, origin: w.origin, variance: w.perSampleVariance * k2 });
+  }
+  const effective = (injection: NoiseInjection): Float64Array => {
+    const x = new Float64Array(kernel.length);
+    for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? plan.sensorWeight[k]! : plan.gain);
+    return x;
+  };
+  const fl = plan.flicker;
+  if (fl) {
+    const carried: Partial<Record<NoiseInjection, Float64Array>> = {};
+    for (const s of fl.sources) {
+      let g = carried[s.injection];
+      if (!g) {
+        g = carryKernel(fl, effective(s.injection), lo, hi);
+        carried[s.injection] = g;
+      }
+      const v = flickerFunctionalVariance(s.bands, g, fl.step, fl.offset).total;
+      sources.push({
+        name: s.name, kind: 'flicker', injection: s.injection, density: Math.sqrt(s.amplitude),
+        origin: `1/f^${s.exponent} on [${s.low}, ${s.high}] Hz`, variance: v,
+      });
+    }
+  }
+  const tp = plan.telegraph;
+  if (tp) {
+    tp.fluctuators.forEach((f, i) => {
+      const injection = tp.injections[i]!;
+      const x = effective(injection);
+      const p = stationaryOccupation(f.rateUp, f.rateDown);
+      const rho = Math.exp(-(f.rateUp + f.rateDown) / sampleRate);
+      const v = f.amplitude * f.amplitude * p * (1 - p) * exponentialQuadraticForm(x, lo, hi, rho);
+      sources.push({
+        name: tp.names[i]!, kind: 'telegraph', injection, density: f.amplitude,
+        origin: `two-level fluctuator, up ${f.rateUp}/s, down ${f.rateDown}/s`, variance: v,
+      });
+    });
+  }
+  if (plan.digitizer && plan.digitizer.codes > 0) {
+    const step = quantisationStep(plan.digitizer);
+    const perSample = (step * step) / 12;
+    sources.push({
+      name: 'quantisation', kind: 'quantisation', injection: 'amplifier',
+      density: Math.sqrt(perSample / (sampleRate / 2)) / plan.gain,
+      origin: `${Math.log2(plan.digitizer.codes)} bits over [${plan.digitizer.low}, ${plan.digitizer.high}]`,
+      variance: perSample * k2,
+    });
+  }
+  const variance = sources.reduce((a, s) => a + s.variance, 0);
+  return {
+    sources: sources.map((s) => ({ ...s, sigma: Math.sqrt(s.variance), share: variance > 0 ? s.variance / variance : 0 })),
+    variance, sigma: Math.sqrt(variance),
+  };
+}
+
+/** The projected kernel cos·K_I + sin·K_Q of a pipeline on its support (zero elsewhere). */
+export function projectedKernel(k: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number }, axis: { cos: number; sin: number }): Float64Array {
+  const kernel = new Float64Array(k.inPhase.length);
+  for (let j = k.lo; j < k.hi; j++) kernel[j] = k.inPhase[j]! * axis.cos + (k.quadrature ? k.quadrature[j]! * axis.sin : 0);
+  return kernel;
+}
+
+/**
+ * The noise prediction of every pipeline of a calibrated point (null for a pipeline whose
+ * decision is not a threshold on a linear value, e.g. a likelihood classifier).
+ */
+export function pointNoise(
+  c: { noise: NoisePlan; grid: { sampleRate: number }; pipelines: readonly { kernels: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number }; chain?: { classifier?: string } }[] },
+  calibrations: readonly { axis: { cos: number; sin: number } }[],
+): (NoisePrediction | null)[] {
+  return c.pipelines.map((p, i) => {
+    if (p.chain?.classifier === 'likelihood') return null;
+    const k = p.kernels;
+    return predictNoise(c.noise, projectedKernel(k, calibrations[i]!.axis), k.lo, k.hi, c.grid.sampleRate);
+  });
+}
+
+const cache = new WeakMap<object, (NoisePrediction | null)[]>();
+
+/** pointNoise of a run's point result, computed once per point. */
+export function pointNoiseOf(p: { compiled: Parameters<typeof pointNoise>[0]; calibrations: Parameters<typeof pointNoise>[1] }): (NoisePrediction | null)[] {
+  let v = cache.get(p);
+  if (!v) {
+    v = pointNoise(p.compiled, p.calibrations);
+    cache.set(p, v);
+  }
+  return v;
+}
+
+/** The `--json` fields of one pipeline's noise: predictedSigma by source and total, and the budget list. */
+export function noiseJson(prediction: NoisePrediction | null, unit: string): Record<string, unknown> {
+  if (!prediction) return {};
+  const u = unit || 'signal unit';
+  return {
+    predictedSigma: { ...Object.fromEntries(prediction.sources.map((s) => [s.name, s.sigma])), total: prediction.sigma },
+    noiseBudget: prediction.sources.map((s) => ({
+      source: s.name, kind: s.kind, injection: s.injection,
+      density: s.density,
+      densityUnit: s.kind === 'telegraph' ? u : s.kind === 'flicker' ? `${u}/√Hz at 1 Hz` : `${u}/√Hz`,
+      origin: s.origin, sigma: s.sigma, variance: s.variance, share: s.share,
+    })),
+  };
+}

@@ -1,0 +1,377 @@
+/**
+ * `singleshot analyze TRACES.arrow --pipeline FILE --out DIR [--labels COLUMN]` as a library
+ * function: run one pipeline (analyze-pipeline.ts) on the records of an Arrow table
+ * (record-table.ts), calibrate it (stored calibration, labelled rows, or nothing), decide every
+ * other row, score against a label column if given, and write shots.arrow, summary.arrow and
+ * run.json like `run`. Calibration rows are never scored.
+ *
+ * Each record goes through the honest per-record chain (plan/process.ts): demodulate, filter
+ * from rest, decimate, weight — so a pipeline run here on traces written by
+ * `run --keep-traces raw` with the run's stored calibration reproduces the run's outcomes shot
+ * for shot (the Float32 rounding of the records moves a value by ~1e−7 of its size, which only
+ * flips a shot lying that close to the threshold).
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { tableToIPC, Bool, Float64, makeData, RecordBatch, Schema, Struct, Uint32, type Table } from 'apache-arrow';
+import { InputError } from '../errors.ts';
+import { makeGrid } from '../signal/grid.ts';
+import { compileChain, type PipelineChain } from '../dsp/pipeline-chain.ts';
+import { integrateBins, makeProcessScratch, processRecord, projectRecords } from '../dsp/process-record.ts';
+import { separationAxis, type Axis } from '../classify/project.ts';
+import { classifyByThreshold, midpointThreshold, optimalThreshold, type ThresholdRule } from '../classify/threshold.ts';
+import { weightsFromLabelled } from '../classify/labelled-weights.ts';
+import { wilsonInterval, type RateInterval } from '../analysis/intervals.ts';
+import { REPORT_CONFIDENCE } from '../analysis/summary.ts';
+import { readPipelineFile, resolveAnalysis, type ResolvedAnalysis } from '../scenario/pipeline-file.ts';
+import { labelColumn, metadataNumber, optionalIntegerColumn, readArrowTable, recordColumn, type RecordColumn } from '../io/record-table.ts';
+import type { StoredCalibration } from '../io/tables/traces.ts';
+import { ArrowFileStream } from '../io/arrow-sink.ts';
+import { boolData, dictionaryData, float64Data, makeDictionaryColumn, uint32Data, unitField } from '../io/arrow-columns.ts';
+import { buildTable } from '../io/tables/columns.ts';
+import { writeFileAtomic } from '../io/atomic-file.ts';
+import { writeManifest } from '../io/manifest.ts';
+import { META_PREFIX, tableMetadata, type RunProvenance } from '../io/metadata.ts';
+import { prepareOutputDir } from '../io/output-dir.ts';
+
+export interface AnalyzeOptions {
+  tracesPath: string;
+  pipelinePath: string;
+  outDir: string;
+  /** Label column to score against (outcome labels per row). */
+  labels?: string;
+  force?: boolean;
+}
+
+/** The decision of every row (255 where the row calibrated and was not scored). */
+export interface AnalyzeResult {
+  pipeline: string;
+  rows: number;
+  calibrationRows: number;
+  outcome: Uint8Array;
+  value: Float64Array;
+  discarded: Uint8Array;
+  /** Scoring against labels, when --labels was given. */
+  scores: AnalyzeScores | null;
+  rule: ThresholdRule;
+  axis: Axis;
+  bins: number;
+  files: string[];
+}
+
+/** Errors against the label column among the scored, labelled rows. */
+export interface AnalyzeScores {
+  shots: number;
+  errors: number;
+  error: RateInterval;
+  byOutcome: { outcome: string; shots: number; errors: number; error: RateInterval }[];
+  discarded: number;
+  discardFraction: number;
+  postSelectedError: RateInterval;
+  discardsAsFailuresError: RateInterval;
+}
+
+/** How the pipeline is calibrated for this table. */
+interface Calibration {
+  axis: Axis;
+  rule: ThresholdRule;
+  weights: Float64Array;
+  bandHalfWidth: number;
+  referencePhase: number;
+}
+
+function readText(path: string): string {
+  try {
+    return readFileSync(path, 'utf8');
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new InputError(path, '', 'a pipeline file', code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'a directory' : 'an unreadable file');
+  }
+}
+
+function metadataOutcomes(table: Table): string[] | null {
+  const text = table.schema.metadata.get(`${META_PREFIX}outcomes`);
+  if (text === undefined) return null;
+  try {
+    const v: unknown = JSON.parse(text);
+    return Array.isArray(v) && v.length === 2 ? v.map(String) : null;
+  } catch {
+    return null;
+  }
+}
+
+/** Runs the analysis and writes the tables; see the file comment. */
+export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResult> {
+  const file = readPipelineFile(readText(o.pipelinePath), o.pipelinePath);
+  const table = readArrowTable(o.tracesPath);
+  const columnName = file.doc.column ?? 'record';
+  const records = recordColumn(o.tracesPath, table, columnName);
+  const meta = (k: string) => metadataNumber(table, `${META_PREFIX}${k}`);
+  const resolved = resolveAnalysis(file, {
+    samples: records.samples, sampleRate: meta('sample_rate'), carrierFrequency: meta('carrier_frequency'),
+    carrierPhase: meta('carrier_phase'), windowStart: meta('window_start'), windowLength: meta('window_length'),
+  }, o.tracesPath, columnName);
+  const outcomes = (file.doc.outcomes?.map(String) ?? metadataOutcomes(table) ?? null);
+  const scoreLabels = o.labels === undefined ? null : labelColumn(o.tracesPath, table, o.labels, outcomes);
+  const grid = { ...makeGrid(resolved.timing), samples: records.samples };
+
+  const calibrationRows = new Uint8Array(records.rows);
+  let calibration: (chain: PipelineChain) => Calibration;
+  let referencePhase: number;
+  const spec = resolved.pipeline;
+  const cal = file.doc.calibration;
+  if (cal === 'stored') {
+    const stored = storedFor(o.tracesPath, table, spec.name, file.doc.name !== undefined);
+    referencePhase = stored.referencePhase;
+    calibration = (chain) => {
+      if (stored.weights !== null && stored.weights.length !== chain.bins) {
+        throw new InputError(o.pipelinePath, 'calibration', `the pipeline of the stored calibration (its "${stored.name}" has ${stored.weights.length} weights, this file gives ${chain.bins} bins: use the run's filter, decimate and window)`, '"stored"');
+      }
+      return {
+        axis: { cos: Math.cos(stored.axisAngle), sin: Math.sin(stored.axisAngle) },
+        rule: { threshold: stored.threshold, highIsOne: stored.highIsOne },
+        weights: stored.weights ? Float64Array.from(stored.weights) : chain.binWeights,
+        bandHalfWidth: stored.bandHalfWidth, referencePhase,
+      };
+    };
+  } else if (cal !== undefined) {
+    const labels = labelColumn(o.tracesPath, table, cal.labels, outcomes);
+    const labelled: number[] = [];
+    for (let r = 0; r < records.rows; r++) if (labels[r] !== 255) labelled.push(r);
+    const take = Math.ceil((cal.fraction ?? 0.2) * labelled.length);
+    for (let j = 0; j < take; j++) calibrationRows[labelled[j]!] = 1;
+    referencePhase = spec.referencePhase === 'auto' ? resolved.carrierPhase : spec.referencePhase;
+    calibration = (chain) => calibrateOnRows(o.tracesPath, cal.labels, records, chain, labels, calibrationRows, spec.threshold, referencePhase, resolved);
+  } else {
+    if (spec.referencePhase === 'auto' || spec.threshold.method !== 'fixed' || (spec.weights ?? 'boxcar') !== 'boxcar') {
+      throw new InputError(o.pipelinePath, 'calibration', 'a calibration ("stored" or {labels: COLUMN}) unless the pipeline has a fixed threshold, a fixed referencePhase and boxcar weights', 'none');
+    }
+    if (spec.ambiguousBand?.kind === 'fraction') throw new InputError(o.pipelinePath, 'ambiguousBand', '{width: level} without a calibration (a fraction needs calibrated means)', 'fraction');
+    referencePhase = spec.referencePhase;
+    calibration = (chain) => ({
+      axis: { cos: 1, sin: 0 }, rule: { threshold: spec.threshold.value, highIsOne: true }, weights: chain.binWeights,
+      bandHalfWidth: spec.ambiguousBand ? spec.ambiguousBand.value / 2 : 0, referencePhase,
+    });
+  }
+  const chain = compileChain({ ...spec, calibratedWeights: undefined }, grid, resolved.carrierFrequency, referencePhase);
+  const c = calibration(chain);
+
+  // decide every row that did not calibrate
+  const scratch = makeProcessScratch(chain, records.samples);
+  const record = new Float64Array(records.samples);
+  const binsI = new Float64Array(chain.bins), binsQ = new Float64Array(chain.bins);
+  const n = records.rows;
+  const inPhase = new Float64Array(n), quadrature = new Float64Array(n), value = new Float64Array(n).fill(NaN);
+  const outcome = new Uint8Array(n).fill(255), discarded = new Uint8Array(n);
+  for (let r = 0; r < n; r++) {
+    if (calibrationRows[r]) continue;
+    processRecord(chain, records.row(r, record), scratch, binsI, binsQ, 0);
+    inPhase[r] = integrateBins(binsI, 0, c.weights);
+    quadrature[r] = chain.reference ? integrateBins(binsQ, 0, c.weights) : 0;
+    value[r] = inPhase[r]! * c.axis.cos + quadrature[r]! * c.axis.sin;
+    outcome[r] = classifyByThreshold(value[r]!, c.rule.threshold, c.rule.highIsOne);
+    discarded[r] = Math.abs(value[r]! - c.rule.threshold) < c.bandHalfWidth ? 1 : 0;
+  }
+  const scores = scoreLabels ? scoreRows(scoreLabels, outcome, discarded, outcomes ?? ['0', '1']) : null;
+
+  // tables
+  prepareOutputDir(o.outDir, o.force ?? false);
+  const provenance: RunProvenance = { scenario: file.canonical, seed: 0, engine: 'analyze', shard: '1/1' };
+  const files: string[] = [];
+  writeManifest(o.outDir, { complete: false, seed: 0, engine: 'analyze', shard: '1/1', files, scenario: file.canonical });
+  writeShots(join(o.outDir, 'shots.arrow'), tableMetadata('shots', provenance), outcomes ?? ['0', '1'], spec.name,
+    { inPhase, quadrature, value, outcome, discarded, labels: scoreLabels, calibrationRows });
+  files.push('shots.arrow');
+  const summary = buildTable(summaryColumns(spec.name, n, calibrationRows, chain, c, scores), tableMetadata('summary', provenance));
+  writeFileAtomic(join(o.outDir, 'summary.arrow'), tableToIPC(summary, 'file'));
+  files.push('summary.arrow');
+  writeManifest(o.outDir, { complete: true, seed: 0, engine: 'analyze', shard: '1/1', files, scenario: file.canonical });
+  const calibrated = calibrationRows.reduce((a, x) => a + x, 0);
+  return { pipeline: spec.name, rows: n, calibrationRows: calibrated, outcome, value, discarded, scores, rule: c.rule, axis: c.axis, bins: chain.bins, files };
+}
+
+/** The stored calibration of pipeline `name` (point 0 when the table mixes points). */
+function storedFor(path: string, table: Table, name: string, named: boolean): StoredCalibration['pipelines'][number] {
+  const text = table.schema.metadata.get(`${META_PREFIX}calibration`);
+  let stored: StoredCalibration[] | null = null;
+  try {
+    stored = text === undefined ? null : (JSON.parse(text) as StoredCalibration[]);
+  } catch {
+    stored = null;
+  }
+  if (!stored || !Array.isArray(stored) || stored.length === 0 || !Array.isArray(stored[0]!.pipelines)) {
+    throw new InputError(path, `metadata ${META_PREFIX}calibration`, 'a stored calibration (written by run --keep-traces)', 'none');
+  }
+  const points = optionalIntegerColumn(table, 'point');
+  if (points && points.some((p) => p !== points[0]) && stored.length > 1) {
+    throw new InputError(path, 'column "point"', 'records of one sweep point (each point has its own calibration)', 'several points');
+  }
+  const point = stored.find((s) => s.point === (points?.[0] ?? stored![0]!.point)) ?? stored[0]!;
+  const list = point.pipelines;
+  const found = list.find((p) => p.name === name) ?? (!named && list.length === 1 ? list[0] : undefined);
+  if (!found) throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a calibration of pipeline "${name}" (stored: ${list.map((p) => `"${p.name}"`).join(', ')}); set name in the pipeline file`, 'none');
+  if (found.classifier !== 'threshold') throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a threshold pipeline ("${found.name}" uses the ${found.classifier} classifier)`, found.classifier);
+  return found;
+}
+
+/** Calibrates on the flagged rows from their labels (see the file comment of analyze-pipeline.ts). */
+function calibrateOnRows(
+  path: string, labelName: string, records: RecordColumn, chain0: PipelineChain, labels: Uint8Array, rows: Uint8Array,
+  threshold: ResolvedAnalysis['pipeline']['threshold'], referencePhase: number, resolved: ResolvedAnalysis,
+): Calibration {
+  const chain = chain0;
+  const picked: number[] = [];
+  for (let r = 0; r < rows.length; r++) if (rows[r]) picked.push(r);
+  const count = picked.length;
+  const bins = chain.bins;
+  const binsI = new Float64Array(count * bins), binsQ = chain.reference ? new Float64Array(count * bins) : null;
+  const scratch = makeProcessScratch(chain, records.samples);
+  const record = new Float64Array(records.samples);
+  const calLabels = new Uint8Array(count);
+  picked.forEach((r, j) => {
+    processRecord(chain, records.row(r, record), scratch, binsI, binsQ, j * bins);
+    calLabels[j] = labels[r]!;
+  });
+  // axis from the mean I/Q of each label (the boxcar over the bins)
+  const sums = [[0, 0, 0], [0, 0, 0]];
+  for (let j = 0; j < count; j++) {
+    const s = sums[calLabels[j]!]!;
+    s[0]! += integrateBins(binsI, j * bins, chain.binWeights);
+    s[1]! += binsQ ? integrateBins(binsQ, j * bins, chain.binWeights) : 0;
+    s[2]!++;
+  }
+  if (sums[0]![2] === 0 || sums[1]![2] === 0) {
+    throw new InputError(path, `column "${labelName}"`, 'calibration rows of both outcomes (raise calibration.fraction or check the labels)', `only outcome ${sums[0]![2] === 0 ? 1 : 0}`);
+  }
+  const axis = binsQ === null ? { cos: 1, sin: 0 }
+    : separationAxis(sums[0]![0]! / sums[0]![2]!, sums[0]![1]! / sums[0]![2]!, sums[1]![0]! / sums[1]![2]!, sums[1]![1]! / sums[1]![2]!);
+  const projected = projectRecords(binsI, binsQ, axis);
+  let weights = chain.binWeights;
+  if (chain.weights !== 'boxcar') {
+    try {
+      weights = weightsFromLabelled(chain.weights, projected, bins, calLabels);
+    } catch (e) {
+      throw new InputError(path, `column "${labelName}"`, `enough calibration rows for ${chain.weights} weights over ${bins} bins`, (e as Error).message);
+    }
+  }
+  const values: [number[], number[]] = [[], []];
+  for (let j = 0; j < count; j++) values[calLabels[j]!]!.push(integrateBins(projected, j * bins, weights));
+  const mean = (v: number[]) => v.reduce((a, x) => a + x, 0) / v.length;
+  const m0 = mean(values[0]), m1 = mean(values[1]);
+  let rule: ThresholdRule;
+  if (threshold.method === 'midpoint') rule = midpointThreshold(m0, m1);
+  else if (threshold.method === 'fixed') rule = { threshold: threshold.value, highIsOne: m1 >= m0 };
+  else {
+    const best = optimalThreshold(Float64Array.from(values[0]), Float64Array.from(values[1]));
+    rule = { threshold: best.threshold, highIsOne: best.highIsOne };
+  }
+  const band = resolved.pipeline.ambiguousBand ?? null;
+  const bandHalfWidth = band === null ? 0 : band.kind === 'width' ? band.value / 2 : (band.value * Math.abs(m1 - m0)) / 2;
+  return { axis, rule, weights, bandHalfWidth, referencePhase };
+}
+
+function scoreRows(labels: Uint8Array, outcome: Uint8Array, discarded: Uint8Array, outcomeNames: readonly string[]): AnalyzeScores {
+  const shots = [0, 0], errors = [0, 0];
+  let disc = 0, discWrong = 0;
+  for (let r = 0; r < labels.length; r++) {
+    const l = labels[r]!;
+    if (l > 1 || outcome[r] === 255) continue;
+    shots[l]!++;
+    const wrong = outcome[r] !== l;
+    if (wrong) errors[l]!++;
+    if (discarded[r]) {
+      disc++;
+      if (wrong) discWrong++;
+    }
+  }
+  const total = shots[0]! + shots[1]!, wrong = errors[0]! + errors[1]!;
+  return {
+    shots: total, errors: wrong, error: wilsonInterval(wrong, total, REPORT_CONFIDENCE),
+    byOutcome: [0, 1].map((o) => ({ outcome: outcomeNames[o]!, shots: shots[o]!, errors: errors[o]!, error: wilsonInterval(errors[o]!, shots[o]!, REPORT_CONFIDENCE) })),
+    discarded: disc, discardFraction: total > 0 ? disc / total : 0,
+    postSelectedError: wilsonInterval(wrong - discWrong, total - disc, REPORT_CONFIDENCE),
+    discardsAsFailuresError: wilsonInterval(wrong - discWrong + disc, total, REPORT_CONFIDENCE),
+  };
+}
+
+interface ShotColumns {
+  inPhase: Float64Array;
+  quadrature: Float64Array;
+  value: Float64Array;
+  outcome: Uint8Array;
+  discarded: Uint8Array;
+  labels: Uint8Array | null;
+  calibrationRows: Uint8Array;
+}
+
+/** shots.arrow of analyze: one row per decided (non-calibration) row, in batches of 65 536. */
+function writeShots(path: string, metadata: Map<string, string>, outcomes: readonly string[], pipeline: string, s: ShotColumns): void {
+  const dict = makeDictionaryColumn(1, outcomes);
+  const fields = [
+    unitField('row', new Uint32(), null), unitField('in_phase', new Float64(), null), unitField('quadrature', new Float64(), null),
+    unitField('value', new Float64(), null), unitField('outcome', dict.type, null), unitField('discarded', new Bool(), null),
+    ...(s.labels ? [unitField('label', dict.type, null, true), unitField('correct', new Bool(), null, true)] : []),
+  ];
+  const schema = new Schema(fields, new Map([...metadata, [`${META_PREFIX}pipeline`, pipeline]]));
+  const stream = new ArrowFileStream(path, schema);
+  try {
+    const decided: number[] = [];
+    for (let r = 0; r < s.outcome.length; r++) if (!s.calibrationRows[r]) decided.push(r);
+    for (let from = 0; from < decided.length || from === 0; from += 65536) {
+      const rows = decided.slice(from, from + 65536);
+      const pick = <T extends Float64Array | Uint8Array>(a: T, make: (n: number) => T): T => {
+        const out = make(rows.length);
+        rows.forEach((r, j) => { out[j] = a[r]!; });
+        return out;
+      };
+      const f64 = (a: Float64Array) => float64Data(pick(a, (k) => new Float64Array(k)));
+      const u8 = (a: Uint8Array) => pick(a, (k) => new Uint8Array(k));
+      const children = [
+        uint32Data(Uint32Array.from(rows)), f64(s.inPhase), f64(s.quadrature), f64(s.value),
+        dictionaryData(dict, u8(s.outcome)), boolData(u8(s.discarded)),
+      ];
+      if (s.labels) {
+        // unlabelled rows (255) get null label and correct
+        const label = u8(s.labels);
+        const valid = new Uint8Array((rows.length + 7) >> 3);
+        let nulls = 0;
+        label.forEach((l, j) => { if (l <= 1) valid[j >> 3]! |= 1 << (j & 7); else nulls++; });
+        const correct = Uint8Array.from(label, (l, j) => (l <= 1 && l === s.outcome[rows[j]!] ? 1 : 0));
+        const nullBitmap = nulls > 0 ? valid : undefined;
+        children.push(
+          makeData({ type: dict.type, length: rows.length, nullCount: nulls, nullBitmap, data: Uint8Array.from(label, (l) => (l <= 1 ? l : 0)), dictionary: dict.dictionary }),
+          makeData({ type: new Bool(), length: rows.length, nullCount: nulls, nullBitmap, data: boolData(correct).values }),
+        );
+      }
+      stream.write(new RecordBatch(schema, makeData({ type: new Struct(fields), length: rows.length, nullCount: 0, children })));
+      if (decided.length === 0) break;
+    }
+    stream.finish();
+  } catch (e) {
+    stream.abort();
+    throw e;
+  }
+}
+
+function summaryColumns(
+  pipeline: string, rows: number, calibrationRows: Uint8Array, chain: PipelineChain, c: Calibration, scores: AnalyzeScores | null,
+) {
+  const calibrated = calibrationRows.reduce((a, x) => a + x, 0);
+  const f = (name: string, v: number | null) => ({ name, kind: 'f64' as const, unit: '', values: [v] });
+  const u = (name: string, v: number) => ({ name, kind: 'u32' as const, unit: null, values: [v] });
+  return [
+    { name: 'pipeline', kind: 'str' as const, unit: null, values: [pipeline] },
+    u('rows', rows), u('calibration_rows', calibrated), u('decided_rows', rows - calibrated),
+    u('scored_shots', scores?.shots ?? 0),
+    f('mean_error', scores?.error.rate ?? null), f('mean_error_low', scores?.error.low ?? null), f('mean_error_high', scores?.error.high ?? null),
+    ...(scores?.byOutcome ?? []).flatMap((b) => [
+      f(`error_${b.outcome}`, b.error.rate), f(`error_${b.outcome}_low`, b.error.low), f(`error_${b.outcome}_high`, b.error.high),
+    ]),
+    f('discard_fraction', scores?.discardFraction ?? null),
+    f('post_selected_error', scores?.postSelectedError.rate ?? null),
+    f('discards_as_failures_error', scores?.discardsAsFailuresError.rate ?? null),
+    f('threshold', c.rule.threshold), { name: 'high_is_one', kind: 'bool' as const, unit: null, values: [c.rule.highIsOne] },
+    { ...f('axis_angle', Math.atan2(c.axis.sin, c.axis.cos)), unit: 'rad' }, { ...f('reference_phase', c.referencePhase), unit: 'rad' },
+    u('bins', chain.bins), { ...f('sample_rate', chain.sampleRate), unit: 'Hz' },
+  ];
+}

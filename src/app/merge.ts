@@ -1,0 +1,271 @@
+/**
+ * `singleshot merge DIR... --out DIR`: the folders of `run --shard K/N` put back together into
+ * the folder the unsharded run would have written, byte for byte.
+ *
+ * Checks first: every folder holds a finished run of this singleshot version; all ran the same
+ * scenario (canonical JSON), seed and engine; their shards are parts of the same N and cover
+ * every part exactly once. Then, per point: the calibrations agree (every shard calibrated on the
+ * same shots), the scored batch ranges follow each other without gap or overlap, and the tally
+ * trees are pushed in shard order, which rebuilds exactly the unsharded tree
+ * (analysis/tally-tree.ts). The summary, budget and comparison tables are recomputed from those
+ * tallies by the same code as `run`; shots.arrow and traces.arrow are concatenated record
+ * batch by record batch, point by point in shard order.
+ */
+import { open } from 'node:fs/promises';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { Data, makeData, RecordBatch, RecordBatchReader, Schema, Struct, type Vector } from 'apache-arrow';
+import { InputError } from '../errors.ts';
+import { mergePairTallies } from '../analysis/compare.ts';
+import { pushNode, type TallyNode } from '../analysis/tally-tree.ts';
+import { batchCount } from '../run/batches.ts';
+import { finishPoint, setUpPoint, type PointResult, type RunResult } from '../run/run-points.ts';
+import { resolveScenario } from '../scenario/resolve.ts';
+import { ArrowFileStream } from '../io/arrow-sink.ts';
+import { checkArrowFile } from '../io/arrow-read.ts';
+import { readManifest, writeManifest, MANIFEST, type Manifest } from '../io/manifest.ts';
+import { META_PREFIX, TOOL_VERSION, type RunProvenance } from '../io/metadata.ts';
+import { prepareOutputDir } from '../io/output-dir.ts';
+import { writeResultTables } from './result-tables.ts';
+import { encodeData, readTallies, runTallies, TALLIES, writeTallies, type PointTallies, type RunTallies } from './tallies.ts';
+import { expandPoints } from './run-to-directory.ts';
+import { writeReport } from './report.ts';
+
+/** Tables a merge concatenates (when the shards have them). */
+const STREAMED_TABLES = ['shots.arrow', 'traces.arrow'] as const;
+
+export interface MergeOptions {
+  /** The shard folders, in any order. */
+  dirs: string[];
+  outDir: string;
+  force?: boolean;
+  /** Write report.html when the shards have one (default true). */
+  report?: boolean;
+}
+
+export interface MergeResult {
+  result: RunResult;
+  files: string[];
+  /** The shard folders in shard order. */
+  shards: string[];
+}
+
+interface Shard {
+  dir: string;
+  manifest: Manifest;
+  k: number;
+  n: number;
+  tallies: RunTallies;
+}
+
+function where(dir: string): string {
+  return join(dir, MANIFEST);
+}
+
+function parseShard(dir: string, m: Manifest): { k: number; n: number } {
+  const match = /^(\d+)\/(\d+)$/.exec(m.shard);
+  const k = match ? Number(match[1]) : NaN, n = match ? Number(match[2]) : NaN;
+  if (!match || n < 1 || k < 1 || k > n) throw new InputError(where(dir), 'shard', 'a shard "K/N" with 1 ≤ K ≤ N', JSON.stringify(m.shard));
+  return { k, n };
+}
+
+/** Reads and checks the shards; returns them in shard order. */
+export function checkShards(dirs: readonly string[]): Shard[] {
+  if (dirs.length === 0) throw new InputError('merge', '', 'at least one shard folder');
+  const shards: Shard[] = dirs.map((dir) => {
+    const manifest = readManifest(dir, true);
+    return { dir, manifest, ...parseShard(dir, manifest), tallies: null as unknown as RunTallies };
+  });
+  const a = shards[0]!;
+  for (const s of shards) {
+    const m = s.manifest;
+    if (m.version !== TOOL_VERSION) {
+      throw new InputError(where(s.dir), 'version', `a run made by singleshot ${TOOL_VERSION} (this version)`, `version ${m.version}`);
+    }
+    if (m.seed !== a.manifest.seed) {
+      throw new InputError(where(s.dir), 'seed', `seed ${a.manifest.seed} like ${a.dir} (shards of one run share the seed)`, `seed ${m.seed}: a shard of another run`);
+    }
+    if (m.scenario !== a.manifest.scenario) {
+      throw new InputError(where(s.dir), 'scenario', `the scenario of ${a.dir}`, 'a different scenario: a shard of another run');
+    }
+    if (m.engine !== a.manifest.engine) {
+      throw new InputError(where(s.dir), 'engine', `the ${a.manifest.engine} engine like ${a.dir}`, `the ${m.engine} engine`);
+    }
+    if (s.n !== a.n) throw new InputError(where(s.dir), 'shard', `a part of ${a.n} like ${a.dir} (shard ${a.manifest.shard})`, `shard ${m.shard}`);
+    for (const t of STREAMED_TABLES) {
+      if (m.files.includes(t) !== a.manifest.files.includes(t)) {
+        throw new InputError(where(s.dir), 'files', `${t} ${a.manifest.files.includes(t) ? 'present' : 'absent'} like in ${a.dir}`, m.files.includes(t) ? 'present' : 'absent');
+      }
+    }
+  }
+  const byK = new Map<number, Shard>();
+  for (const s of shards) {
+    const seen = byK.get(s.k);
+    if (seen) throw new InputError(where(s.dir), 'shard', `each shard once`, `shard ${s.k}/${s.n} again (also in ${seen.dir})`);
+    byK.set(s.k, s);
+  }
+  const missing = Array.from({ length: a.n }, (_, i) => i + 1).filter((k) => !byK.has(k));
+  if (missing.length > 0) {
+    throw new InputError('merge', '', `all ${a.n} shards of the run`, `no shard ${missing.map((k) => `${k}/${a.n}`).join(', ')} among the ${shards.length} folder${shards.length === 1 ? '' : 's'} given`);
+  }
+  const ordered = [...byK.keys()].sort((x, y) => x - y).map((k) => byK.get(k)!);
+  for (const s of ordered) {
+    s.tallies = readTallies(s.dir);
+    const t = s.tallies;
+    if (t.seed !== s.manifest.seed || t.scenario !== s.manifest.scenario || t.engine !== s.manifest.engine || t.version !== s.manifest.version) {
+      throw new InputError(join(s.dir, TALLIES), '', `tallies of the run in ${where(s.dir)}`, 'tallies of another run');
+    }
+  }
+  return ordered;
+}
+
+/** The merged tallies of one point across the shards (in shard order). */
+function mergePoint(shards: readonly Shard[], k: number, totalBatches: number): Omit<PointTallies, 'calibrations'> & { calibrations: PointTallies['calibrations'] } {
+  const parts = shards.map((s) => s.tallies.points[k]!);
+  const first = parts[0]!;
+  const calibration = JSON.stringify(encodeData(first.calibrations));
+  let end = 0;
+  const stacks: TallyNode[][] = first.stacks.map(() => []);
+  let pairs = first.pairs.map((p) => ({ a: p.a, b: p.b, counts: { bothWrong: 0, onlyAWrong: 0, onlyBWrong: 0, n: 0 } }));
+  const counts: Record<string, number> = {};
+  parts.forEach((part, i) => {
+    const dir = shards[i]!.dir;
+    const file = join(dir, TALLIES);
+    if (part.index !== first.index) throw new InputError(file, `points[${k}]`, `point ${first.index} like ${shards[0]!.dir}`, `point ${part.index}`);
+    if (JSON.stringify(encodeData(part.calibrations)) !== calibration) {
+      throw new InputError(file, `points[${k}].calibrations`, `the calibration of ${shards[0]!.dir} (every shard calibrates on the same shots)`, 'a different one');
+    }
+    const [a, b] = part.batches;
+    if (a !== end) throw new InputError(file, `points[${k}].batches`, `scored batches from ${end}`, `batches [${a}, ${b})`);
+    end = b;
+    part.stacks.forEach((stack, p) => {
+      for (const node of stack) {
+        try {
+          pushNode(stacks[p]!, node);
+        } catch (e) {
+          throw new InputError(file, `points[${k}].stacks`, 'tally nodes that follow the previous shard', (e as Error).message);
+        }
+      }
+    });
+    pairs = mergePairTallies(pairs, part.pairs);
+    for (const [key, v] of Object.entries(part.counts)) counts[key] = (counts[key] ?? 0) + v;
+  });
+  if (end !== totalBatches) throw new InputError('merge', `point ${first.index}`, `scored batches [0, ${totalBatches})`, `[0, ${end})`);
+  return { index: first.index, batches: [0, end], calibrations: first.calibrations, stacks, pairs, counts };
+}
+
+/** A record batch whose dictionary columns use the given dictionaries (so a writer writes them once). */
+function withDictionaries(batch: RecordBatch, schema: Schema, dictionaries: Map<number, Vector>): RecordBatch {
+  const children = batch.data.children.map((child: Data, i: number) => {
+    const f = schema.fields[i]!;
+    const id = (f.type as { id?: number }).id;
+    if (child.dictionary === undefined || id === undefined) return child;
+    const known = dictionaries.get(id);
+    if (!known) {
+      dictionaries.set(id, child.dictionary);
+      return child;
+    }
+    if (known === child.dictionary) return child;
+    if (JSON.stringify(known.toArray()) !== JSON.stringify(child.dictionary.toArray())) {
+      throw new Error(`merge: column ${f.name} has different dictionaries in the shards`);
+    }
+    return makeData({ type: child.type, offset: child.offset, length: child.length, nullCount: child.nullCount, data: child.values, nullBitmap: child.nullBitmap, dictionary: known } as never);
+  });
+  return new RecordBatch(schema, makeData({ type: new Struct(schema.fields), length: batch.numRows, nullCount: 0, children }));
+}
+
+/** Concatenates one streamed table of the shards, point by point, shard by shard. */
+async function concatenateTable(name: string, shards: readonly Shard[], pointOrder: readonly number[], outDir: string): Promise<void> {
+  // hostile files (empty, truncated, foreign, wrong table) are InputErrors before anything is read
+  for (const s of shards) await checkArrowFile(join(s.dir, name), name.replace(/\.arrow$/, ''), ['point']);
+  const readers = await Promise.all(shards.map(async (s) => {
+    const handle = await open(join(s.dir, name), 'r');
+    const reader = await RecordBatchReader.from(handle);
+    await reader.open();
+    return { handle, reader, it: reader[Symbol.asyncIterator](), peeked: null as RecordBatch | null, done: false };
+  }));
+  const source = readers[0]!.reader.schema;
+  const metadata = new Map(source.metadata);
+  metadata.set(`${META_PREFIX}shard`, '1/1');
+  const schema = new Schema(source.fields, metadata);
+  const out = new ArrowFileStream(join(outDir, name), schema);
+  const dictionaries = new Map<number, Vector>();
+  const peek = async (r: (typeof readers)[number]): Promise<RecordBatch | null> => {
+    if (!r.peeked && !r.done) {
+      const next = await r.it.next();
+      if (next.done) r.done = true;
+      // a file without record batches reads as one empty placeholder batch: nothing to copy
+      else if ((next.value as RecordBatch).numRows > 0) r.peeked = next.value as RecordBatch;
+      else return peek(r);
+    }
+    return r.peeked;
+  };
+  const pointOf = (b: RecordBatch): number => (schema.fields.some((f) => f.name === 'point') ? Number(b.getChild('point')!.get(0)) : pointOrder[0]!);
+  try {
+    for (const p of pointOrder) {
+      for (const r of readers) {
+        for (let b = await peek(r); b && pointOf(b) === p; b = await peek(r)) {
+          out.write(withDictionaries(b, schema, dictionaries));
+          r.peeked = null;
+        }
+      }
+    }
+    for (const [i, r] of readers.entries()) {
+      if (await peek(r)) throw new InputError(join(shards[i]!.dir, name), '', 'batches of the points in tallies.json only', 'batches of another point');
+    }
+    out.finish();
+  } catch (e) {
+    out.abort();
+    throw e;
+  } finally {
+    await Promise.all(readers.map((r) => r.handle.close()));
+  }
+}
+
+/** Merges shard folders into `outDir`. */
+export async function mergeRuns(o: MergeOptions): Promise<MergeResult> {
+  const shards = checkShards(o.dirs);
+  const a = shards[0]!;
+  const label = where(a.dir);
+  const doc = JSON.parse(a.manifest.scenario) as unknown;
+  const { scenario, warnings } = resolveScenario(doc, label);
+  const sweepPoints = expandPoints({ doc, canonical: a.manifest.scenario, scenario, warnings }, label);
+  const pointCount = a.tallies.points.length;
+  for (const s of shards) {
+    if (s.tallies.points.length !== pointCount) throw new InputError(join(s.dir, TALLIES), 'points', `${pointCount} points like ${a.dir}`, String(s.tallies.points.length));
+  }
+  const merged = Array.from({ length: pointCount }, (_, k) => {
+    const index = a.tallies.points[k]!.index;
+    const sp = sweepPoints[index];
+    if (!sp) throw new InputError(join(a.dir, TALLIES), `points[${k}]`, `a point of the scenario's ${sweepPoints.length}`, `point ${index}`);
+    return { sp, tallies: mergePoint(shards, k, batchCount(sp.scenario, 'score')) };
+  });
+  const points: PointResult[] = merged.map(({ sp, tallies }) => {
+    const r = setUpPoint(tallies.index, sp, tallies.calibrations);
+    r.tallyStacks = tallies.stacks;
+    r.pairs = tallies.pairs;
+    Object.assign(r, tallies.counts);
+    finishPoint(r);
+    return r;
+  });
+  prepareOutputDir(o.outDir, o.force ?? false);
+  const m = a.manifest;
+  const provenance: RunProvenance = { scenario: m.scenario, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1' };
+  const files: string[] = [];
+  const mergedFrom = shards.map((s) => s.dir);
+  writeManifest(o.outDir, { complete: false, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
+  const order = points.map((p) => p.index);
+  for (const t of STREAMED_TABLES) {
+    if (!m.files.includes(t)) continue;
+    await concatenateTable(t, shards, order, o.outDir);
+    files.push(t);
+  }
+  files.push(...writeResultTables(o.outDir, points, provenance, points[0]!.scenario.signal.unit, sweepPoints[0]!.units ?? {}));
+  const tallies = runTallies(points, merged.map((x) => x.tallies.batches), { seed: m.seed, engine: m.engine, scenario: m.scenario });
+  writeTallies(o.outDir, tallies);
+  files.push(TALLIES);
+  writeManifest(o.outDir, { complete: true, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
+  if (o.report !== false && existsSync(join(a.dir, 'report.html'))) await writeReport(o.outDir);
+  const result: RunResult = { points, engine: m.engine, engineReason: m.engineReason ?? '' };
+  return { result, files, shards: mergedFrom };
+}

@@ -1,0 +1,168 @@
+/**
+ * The `run` job as a library function: scenario file in, tables in a folder out.
+ * shots.arrow streams batch by batch; summary.arrow and budget.arrow follow at the end;
+ * run.json marks the folder complete last.
+ */
+import { join } from 'node:path';
+import { loadScenarioFile } from '../scenario/load.ts';
+import type { ScenarioOverrides } from '../scenario/overrides.ts';
+import type { SweepSpec } from '../scenario/types.ts';
+import { runPoints, type BatchExecutor, type RunOptions, type RunResult, type SweepPoint } from '../run/run-points.ts';
+import { ArrowFileStream } from '../io/arrow-sink.ts';
+import { writeManifest } from '../io/manifest.ts';
+import { tableMetadata, type RunProvenance } from '../io/metadata.ts';
+import { prepareOutputDir } from '../io/output-dir.ts';
+import { shotRecordBatches, shotsLayout } from '../io/tables/shots.ts';
+import { traceRecordBatch, tracesLayout, withKeptTraces, type TracesLayout } from '../io/tables/traces.ts';
+import { estimateRun, keptTracesEstimate, type RunEstimate } from '../run/estimate.ts';
+import { freeResources, guardResources, type FreeResources } from './resource-guard.ts';
+import { abortSignalName, interruptibleExecutor, RunInterrupted } from '../run/interrupt.ts';
+import { inProcessExecutor } from '../run/run-points.ts';
+import { expandSweep } from '../run/sweep.ts';
+import { checkRefineRequest, refineWithin, type RefineRequest, type RefineOutcome } from './refine-run.ts';
+import { writeReport } from './report.ts';
+import { resolveEngine } from '../run/run-points.ts';
+import type { EngineRequest } from '../engine/choose.ts';
+import { defaultWorkers, workerPoolExecutor } from '../run/pool.ts';
+import { batchCount, shardRange } from '../run/batches.ts';
+import { writeResultTables } from './result-tables.ts';
+import { runTallies, TALLIES, writeTallies } from './tallies.ts';
+
+export interface RunToDirectoryOptions extends ScenarioOverrides {
+  scenarioPath: string;
+  outDir: string;
+  force?: boolean;
+  /** Write shots.arrow (default true). */
+  shotsTable?: boolean;
+  shard?: { index: number; count: number };
+  executor?: BatchExecutor;
+  onProgress?: (done: number, total: number) => void;
+  onWarning?: (message: string) => void;
+  /** Stream every scored shot's record (raw) or demodulated I/Q (baseband) to traces.arrow. */
+  keepTraces?: 'raw' | 'baseband';
+  /** Aborting it stops the run at the next batch (RunInterrupted; run.json stays complete: false). */
+  signal?: AbortSignal;
+  /** Called with the resource estimate before anything is written. */
+  onEstimate?: (estimate: RunEstimate) => void;
+  /** What is free for the run (default: measured); the guard refuses more unless `force`. */
+  free?: FreeResources;
+  /** Refine the lowest-error point along one swept value with extra points (golden section). */
+  refine?: RefineRequest;
+  /** Write report.html after the tables (default true). */
+  report?: boolean;
+  /** Engine: exact, traces or auto (default traces; the CLI's default is auto). */
+  engine?: EngineRequest;
+  /**
+   * Simulation threads; ignored when `executor` is given. Default: every core for a trace-engine
+   * run estimated to take over POOL_MIN_SECONDS, else 1 (this thread) — starting a worker costs
+   * about a second, and the exact engine's time goes mostly into scoring on this thread.
+   */
+  workers?: number;
+}
+
+export interface RunToDirectoryResult {
+  result: RunResult;
+  provenance: RunProvenance;
+  files: string[];
+  warnings: string[];
+  /** What refinement did, when asked. */
+  refinement?: RefineOutcome;
+  /** Path of report.html, or null when not written. */
+  report?: string | null;
+  /** The scenario's sweep section (absent when nothing is swept). */
+  sweep?: SweepSpec;
+}
+
+/** Runs estimated shorter than this (s) stay on one thread unless `workers` is given. */
+export const POOL_MIN_SECONDS = 2;
+/** ... and so do runs whose batches are estimated shorter than this (s). */
+export const POOL_MIN_BATCH_SECONDS = 5e-3;
+
+
+/** The sweep points of a loaded scenario, as `run` makes them (merge rebuilds points this way). */
+export function expandPoints(loaded: Awaited<ReturnType<typeof loadScenarioFile>>, file: string): SweepPoint[] {
+  return expandSweep(loaded.doc, loaded.scenario, file);
+}
+
+export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDirectoryResult> {
+  const loaded = await loadScenarioFile(o.scenarioPath, { shots: o.shots, seed: o.seed });
+  loaded.warnings.forEach((w) => o.onWarning?.(w));
+  const points = withKeptTraces(expandPoints(loaded, o.scenarioPath), o.keepTraces);
+  if (o.refine) checkRefineRequest(o.refine, loaded, o.scenarioPath, o.shard);
+  // the engine is chosen before anything is estimated or written: the estimate depends on it,
+  // and every table's metadata names it and why
+  const choice = resolveEngine(points, o.engine);
+  const estimate = estimateRun(points.map((p) => p.scenario), {
+    shotsTable: o.shotsTable !== false, shard: o.shard, workers: o.workers, engine: choice.engine,
+    traces: o.keepTraces ? keptTracesEstimate(points[0]!.scenario, o.keepTraces) : undefined,
+  });
+  o.onEstimate?.(estimate);
+  guardResources(o.scenarioPath, estimate, o.free ?? freeResources(o.outDir), o.force ?? false);
+  if (o.signal?.aborted) throw new RunInterrupted(abortSignalName(o.signal), `${o.outDir} was not touched`);
+  prepareOutputDir(o.outDir, o.force ?? false);
+  const first = points[0]!.scenario;
+  const shard = o.shard ? `${o.shard.index + 1}/${o.shard.count}` : '1/1';
+  const provenance: RunProvenance = { scenario: loaded.canonical, seed: first.seed, engine: choice.engine, engineReason: choice.reason, shard };
+  const files: string[] = [];
+  writeManifest(o.outDir, { complete: false, seed: first.seed, engine: provenance.engine, engineReason: choice.reason, shard, files, scenario: loaded.canonical });
+  const scoredBatches = points.reduce((n, p) => n + batchCount(p.scenario, 'score'), 0);
+  // threads pay off when a batch costs more than handing it over: trace-engine batches, and
+  // exact-engine ones with 1/f timelines to synthesise (plain exact batches take under a millisecond)
+  const perBatch = estimate.seconds / Math.max(1, scoredBatches);
+  const workers = o.workers ?? (estimate.seconds > POOL_MIN_SECONDS && perBatch > POOL_MIN_BATCH_SECONDS ? defaultWorkers() : 1);
+  const pool = !o.executor && workers > 1 && scoredBatches > 1 ? workerPoolExecutor(Math.min(workers, scoredBatches)) : null;
+  const executor = o.executor ?? pool ?? inProcessExecutor();
+  const outcomeOf = first.states.map((s) => s.outcome);
+  const layout = shotsLayout(first, tableMetadata('shots', provenance));
+  const shots = o.shotsTable === false ? null : new ArrowFileStream(join(o.outDir, 'shots.arrow'), layout.schema);
+  // traces.arrow opens once the calibration (stored in its metadata) is known
+  const traces: { stream: ArrowFileStream; layout: TracesLayout }[] = [];
+  const onScoredBatch: RunOptions['onScoredBatch'] = shots || o.keepTraces ? (p, b, scored) => {
+    if (shots) for (const rb of shotRecordBatches(layout, b, scored, outcomeOf)) shots.write(rb);
+    // refinement points come after the calibrations traces.arrow records: they keep no traces
+    if (p.index < points.length) for (const t of traces) t.stream.write(traceRecordBatch(t.layout, b, outcomeOf));
+  } : undefined;
+  let result: RunResult;
+  let refinement: RefineOutcome | undefined;
+  try {
+    result = await runPoints(points, {
+      executor: o.signal ? interruptibleExecutor(executor, o.signal) : executor, engine: choice, shard: o.shard, onProgress: o.onProgress,
+      onCalibrated: o.keepTraces ? (calibrated) => {
+        const tl = tracesLayout(first, o.keepTraces!, calibrated[0]?.compiled.grid.samples ?? 0, tableMetadata('traces', provenance), calibrated);
+        traces.push({ stream: new ArrowFileStream(join(o.outDir, 'traces.arrow'), tl.schema), layout: tl });
+      } : undefined,
+      onScoredBatch,
+    });
+    if (o.refine) refinement = await refineWithin(o.refine, loaded, o.scenarioPath, points, result, { onScoredBatch, signal: o.signal, onProgress: o.onProgress, shard: o.shard });
+    shots?.finish();
+    for (const t of traces) t.stream.finish();
+  } catch (e) {
+    shots?.abort();
+    for (const t of traces) t.stream.abort();
+    if (e instanceof RunInterrupted) throw new RunInterrupted(e.signal, `${o.outDir} holds an unfinished run (run.json complete: false)`);
+    throw e;
+  } finally {
+    await pool?.close();
+  }
+  if (shots) files.push('shots.arrow');
+  if (traces.length > 0) files.push('traces.arrow');
+  provenance.engine = result.engine;
+  for (const p of result.points) {
+    // noise/sensor: a clipping digitizer makes the values non-linear in the noise
+    if (p.clippedSamples) {
+      const w = `point ${p.index}: the digitizer clipped ${p.clippedSamples} scored record samples (see signal.digitizer); the predicted σ does not include clipping`;
+      loaded.warnings.push(w);
+      o.onWarning?.(w);
+    }
+  }
+  const unit = first.signal.unit;
+  const sweptUnits = points[0]!.units ?? {};
+  files.push(...writeResultTables(o.outDir, result.points, provenance, unit, sweptUnits));
+  // what `merge` needs to rebuild these tables from shards, bit for bit
+  const ranges = result.points.map((p) => shardRange(batchCount(p.scenario, 'score'), o.shard));
+  writeTallies(o.outDir, runTallies(result.points, ranges, { seed: first.seed, engine: result.engine, scenario: loaded.canonical }));
+  files.push(TALLIES);
+  writeManifest(o.outDir, { complete: true, seed: first.seed, engine: result.engine, engineReason: result.engineReason, shard, files, scenario: loaded.canonical });
+  const report = o.report === false ? null : (await writeReport(o.outDir)).path;
+  return { result, provenance, files, warnings: loaded.warnings, refinement, report, sweep: loaded.scenario.sweep };
+}

@@ -1,0 +1,144 @@
+/**
+ * tallies.json: what `merge` needs from each shard to rebuild the unsharded result exactly —
+ * per point, the scored batch range, the calibrations, each pipeline's pending tally-tree nodes
+ * (integer counts and clean-shot moments, analysis/tally-tree.ts) and the paired counts.
+ *
+ * Numbers must survive bit for bit: JSON's shortest round-trip form does that for finite
+ * doubles; −0, NaN and ±∞ and typed arrays are written as small tagged objects. Functions
+ * (e.g. a built classifier's methods) are not data: they are recorded by name and come back as
+ * stubs that throw if called (a merge never needs them: it only recomputes tables).
+ */
+import { join } from 'node:path';
+import { InputError } from '../errors.ts';
+import type { PairTally } from '../analysis/compare.ts';
+import type { TallyNode } from '../analysis/tally-tree.ts';
+import type { PipelineCalibration } from '../classify/calibrate.ts';
+import type { PointResult } from '../run/run-points.ts';
+import { writeFileAtomic } from '../io/atomic-file.ts';
+import { readJsonFile } from '../io/json-file.ts';
+import { TOOL_VERSION } from '../io/metadata.ts';
+
+export const TALLIES = 'tallies.json';
+/** Layout version of tallies.json. */
+export const TALLIES_FORMAT = 1;
+
+const TYPED = {
+  Float64Array, Float32Array, Int32Array, Uint32Array, Int16Array, Uint16Array, Int8Array, Uint8Array,
+} as const;
+type TypedName = keyof typeof TYPED;
+
+function encodeNumber(x: number): unknown {
+  if (Number.isNaN(x)) return { $num: 'NaN' };
+  if (x === Infinity) return { $num: 'Infinity' };
+  if (x === -Infinity) return { $num: '-Infinity' };
+  if (Object.is(x, -0)) return { $num: '-0' };
+  return x;
+}
+
+function decodeNumber(tag: string): number {
+  return tag === 'NaN' ? NaN : tag === 'Infinity' ? Infinity : tag === '-Infinity' ? -Infinity : -0;
+}
+
+/** A JSON-safe form of plain data with typed arrays, exact for every double. */
+export function encodeData(v: unknown): unknown {
+  if (typeof v === 'number') return encodeNumber(v);
+  if (typeof v === 'function') return { $function: v.name || 'anonymous' };
+  if (v === null || typeof v !== 'object') return v;
+  if (ArrayBuffer.isView(v)) {
+    const name = v.constructor.name as TypedName;
+    if (!(name in TYPED)) throw new Error(`tallies: cannot store a ${name}`);
+    return { $typed: name, values: Array.from(v as unknown as ArrayLike<number>, encodeNumber) };
+  }
+  if (Array.isArray(v)) return v.map(encodeData);
+  const out: Record<string, unknown> = {};
+  for (const [k, x] of Object.entries(v)) if (x !== undefined) out[k] = encodeData(x);
+  return out;
+}
+
+/** The inverse of encodeData. */
+export function decodeData(v: unknown): unknown {
+  if (v === null || typeof v !== 'object') return v;
+  if (Array.isArray(v)) return v.map(decodeData);
+  const o = v as Record<string, unknown>;
+  if (typeof o.$num === 'string') return decodeNumber(o.$num);
+  if (typeof o.$function === 'string') {
+    const name = o.$function;
+    return () => { throw new Error(`${name} is not available in merged results`); };
+  }
+  if (typeof o.$typed === 'string' && Array.isArray(o.values)) {
+    const Ctor = TYPED[o.$typed as TypedName];
+    if (!Ctor) throw new Error(`tallies: unknown array type ${o.$typed}`);
+    return Ctor.from(o.values.map((x) => decodeData(x) as number));
+  }
+  const out: Record<string, unknown> = {};
+  for (const [k, x] of Object.entries(o)) out[k] = decodeData(x);
+  return out;
+}
+
+/** One point's part of a shard's tallies. */
+export interface PointTallies {
+  index: number;
+  /** Scored batches [first, end) this run covered. */
+  batches: [number, number];
+  calibrations: PipelineCalibration[];
+  /** Per pipeline: the pending tally-tree nodes. */
+  stacks: TallyNode[][];
+  pairs: PairTally[];
+  /** Any other per-point count a run accumulates (summed by merge), e.g. clipped samples. */
+  counts: Record<string, number>;
+}
+
+/** The tallies of a run or shard. */
+export interface RunTallies {
+  tool: 'singleshot';
+  format: number;
+  version: string;
+  seed: number;
+  engine: string;
+  scenario: string;
+  points: PointTallies[];
+}
+
+/** Per-point counts that a run adds up and a merge must add up too. */
+export const SUMMED_POINT_COUNTS = ['clippedSamples'] as const;
+
+/** The tallies of finished points (batch ranges from the shard plan). */
+export function runTallies(
+  points: readonly PointResult[], batches: readonly [number, number][], info: { seed: number; engine: string; scenario: string },
+): RunTallies {
+  return {
+    tool: 'singleshot', format: TALLIES_FORMAT, version: TOOL_VERSION, ...info,
+    points: points.map((p, i) => ({
+      index: p.index, batches: batches[i]!, calibrations: p.calibrations, stacks: p.tallyStacks, pairs: p.pairs,
+      counts: Object.fromEntries(SUMMED_POINT_COUNTS.flatMap((k) => {
+        const v = (p as unknown as Record<string, unknown>)[k];
+        return typeof v === 'number' ? [[k, v]] : [];
+      })),
+    })),
+  };
+}
+
+/** The text of tallies.json (deterministic for the same tallies). */
+export function talliesText(t: RunTallies): string {
+  return JSON.stringify(encodeData(t)) + '\n';
+}
+
+export function writeTallies(dir: string, t: RunTallies): void {
+  writeFileAtomic(join(dir, TALLIES), talliesText(t));
+}
+
+/** Reads a folder's tallies.json; refuses a missing or foreign one. */
+export function readTallies(dir: string): RunTallies {
+  const path = join(dir, TALLIES);
+  const raw = readJsonFile(path, 'not found: this run kept no tallies (it was made by an older singleshot?), so it cannot be merged');
+  let t: RunTallies;
+  try {
+    t = decodeData(raw) as RunTallies;
+  } catch {
+    throw new InputError(path, '', 'is not valid JSON');
+  }
+  if (t.tool !== 'singleshot' || t.format !== TALLIES_FORMAT || !Array.isArray(t.points)) {
+    throw new InputError(path, 'format', `singleshot tallies format ${TALLIES_FORMAT}`, JSON.stringify(t.format));
+  }
+  return t;
+}

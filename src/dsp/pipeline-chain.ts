@@ -1,0 +1,154 @@
+/**
+ * One pipeline compiled for a sample grid: its chain (demodulation reference, designed filter,
+ * decimation, window, bin weights) and the linear kernels K_I, K_Q on the record grid that give
+ * the integrated value in one dot product.
+ *
+ * The chain, on a record x[k] with sample rate fs:
+ *   1. demodulate on [processLo, processHi): I[k] = x[k]·2cos θ_k, Q[k] = −x[k]·2sin θ_k
+ *      (baseband: I = x, no Q);
+ *   2. filter I and Q from rest, starting at processLo: y = h ∗ I;
+ *   3. decimate by D over the window [windowLo, windowHi): bin b is the filtered sample at the
+ *      END of block b, y[windowLo + (b+1)·D − 1], b = 0 … bins−1, bins = ⌊L/D⌋ (an incomplete
+ *      last block is dropped); with the default block-average filter (a moving average of D
+ *      samples) bin b is the mean of block b;
+ *   4. weights: value = Σ_b w_b·bin_b (boxcar w_b = 1/bins; matched/optimal from calibration).
+ * processLo is where filtering from rest gives the same bins as filtering from the record start:
+ * the window start for no filter, (taps − 1) samples earlier for an FIR, the record start for
+ * an IIR filter. processHi is one past the last bin's sample.
+ *
+ * Steps 1–4 are linear in x, so value_I = Σ_m K_I[m]·x[m] with K_I[m] = 2cos θ_m·g[m], where
+ * g = Hᵀu is the filter's transpose applied to the weights placed on the bin samples (u[t_b] = w_b):
+ * `applyFilterAdjoint` filters the time-reversed u. plan/process.ts runs the same chain record by
+ * record; test/plan/process.test.ts checks both agree.
+ */
+import { applyFilterAdjoint, designFilter, type DesignedFilter, type FilterSpec } from './filter-spec.ts';
+import { makeReference, type Reference } from './demodulate.ts';
+import { boxcarKernels, type LinearKernels } from './integrate.ts';
+import { firstSampleAtOrAfter, type Grid } from '../signal/grid.ts';
+import type { AmbiguousBand, ClassifierKind, PipelineSpec, WeightsKind } from '../scenario/types.ts';
+
+/** Everything the per-record processing of one pipeline needs. */
+export interface PipelineChain {
+  sampleRate: number;
+  /** Demodulation reference on the record grid; null at baseband (no Q). */
+  reference: Reference | null;
+  /** The designed low-pass, or null for none. */
+  filter: DesignedFilter | null;
+  /** Decimation factor D. */
+  factor: number;
+  /** This pipeline's window in samples, [windowLo, windowHi). */
+  windowLo: number;
+  windowHi: number;
+  /** Decimated bins in the window, ⌊(windowHi − windowLo)/D⌋ ≥ 1. */
+  bins: number;
+  /** First sample read (filtering from rest starts here). */
+  processLo: number;
+  /** One past the last sample read (the last bin's sample + 1). */
+  processHi: number;
+  /** Duration of one bin, D/fs (s). */
+  binDuration: number;
+  weights: WeightsKind;
+  classifier: ClassifierKind;
+  band: AmbiguousBand | null;
+  /** Weights per bin (boxcar until calibrated weights are given). */
+  binWeights: Float64Array;
+  /** Whether binWeights came from calibration (spec.calibratedWeights). */
+  trained: boolean;
+}
+
+/** The filter a spec asks for: the given one, else none, or a block average of D when decimating. */
+export function effectiveFilter(spec: PipelineSpec): FilterSpec {
+  const factor = spec.decimate ?? 1;
+  if (spec.filter !== undefined) return spec.filter;
+  return factor > 1 ? { kind: 'boxcar', length: factor } : { kind: 'none' };
+}
+
+/** The window of a pipeline in samples on `grid` (its own window, else the grid's). */
+export function pipelineWindow(spec: PipelineSpec, grid: Grid): { lo: number; hi: number } {
+  if (spec.window === undefined) return { lo: grid.windowLo, hi: grid.windowHi };
+  const fs = grid.sampleRate;
+  const lo = Math.min(grid.samples, firstSampleAtOrAfter(spec.window.start, fs));
+  const hi = Math.min(grid.samples, firstSampleAtOrAfter(spec.window.start + spec.window.length, fs));
+  return { lo, hi };
+}
+
+/** Whether calibration needs the decimated records of this pipeline's calibration shots. */
+export function needsCalibrationBins(spec: PipelineSpec): boolean {
+  return (spec.weights ?? 'boxcar') !== 'boxcar' || spec.classifier === 'likelihood';
+}
+
+/** Whether scoring needs the decimated record of every scored shot (the likelihood classifier). */
+export function needsScoreBins(spec: PipelineSpec): boolean {
+  return spec.classifier === 'likelihood';
+}
+
+/** Sample index that bin b of `chain` reads: the end of its block. */
+export function binSample(chain: PipelineChain, b: number): number {
+  return chain.windowLo + (b + 1) * chain.factor - 1;
+}
+
+/** Compiles a pipeline's chain on `grid` with the demodulation reference at `referencePhase`. */
+export function compileChain(spec: PipelineSpec, grid: Grid, carrierFrequency: number, referencePhase: number): PipelineChain {
+  const fs = grid.sampleRate;
+  const { lo, hi } = pipelineWindow(spec, grid);
+  const factor = spec.decimate ?? 1;
+  const bins = Math.floor((hi - lo) / factor);
+  if (bins < 1) throw new RangeError(`pipeline "${spec.name}": decimation by ${factor} leaves no bin in a window of ${hi - lo} samples`);
+  const fspec = effectiveFilter(spec);
+  const filter = fspec.kind === 'none' ? null : designFilter(fspec, fs);
+  let processLo = lo;
+  if (fspec.kind === 'boxcar') processLo = Math.max(0, lo - (fspec.length - 1));
+  else if (fspec.kind === 'fir') processLo = Math.max(0, lo - (fspec.taps - 1));
+  else if (fspec.kind === 'single-pole' || fspec.kind === 'butterworth') processLo = 0;
+  const processHi = lo + bins * factor;
+  let binWeights: Float64Array;
+  let trained = false;
+  if (spec.calibratedWeights !== undefined) {
+    if (spec.calibratedWeights.length !== bins) {
+      throw new RangeError(`pipeline "${spec.name}": ${spec.calibratedWeights.length} calibrated weights for ${bins} bins`);
+    }
+    binWeights = Float64Array.from(spec.calibratedWeights);
+    trained = true;
+  } else {
+    binWeights = new Float64Array(bins).fill(1 / bins);
+  }
+  return {
+    sampleRate: fs,
+    reference: makeReference(grid.samples, fs, carrierFrequency, referencePhase),
+    filter, factor, windowLo: lo, windowHi: hi, bins, processLo, processHi, binDuration: factor / fs,
+    weights: spec.weights ?? 'boxcar', classifier: spec.classifier ?? 'threshold', band: spec.ambiguousBand ?? null,
+    binWeights, trained,
+  };
+}
+
+/**
+ * The kernels K_I, K_Q of a chain with weights `weights` per bin (default its binWeights) on a
+ * record of n samples, nonzero on [processLo, processHi). The plain chain (no filter, D = 1,
+ * uniform weights) is exactly `boxcarKernels` over the window.
+ */
+export function chainKernels(chain: PipelineChain, n: number, weights: Float64Array = chain.binWeights): LinearKernels {
+  const { reference, processLo, processHi } = chain;
+  if (chain.filter === null && chain.factor === 1 && !chain.trained && weights === chain.binWeights) {
+    return boxcarKernels(n, chain.windowLo, chain.windowHi, reference);
+  }
+  const g = chainAdjoint(chain, weights);
+  const inPhase = new Float64Array(n);
+  const quadrature = reference ? new Float64Array(n) : null;
+  for (let m = processLo; m < processHi; m++) {
+    const v = g[m - processLo]!;
+    inPhase[m] = reference ? v * reference.inPhase[m]! : v;
+    if (quadrature && reference) quadrature[m] = v * reference.quadrature[m]!;
+  }
+  return { inPhase, quadrature, lo: processLo, hi: processHi };
+}
+
+/**
+ * g = Hᵀu on [processLo, processHi) (index m − processLo): the weight each demodulated sample
+ * gets in the integrated value, before the reference.
+ */
+export function chainAdjoint(chain: PipelineChain, weights: Float64Array): Float64Array {
+  const g = new Float64Array(chain.processHi - chain.processLo);
+  for (let b = 0; b < chain.bins; b++) g[binSample(chain, b) - chain.processLo] = weights[b]!;
+  if (chain.filter !== null) applyFilterAdjoint(chain.filter, g, g, chain.filter.makeState());
+  return g;
+}

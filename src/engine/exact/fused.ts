@@ -1,0 +1,296 @@
+/**
+ * The fused exact path: simulation, scoring and tallying of scored shots in one pass per
+ * seeding block, for runs that keep no per-shot table (`run --no-shots-table`). Per block it
+ * draws the histories (history.ts) and the values (exact-batch.ts `blockValues`) exactly as
+ * `simulateExactBatch` does, then projects, thresholds, attributes the cause and adds the shot
+ * to the block's tally leaf, in the same arithmetic order as score.ts and analysis/tally.ts;
+ * the common point (two states, one pipeline) runs all of it in one loop (exact-fast.ts).
+ * The leaves are therefore bit for bit those that `tallyBatch` builds from a scored ShotBatch,
+ * and the run's tables do not change (test/plan/exact-fused.test.ts); only the per-shot arrays
+ * are never made, and a worker sends back a few hundred bytes per batch instead of ~60 per shot.
+ */
+import { CAUSE_MAPPING, CAUSE_NOISE, CAUSE_NONE, CAUSE_PREPARATION, CAUSES } from '../../analysis/causes.ts';
+import { emptyTally, type Tally } from '../../analysis/tally.ts';
+import { pushNode, type TallyNode } from '../../analysis/tally-tree.ts';
+import { addDisagreements } from '../../analysis/compare.ts';
+import { momentsFromShiftedSums } from '../../analysis/moments.ts';
+import { fastKernelApplies, fastTallyBlock, finishTwoByTwo } from './fast.ts';
+import { ExactKernel, exactKernelApplies } from './kernel.ts';
+import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../../random/streams.ts';
+import type { CompiledPoint } from '../compile-point.ts';
+import type { PipelineCalibration } from '../../classify/calibrate.ts';
+import { addFlickerValues, blockValues, makeExactScratch, refreshExactScratch, type ExactScratch } from './batch.ts';
+import { sampleHistories, type HistoryColumns } from '../../physics/history.ts';
+import { scratchHistory } from '../trace/batch.ts';
+
+/** How one pipeline scores in the fused path (plain data: it crosses to worker threads). */
+export interface FusedPipeline {
+  cos: number;
+  sin: number;
+  threshold: number;
+  highIsOne: boolean;
+  /** Half-width of the ambiguous band, or −1 when the pipeline has no band. */
+  band: number;
+  /** Time of the pipeline's last sample when it ends before the timing window, else null. */
+  lastSample: number | null;
+}
+
+/** The scoring of every pipeline of a point, for `simulateTalliedBatch`. */
+export interface FusedScoring {
+  pipelines: FusedPipeline[];
+}
+
+/** A scored batch as tallies only: its nodes of the tally tree and the paired counts. */
+export interface TalliedBatch {
+  kind: 'tallied';
+  point: number;
+  purpose: StreamPurpose;
+  batch: number;
+  firstShot: number;
+  count: number;
+  /**
+   * nodes[pipeline]: the batch's seeding-block tallies as tally-tree nodes, siblings within the
+   * batch already merged (analysis/tally-tree.ts pushNode: the same nodes the run would build).
+   */
+  nodes: TallyNode[][];
+  /** Per pipeline pair (emptyPairTallies order): both wrong, only A wrong, only B wrong. */
+  pairs: Float64Array;
+}
+
+/**
+ * The fused scoring of a calibrated point, or null when a pipeline decides other than by a
+ * threshold on its projected value (likelihood classifier, calibrated weights).
+ */
+export function fusedScoring(point: CompiledPoint, calibrations: readonly PipelineCalibration[]): FusedScoring | null {
+  if (calibrations.some((c) => c.likelihood !== null || c.weights !== null)) return null;
+  const fs = point.grid.sampleRate;
+  return {
+    pipelines: calibrations.map((c, p) => {
+      const chain = point.pipelines[p]!.chain;
+      return {
+        cos: c.axis.cos, sin: c.axis.sin, threshold: c.rule.threshold, highIsOne: c.rule.highIsOne,
+        band: chain.band !== null ? c.bandHalfWidth : -1,
+        lastSample: chain.processHi !== point.grid.windowHi ? (chain.processHi - 1) / fs : null,
+      };
+    }),
+  };
+}
+
+/** Per-block scratch of the fused path. */
+interface FusedScratch {
+  columns: HistoryColumns;
+  /** values[d]: output d of the block's shots. */
+  values: Float64Array[];
+  /** wrong[p]: cause of pipeline p per shot of the block (for the paired counts). */
+  wrong: Uint8Array[];
+  /** The pipeline's own first-jump cause per shot. */
+  jumpCause: Uint8Array;
+  /** tallyBlock: shots per (state, outcome); per state the clean count, shift and shifted sums. */
+  counts: Int32Array;
+  /** Zero quadrature values (pipelines without Q). */
+  zeros: Float64Array;
+  cleanCount: Float64Array;
+  shift: Float64Array;
+  sum1: Float64Array;
+  sum2: Float64Array;
+  /** The WebAssembly kernel of the scratch's current exact tables (made on first use). */
+  kernel?: ExactKernel;
+  /** Tallies the four-lane loop reuses for blocks merged at once (two states, two outcomes). */
+  spareLeaves?: Tally[];
+}
+
+const fusedScratches = new WeakMap<ExactScratch, FusedScratch>();
+
+function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number, states: number, outcomes: number): FusedScratch {
+  let f = fusedScratches.get(scratch);
+  if (!f || f.values.length !== outputs || f.wrong.length !== pipelines || f.cleanCount.length < states || f.counts.length < states * outcomes) {
+    const u8 = () => new Uint8Array(SEED_BLOCK);
+    const perState = () => new Float64Array(states);
+    f = {
+      columns: {
+        intended: u8(), prepared: u8(), initial: u8(), atWindowStart: u8(), atWindowEnd: u8(),
+        firstJump: new Float64Array(SEED_BLOCK), jumpCause: u8(),
+      },
+      values: Array.from({ length: outputs }, () => new Float64Array(SEED_BLOCK)),
+      wrong: Array.from({ length: pipelines }, u8),
+      jumpCause: u8(),
+      counts: new Int32Array(states * outcomes), zeros: new Float64Array(SEED_BLOCK), cleanCount: perState(), shift: perState(), sum1: perState(), sum2: perState(),
+    };
+    fusedScratches.set(scratch, f);
+  }
+  return f;
+}
+
+/** Shots in the kernel's four-lane loop: four whole seeding blocks. */
+const FOUR_BLOCKS = 4 * SEED_BLOCK;
+
+/**
+ * Shots [batch·batchSize, batch·batchSize + count) through the exact engine, scored and tallied
+ * per seeding block: the same tally-tree nodes and paired counts as simulateExactBatch → scoreBatch →
+ * tallyBatch, without the per-shot arrays.
+ */
+export function simulateTalliedBatch(
+  point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number,
+  scoring: FusedScoring, scratch: ExactScratch = makeExactScratch(point),
+): TalliedBatch {
+  refreshExactScratch(point, scratch);
+  const history = scratchHistory(point, scratch);
+  const t = scratch.exact;
+  const sc = point.scenario;
+  const states = sc.states.length, outcomes = sc.outcomes.length;
+  const outcomeOf = Uint8Array.from(sc.states, (s) => s.outcome);
+  const nPipes = scoring.pipelines.length;
+  const f = fusedScratch(scratch, t.outputs, nPipes, states, outcomes);
+  const { columns, values } = f;
+  // output index of each pipeline's I and Q (−1: no Q, the value is 0)
+  const iOut = new Int32Array(nPipes).fill(-1), qOut = new Int32Array(nPipes).fill(-1);
+  for (let d = 0; d < t.outputs; d++) (t.isQuadrature[d] ? qOut : iOut)[t.pipeline[d]!] = d;
+  const fast = fastKernelApplies(point, t, history, nPipes, outcomes);
+  // the common point's loop as WebAssembly where it applies (the same numbers), else in TypeScript
+  let kernel: ExactKernel | null = null;
+  if (fast && exactKernelApplies(t, history)) {
+    if (f.kernel?.tables !== t) f.kernel = new ExactKernel(t);
+    kernel = f.kernel;
+    kernel.setScoring(history, scoring.pipelines[0]!, outcomeOf);
+  }
+  const firstShot = batch * sc.batchSize;
+  const nodes: TallyNode[][] = [];
+  for (let p = 0; p < nPipes; p++) nodes.push([]);
+  const firstBlock = firstShot / SEED_BLOCK;
+  const pairs = new Float64Array(3 * (nPipes * (nPipes - 1)) / 2);
+  const zeros = f.zeros;
+  const blocks = new BlockStreams(sc.seed, pointIndex, purpose, firstShot / SEED_BLOCK);
+  const stream = blocks.current(), lane = blocks.current();
+  // four whole blocks at a time through the kernel's four-lane loop (the same tallies), the rest one by one
+  let start = 0;
+  if (kernel) {
+    const four = kernel.fourStreams;
+    for (; start + FOUR_BLOCKS <= count; start += FOUR_BLOCKS) {
+      for (let k = 0; k < 4; k++) {
+        if (start + k > 0) blocks.advanceInto(four.streams[k]!);
+        else four.streams[k]!.s.set(stream.s);
+        blocks.laneInto(four.lanes[k]!);
+      }
+      // blocks 4m … 4m+3 merge into the first one's tally as they are pushed, so the other three
+      // can be the same scratch tallies every time (tallyFourBlocks writes every field)
+      const first = firstBlock + start / SEED_BLOCK;
+      const spare = (f.spareLeaves ??= [0, 1, 2].map(() => emptyTally(states, outcomes)));
+      const leaves = first % 4 === 0
+        ? [emptyTally(states, outcomes), spare[0]!, spare[1]!, spare[2]!]
+        : [0, 1, 2, 3].map(() => emptyTally(states, outcomes));
+      kernel.tallyFourBlocks(four.streams, four.lanes, SEED_BLOCK, leaves);
+      for (let k = 0; k < 4; k++) pushNode(nodes[0]!, { level: 0, index: first + k, tally: leaves[k]! });
+    }
+  }
+  for (let from = start; from < count; from += SEED_BLOCK) {
+    if (from > 0) blocks.advanceInto(stream);
+    blocks.laneInto(lane);
+    const len = Math.min(count, from + SEED_BLOCK) - from;
+    if (fast) {
+      const leaf = emptyTally(states, outcomes);
+      if (kernel) kernel.tallyBlock(stream, lane, len, leaf);
+      else fastTallyBlock(history, t, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf, columns, scratch.store);
+      pushNode(nodes[0]!, { level: 0, index: firstBlock + from / SEED_BLOCK, tally: leaf });
+      continue;
+    }
+    sampleHistories(history, stream, columns, 0, len, scratch.store);
+    blockValues(t, lane, scratch.normals, values, columns.initial, 0, len, scratch.store);
+    addFlickerValues(point, pointIndex, purpose, scratch, t, values, firstShot + from, 0, len);
+    for (let p = 0; p < nPipes; p++) {
+      const s = scoring.pipelines[p]!;
+      const leaf = emptyTally(states, outcomes);
+      const jumpCause = s.lastSample === null ? columns.jumpCause : windowedJumpCause(columns, s.lastSample, len, f.jumpCause);
+      tallyBlock(
+        leaf, s, values[iOut[p]!]!, qOut[p]! >= 0 ? values[qOut[p]!]! : zeros, columns, jumpCause, outcomeOf, len, f.wrong[p]!, f,
+      );
+      pushNode(nodes[p]!, { level: 0, index: firstBlock + from / SEED_BLOCK, tally: leaf });
+    }
+    if (nPipes > 1) addPairCounts(pairs, f.wrong, len);
+  }
+  return { kind: 'tallied', point: pointIndex, purpose, batch, firstShot, count, nodes, pairs };
+}
+
+/** The first-jump cause as a pipeline that stops reading at `last` sees it (score.ts). */
+function windowedJumpCause(c: HistoryColumns, last: number, len: number, out: Uint8Array): Uint8Array {
+  for (let i = 0; i < len; i++) out[i] = c.jumpCause[i] !== 0 && c.firstJump[i]! <= last ? c.jumpCause[i]! : 0;
+  return out;
+}
+
+/**
+ * Scores one pipeline on a block's shots and adds them to `leaf` (a fresh tally): the
+ * arithmetic of project(), classifyAllByThreshold(), attributeCause() and addToTally() with
+ * one chunk, in the same order. Writes each shot's cause to `wrong`.
+ *
+ * Written for speed, without changing a bit: one pass projects and decides without
+ * data-dependent branches (outcomes are near 50/50), counts shots per (state, outcome) in
+ * integers, takes a branch only for the rare wrong shot, and adds each clean shot to its
+ * state's shifted sums in shot order, as addToTally does.
+ */
+function tallyBlock(
+  leaf: Tally, s: FusedPipeline, inPhase: Float64Array, quadrature: Float64Array, c: HistoryColumns,
+  jumpCause: Uint8Array, outcomeOf: Uint8Array, len: number, wrong: Uint8Array, f: FusedScratch,
+): void {
+  const nCauses = CAUSES.length, outcomes = leaf.outcomes, states = leaf.states;
+  const { assignments, causes, discarded, discardedWrong } = leaf;
+  const cos = s.cos, sin = s.sin, threshold = s.threshold, band = s.band;
+  const flip = s.highIsOne ? 0 : 1;
+  const intendedCol = c.intended, preparedCol = c.prepared, initialCol = c.initial;
+  const { counts, cleanCount, shift, sum1, sum2 } = f;
+  counts.fill(0, 0, states * outcomes);
+  cleanCount.fill(0); sum1.fill(0); sum2.fill(0);
+  const twoByTwo = states === 2 && outcomes === 2;
+  let sumState = 0, sumOutcome = 0, sumBoth = 0;
+  for (let i = 0; i < len; i++) {
+    const x = inPhase[i]! * cos + quadrature[i]! * sin;
+    // highIsOne: x > threshold; else x < threshold (classifyAllByThreshold)
+    const outcome = flip === 0 ? +(x > threshold) : +(x < threshold);
+    const intended = intendedCol[i]!, prepared = preparedCol[i]!, initial = initialCol[i]!, jc = jumpCause[i]!;
+    // two states, two outcomes: three sums instead of a memory count (see finishTwoByTwo)
+    if (twoByTwo) {
+      sumState += intended; sumOutcome += outcome; sumBoth += intended & outcome;
+    } else {
+      counts[intended * outcomes + outcome]!++;
+    }
+    let cause = CAUSE_NONE;
+    if (outcome !== outcomeOf[intended]) {
+      cause = prepared !== intended ? CAUSE_PREPARATION : initial !== prepared ? CAUSE_MAPPING : jc !== 0 ? jc : CAUSE_NOISE;
+      causes[intended * nCauses + cause]!++;
+    }
+    wrong[i] = cause;
+    if (band >= 0 && Math.abs(x - threshold) < band) {
+      discarded[intended]!++;
+      if (cause !== 0) discardedWrong[intended]!++;
+    }
+    // clean shots (no preparation, mapping or pipeline-window jump): shifted sums of their state
+    if (prepared === intended && initial === intended && jc === 0) {
+      if (cleanCount[intended] === 0) shift[intended] = x;
+      cleanCount[intended]!++;
+      const d = x - shift[intended]!;
+      sum1[intended]! += d;
+      sum2[intended]! += d * d;
+    }
+  }
+  if (twoByTwo) finishTwoByTwo(leaf, len, sumState, sumOutcome, sumBoth);
+  else {
+    for (let st = 0; st < states; st++) {
+      let shots = 0;
+      for (let o = 0; o < outcomes; o++) {
+        const m = counts[st * outcomes + o]!;
+        assignments[st * outcomes + o] = m;
+        shots += m;
+      }
+      let wrongShots = 0;
+      for (let k = 1; k < nCauses; k++) wrongShots += causes[st * nCauses + k]!;
+      causes[st * nCauses + CAUSE_NONE] = shots - wrongShots;
+    }
+  }
+  for (let st = 0; st < states; st++) leaf.clean[st] = momentsFromShiftedSums(cleanCount[st]!, shift[st]!, sum1[st]!, sum2[st]!);
+}
+
+/** Adds a block's paired counts: for each pair a < b, both wrong, only a, only b. */
+function addPairCounts(pairs: Float64Array, wrong: readonly Uint8Array[], len: number): void {
+  let k = 0;
+  for (let a = 0; a < wrong.length; a++) {
+    for (let b = a + 1; b < wrong.length; b++, k += 3) addDisagreements(wrong[a]!, wrong[b]!, len, pairs, k);
+  }
+}

@@ -1,0 +1,136 @@
+/**
+ * The trace engine's per-sample loops on one point's arrays: white noise onto a record, and the
+ * record's dot products with each pipeline's kernels. `RecordKernel` runs them as WebAssembly
+ * (kernels.wat); `TypeScriptRecordLoops` runs the TypeScript loops (RandomStream.addNormalsOnto,
+ * dotRange, dotRangePair), which are the reference, and which serve records too long for a
+ * WebAssembly memory. Both give the same numbers to the bit; only the speed differs.
+ *
+ * RecordKernel copies the waveforms and kernels once into its instance's memory; `record` is a
+ * view of that memory, so every other stage reads and writes the record as an ordinary
+ * Float64Array.
+ */
+import { dotRange, dotRangePair } from '../../dsp/integrate.ts';
+import type { RandomStream } from '../../random/stream.ts';
+import { instantiateKernels, kernelsAvailable, LAYOUT, MAX_KERNEL_BYTES } from './memory.ts';
+
+interface Exports {
+  addNormalsOnto(out: number, base: number, count: number, sigma: number): void;
+  dot(a: number, x: number, lo: number, hi: number): void;
+  dotPair(a: number, b: number, x: number, lo: number, hi: number): void;
+}
+
+/** A pipeline's kernels inside the instance (byte offsets; quadrature −1 at baseband). */
+interface PlacedKernels { inPhase: number; quadrature: number; lo: number; hi: number }
+
+export interface PipelineKernels { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number }
+
+/** The record loops of one point (either implementation). */
+export interface RecordLoops {
+  /** The record, `samples` long. */
+  readonly record: Float64Array;
+  noiseOntoWaveform(stream: RandomStream, wave: number, lo: number, hi: number, sigma: number): void;
+  /** record[lo … hi) += sigma·N(0,1) from `stream` (RandomStream.addNormals); nothing when sigma ≤ 0. */
+  addNoise(stream: RandomStream, lo: number, hi: number, sigma: number): void;
+  /** Pipeline p's integrated values into out[0] (I) and out[1] (Q, 0 at baseband). */
+  values(p: number, out: Float64Array): void;
+}
+
+/** Bytes of a RecordKernel's arrays (waveforms, I and Q kernels per pipeline, record). */
+function kernelBytes(samples: number, states: number, pipelines: number): number {
+  return (states + 1 + 2 * pipelines) * samples * 8;
+}
+
+/**
+ * The record loops of a point: WebAssembly, or TypeScript when the arrays would not fit in a
+ * WebAssembly memory (`maxBytes`, MAX_KERNEL_BYTES by default) or WebAssembly is unavailable.
+ */
+export function makeRecordLoops(
+  samples: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[], maxBytes = MAX_KERNEL_BYTES,
+): RecordLoops {
+  return kernelsAvailable() && kernelBytes(samples, waveforms.length, pipelines.length) <= maxBytes
+    ? new RecordKernel(samples, waveforms, pipelines)
+    : new TypeScriptRecordLoops(samples, waveforms, pipelines);
+}
+
+/** The TypeScript loops, the reference of RecordKernel. */
+export class TypeScriptRecordLoops implements RecordLoops {
+  readonly record: Float64Array;
+
+  constructor(samples: number, private readonly waveforms: readonly Float64Array[], private readonly pipelines: readonly PipelineKernels[]) {
+    this.record = new Float64Array(samples);
+  }
+
+  noiseOntoWaveform(stream: RandomStream, wave: number, lo: number, hi: number, sigma: number): void {
+    stream.addNormalsOnto(this.record, this.waveforms[wave]!, lo, hi - lo, sigma);
+  }
+
+  addNoise(stream: RandomStream, lo: number, hi: number, sigma: number): void {
+    if (sigma > 0 && hi > lo) stream.addNormals(this.record, lo, hi - lo, sigma);
+  }
+
+  values(p: number, out: Float64Array): void {
+    const k = this.pipelines[p]!;
+    if (k.quadrature) dotRangePair(k.inPhase, k.quadrature, this.record, k.lo, k.hi, out);
+    else {
+      out[0] = dotRange(k.inPhase, this.record, k.lo, k.hi);
+      out[1] = 0;
+    }
+  }
+}
+
+/** The WebAssembly loops (kernels.wat addNormalsOnto, dot, dotPair). */
+export class RecordKernel implements RecordLoops {
+  /** The record, `samples` long, in the instance's memory. */
+  readonly record: Float64Array;
+  private readonly exports: Exports;
+  private readonly state: Int32Array;
+  private readonly result: Float64Array;
+  private readonly waves: number[];
+  private readonly kernels: PlacedKernels[];
+  private readonly recordAt: number;
+
+  constructor(samples: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[]) {
+    const { buffer, exports } = instantiateKernels(kernelBytes(samples, waveforms.length, pipelines.length));
+    this.exports = exports as unknown as Exports;
+    this.state = new Int32Array(buffer, LAYOUT.stream, 4);
+    this.result = new Float64Array(buffer, LAYOUT.dotResults, 2);
+    let next: number = LAYOUT.arrays;
+    const place = (values: Float64Array | null): number => {
+      const at = next;
+      next += samples * 8;
+      if (values) new Float64Array(buffer, at, samples).set(values.subarray(0, samples));
+      return at;
+    };
+    this.waves = waveforms.map(place);
+    this.kernels = pipelines.map((k) => ({ inPhase: place(k.inPhase), quadrature: k.quadrature ? place(k.quadrature) : -1, lo: k.lo, hi: k.hi }));
+    this.recordAt = place(null);
+    this.record = new Float64Array(buffer, this.recordAt, samples);
+  }
+
+  noiseOntoWaveform(stream: RandomStream, wave: number, lo: number, hi: number, sigma: number): void {
+    this.state.set(stream.s);
+    this.exports.addNormalsOnto(this.recordAt + lo * 8, this.waves[wave]! + lo * 8, hi - lo, sigma);
+    stream.s.set(this.state);
+  }
+
+  addNoise(stream: RandomStream, lo: number, hi: number, sigma: number): void {
+    if (!(sigma > 0) || hi <= lo) return;
+    const at = this.recordAt + lo * 8;
+    this.state.set(stream.s);
+    this.exports.addNormalsOnto(at, at, hi - lo, sigma);
+    stream.s.set(this.state);
+  }
+
+  values(p: number, out: Float64Array): void {
+    const k = this.kernels[p]!;
+    if (k.quadrature >= 0) {
+      this.exports.dotPair(k.inPhase, k.quadrature, this.recordAt, k.lo, k.hi);
+      out[0] = this.result[0]!;
+      out[1] = this.result[1]!;
+    } else {
+      this.exports.dot(k.inPhase, this.recordAt, k.lo, k.hi);
+      out[0] = this.result[0]!;
+      out[1] = 0;
+    }
+  }
+}

@@ -1,0 +1,59 @@
+/**
+ * Running one batch task with the engine it names, with per-point compiled tables and scratch
+ * kept across tasks (shared by the in-process executor and the worker threads).
+ */
+import { makeScratch, simulateBatch, type BatchScratch, type ShotBatch } from '../engine/trace/batch.ts';
+import type { BatchTask } from './batches.ts';
+import { compilePoint, type CompiledPoint } from '../engine/compile-point.ts';
+import { makeExactScratch, simulateExactBatch, type ExactScratch } from '../engine/exact/batch.ts';
+import { simulateTalliedBatch, type TalliedBatch } from '../engine/exact/fused.ts';
+import type { Scenario } from '../scenario/types.ts';
+
+/** How many points' compiled tables a runner keeps (tasks arrive in point order). */
+const KEPT_POINTS = 4;
+
+interface Entry {
+  scenario: Scenario;
+  compiled: CompiledPoint;
+  traces?: BatchScratch;
+  exact?: ExactScratch;
+}
+
+/** Runs tasks of a set of points; compiles a point on first use and keeps the last few. */
+export class TaskRunner {
+  private readonly kept = new Map<number, Entry>();
+
+  constructor(private scenarios: readonly Scenario[]) {}
+
+  /** Replaces the points (e.g. the scored scenarios after calibration); drops cached tables that no longer match. */
+  setScenarios(scenarios: readonly Scenario[]): void {
+    this.scenarios = scenarios;
+    for (const [i, e] of this.kept) if (scenarios[i] !== e.scenario) this.kept.delete(i);
+  }
+
+  private entry(point: number): Entry {
+    let e = this.kept.get(point);
+    if (e && e.scenario === this.scenarios[point]) {
+      this.kept.delete(point);
+      this.kept.set(point, e); // most recently used last
+      return e;
+    }
+    const scenario = this.scenarios[point];
+    if (!scenario) throw new Error(`task for point ${point}, which the runner does not have`);
+    e = { scenario, compiled: compilePoint(scenario) };
+    this.kept.set(point, e);
+    while (this.kept.size > KEPT_POINTS) this.kept.delete(this.kept.keys().next().value!);
+    return e;
+  }
+
+  run(t: BatchTask): ShotBatch | TalliedBatch {
+    const e = this.entry(t.point);
+    if (t.engine === 'exact') {
+      e.exact ??= makeExactScratch(e.compiled);
+      if (t.scoring) return simulateTalliedBatch(e.compiled, t.point, t.purpose, t.batch, t.count, t.scoring, e.exact);
+      return simulateExactBatch(e.compiled, t.point, t.purpose, t.batch, t.count, e.exact);
+    }
+    e.traces ??= makeScratch(e.compiled);
+    return simulateBatch(e.compiled, t.point, t.purpose, t.batch, t.count, e.traces);
+  }
+}

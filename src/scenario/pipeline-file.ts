@@ -1,0 +1,110 @@
+/**
+ * The pipeline file of `singleshot analyze` (YAML or JSON): the same pipeline keys as a
+ * scenario's `processing` (filter, decimate, window, weights, threshold, ambiguousBand,
+ * referencePhase), plus what the records need:
+ *   name         pipeline name (default "main"; picks the stored calibration of that pipeline)
+ *   column       the column of sample lists (default "record")
+ *   sampleRate   Hz (default: the table's singleshot.sample_rate metadata)
+ *   carrier      "none" | {frequency, phase} (default: singleshot.carrier_frequency/_phase, else none)
+ *   recordWindow {start, length}: the window the pipeline's own window must end in (default:
+ *                singleshot.window_start/_length, else the whole record)
+ *   outcomes     [label0, label1]: how string labels map to outcomes (default singleshot.outcomes)
+ *   calibration  "stored" (the calibration `run --keep-traces` wrote into the metadata) |
+ *                {labels: COLUMN, fraction: f}: the first f (default 0.2) of the rows labelled
+ *                in COLUMN calibrate, and are not scored | absent: nothing to calibrate (fixed
+ *                threshold, boxcar weights, a fixed referencePhase)
+ */
+import { z } from 'zod';
+import { InputError } from '../errors.ts';
+import { parseScenarioText } from './parse.ts';
+import { zodErrorToInputError, fallbackMessage } from './issues.ts';
+import { ResolveContext } from './context.ts';
+import { label, name, number, quantity, section, text } from './fields.ts';
+import { chainToPipeline, checkPipelines, MAIN_PIPELINE, pipelineChainShape } from './sections/processing.ts';
+import type { PipelineSpec, TimingSpec } from './types.ts';
+import { canonicalJson } from './canonical.ts';
+
+const positive = { min: 0, minExclusive: true } as const;
+
+const analyzeSchema = section({
+  name: name().optional(),
+  column: text().optional(),
+  sampleRate: quantity('frequency', positive, 'Sample rate of the records (default: the table metadata)').optional(),
+  carrier: z
+    .union([z.literal('none'), section({ frequency: quantity('frequency', positive), phase: quantity('angle').optional() })], {
+      error: () => '"none" or a mapping {frequency, phase}',
+    })
+    .optional(),
+  recordWindow: section({
+    start: quantity('time', { min: 0 }).optional(),
+    length: quantity('time', positive).optional(),
+  }).optional(),
+  outcomes: z.array(label(), { error: () => 'a list of the two outcome labels' }).length(2, { error: () => 'a list of the two outcome labels' }).optional(),
+  calibration: z
+    .union([z.literal('stored'), section({ labels: text(), fraction: number({ min: 0, minExclusive: true, max: 1, maxExclusive: true }).optional() })], {
+      error: () => '"stored" or a mapping {labels: COLUMN, fraction: 0.2}',
+    })
+    .optional(),
+  ...pipelineChainShape,
+}, 'a mapping of pipeline keys (filter, decimate, weights, threshold, …)');
+
+/** A parsed pipeline file, before it meets a table. */
+export interface AnalyzeFile {
+  file: string;
+  canonical: string;
+  doc: z.output<typeof analyzeSchema>;
+  raw: unknown;
+}
+
+/** Reads and validates a pipeline file; InputError on any problem. */
+export function readPipelineFile(text: string, file: string): AnalyzeFile {
+  const raw = parseScenarioText(text, file);
+  const parsed = analyzeSchema.safeParse(raw, { reportInput: true, error: fallbackMessage });
+  if (!parsed.success) throw zodErrorToInputError(file, parsed.error);
+  if (parsed.data.classifier === 'likelihood') {
+    throw new InputError(file, 'classifier', '"threshold" (the likelihood classifier needs the device model, which recorded traces do not carry)', '"likelihood"');
+  }
+  return { file, canonical: canonicalJson(raw), doc: parsed.data, raw };
+}
+
+/** What the table must supply or may supply for the pipeline. */
+export interface TableFacts {
+  samples: number;
+  sampleRate: number | null;
+  carrierFrequency: number | null;
+  carrierPhase: number | null;
+  windowStart: number | null;
+  windowLength: number | null;
+}
+
+/** The pipeline and the record timing once the table is known. */
+export interface ResolvedAnalysis {
+  pipeline: PipelineSpec;
+  timing: TimingSpec;
+  carrierFrequency: number;
+  carrierPhase: number;
+  column: string;
+}
+
+/** Resolves the pipeline against the table's facts (sample rate, carrier, window). */
+export function resolveAnalysis(a: AnalyzeFile, facts: TableFacts, tablePath: string, column: string): ResolvedAnalysis {
+  const d = a.doc;
+  const ctx = new ResolveContext(a.file, a.raw);
+  const sampleRate = d.sampleRate ?? facts.sampleRate;
+  if (sampleRate === null) {
+    throw new InputError(tablePath, `column "${column}"`, 'a sample rate: sampleRate in the pipeline file or singleshot.sample_rate in the table metadata', 'neither');
+  }
+  const carrierFrequency = d.carrier === undefined ? facts.carrierFrequency ?? 0 : d.carrier === 'none' ? 0 : d.carrier.frequency;
+  const carrierPhase = d.carrier === undefined ? facts.carrierPhase ?? 0 : d.carrier === 'none' ? 0 : d.carrier.phase ?? 0;
+  if (!(carrierFrequency < sampleRate / 2)) ctx.fail(['carrier', 'frequency'], `a frequency below half the sample rate (${sampleRate / 2} Hz)`);
+  const recordLength = facts.samples / sampleRate;
+  const windowStart = d.recordWindow?.start ?? facts.windowStart ?? 0;
+  const windowLength = d.recordWindow?.length ?? (d.recordWindow?.start !== undefined ? recordLength - windowStart : facts.windowLength ?? recordLength - windowStart);
+  if (!(windowStart >= 0 && windowLength > 0 && windowStart + windowLength <= recordLength * (1 + 1e-9))) {
+    ctx.fail(['recordWindow'], `a window inside the ${facts.samples}-sample record (${recordLength} s)`, `start ${windowStart} s, length ${windowLength} s`);
+  }
+  const timing: TimingSpec = { sampleRate, recordLength, windowStart, windowLength, shotPeriod: recordLength };
+  const pipeline = chainToPipeline(d.name ?? MAIN_PIPELINE, d, [], [], ctx);
+  checkPipelines([pipeline], timing, Number.MAX_SAFE_INTEGER, ctx, false, []);
+  return { pipeline, timing, carrierFrequency, carrierPhase, column };
+}
