@@ -9,7 +9,7 @@ import { makeExactScratch } from '../../src/engine/exact/batch.ts';
 import { scratchHistory } from '../../src/engine/trace/batch.ts';
 import { fastTallyBlock } from '../../src/engine/exact/fast.ts';
 import { ExactKernel } from '../../src/engine/exact/kernel.ts';
-import type { FusedPipeline } from '../../src/engine/exact/fused.ts';
+import type { FusedPipeline } from '../../src/engine/exact/fused-scoring.ts';
 import { RecordKernel } from '../../src/engine/wasm/record-loops.ts';
 import { emptyTally } from '../../src/analysis/tally.ts';
 import { dotRangePair } from '../../src/dsp/integrate.ts';

@@ -4,7 +4,7 @@
  * process, reproduces exactly the same shots. Shards take contiguous runs of batches.
  */
 import type { StreamPurpose } from '../random/streams.ts';
-import type { FusedScoring } from '../engine/exact/fused.ts';
+import type { FusedScoring } from '../engine/exact/fused-scoring.ts';
 import type { Scenario } from '../scenario/types.ts';
 
 export interface BatchTask {

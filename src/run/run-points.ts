@@ -19,7 +19,8 @@ import { batchPlan, ConcatenatedTasks, type TaskList } from './batches.ts';
 import { SEED_BLOCK } from '../random/streams.ts';
 import { chooseEngine, type EngineChoice, type EngineRequest } from '../engine/choose.ts';
 import { TaskRunner } from './task-runner.ts';
-import { fusedScoring, type TalliedBatch } from '../engine/exact/fused.ts';
+import type { TalliedBatch } from '../engine/exact/fused.ts';
+import { fusedScoring } from '../engine/exact/fused-scoring.ts';
 
 /** One point of a sweep: the swept values and the scenario with them applied. */
 export interface SweepPoint {

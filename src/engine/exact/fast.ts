@@ -17,7 +17,7 @@ import { normalSlowPath, type RandomStream } from '../../random/stream.ts';
 import { ZIGGURAT } from '../../random/ziggurat.ts';
 import { factorEntry, signalValue, type ExactTables } from './batch.ts';
 import type { CompiledPoint } from '../compile-point.ts';
-import type { FusedPipeline } from './fused.ts';
+import type { FusedPipeline } from './fused-scoring.ts';
 import { walkChain, type HistoryColumns, type HistoryTables, type PathStore } from '../../physics/history.ts';
 
 const INV_TWO_POW_32 = 1 / 4294967296;

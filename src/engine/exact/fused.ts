@@ -18,27 +18,10 @@ import { fastKernelApplies, fastTallyBlock, finishTwoByTwo } from './fast.ts';
 import { ExactKernel, exactKernelApplies } from './kernel.ts';
 import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../../random/streams.ts';
 import type { CompiledPoint } from '../compile-point.ts';
-import type { PipelineCalibration } from '../../classify/calibrate.ts';
+import type { FusedPipeline, FusedScoring } from './fused-scoring.ts';
 import { addFlickerValues, blockValues, makeExactScratch, refreshExactScratch, type ExactScratch } from './batch.ts';
 import { sampleHistories, type HistoryColumns } from '../../physics/history.ts';
 import { scratchHistory } from '../trace/batch.ts';
-
-/** How one pipeline scores in the fused path (plain data: it crosses to worker threads). */
-export interface FusedPipeline {
-  cos: number;
-  sin: number;
-  threshold: number;
-  highIsOne: boolean;
-  /** Half-width of the ambiguous band, or −1 when the pipeline has no band. */
-  band: number;
-  /** Time of the pipeline's last sample when it ends before the timing window, else null. */
-  lastSample: number | null;
-}
-
-/** The scoring of every pipeline of a point, for `simulateTalliedBatch`. */
-export interface FusedScoring {
-  pipelines: FusedPipeline[];
-}
 
 /** A scored batch as tallies only: its nodes of the tally tree and the paired counts. */
 export interface TalliedBatch {
@@ -55,25 +38,6 @@ export interface TalliedBatch {
   nodes: TallyNode[][];
   /** Per pipeline pair (emptyPairTallies order): both wrong, only A wrong, only B wrong. */
   pairs: Float64Array;
-}
-
-/**
- * The fused scoring of a calibrated point, or null when a pipeline decides other than by a
- * threshold on its projected value (likelihood classifier, calibrated weights).
- */
-export function fusedScoring(point: CompiledPoint, calibrations: readonly PipelineCalibration[]): FusedScoring | null {
-  if (calibrations.some((c) => c.likelihood !== null || c.weights !== null)) return null;
-  const fs = point.grid.sampleRate;
-  return {
-    pipelines: calibrations.map((c, p) => {
-      const chain = point.pipelines[p]!.chain;
-      return {
-        cos: c.axis.cos, sin: c.axis.sin, threshold: c.rule.threshold, highIsOne: c.rule.highIsOne,
-        band: chain.band !== null ? c.bandHalfWidth : -1,
-        lastSample: chain.processHi !== point.grid.windowHi ? (chain.processHi - 1) / fs : null,
-      };
-    }),
-  };
 }
 
 /** Per-block scratch of the fused path. */

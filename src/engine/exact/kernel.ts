@@ -14,7 +14,7 @@ import type { Tally } from '../../analysis/tally.ts';
 import { RandomStream } from '../../random/stream.ts';
 import { factorEntry, type ExactTables } from './batch.ts';
 import { finishTwoByTwo, singleJumpChain } from './fast.ts';
-import type { FusedPipeline } from './fused.ts';
+import type { FusedPipeline } from './fused-scoring.ts';
 import type { HistoryTables } from '../../physics/history.ts';
 import { instantiateKernels, kernelsAvailable, LAYOUT, MAX_KERNEL_BYTES } from '../wasm/memory.ts';
 
