@@ -1,6 +1,7 @@
 import { compilePoint } from '../src/engine/compile-point.ts';
 import { makeScratch, simulateBatch } from '../src/engine/trace/batch.ts';
 import type { Scenario } from '../src/scenario/types.ts';
+import type { PointPlan } from '../src/engine/point-plan.ts';
 /** Types and helpers shared by benchmark cases. */
 
 export interface BenchResult {
@@ -33,9 +34,10 @@ export async function measureRate(work: () => number | Promise<number>, seconds 
  * Trace-engine samples/s of several scenarios measured side by side: one batch of each in
  * turn, so that load on the machine hits all alike and their ratios stay meaningful.
  */
-export function interleavedTraceRates(scenarios: readonly Scenario[], warmupMs = 2000, measureMs = 8000): number[] {
-  const runs = scenarios.map((scenario) => {
-    const point = compilePoint(scenario);
+export function interleavedTraceRates(plans: readonly (Scenario | PointPlan)[], warmupMs = 2000, measureMs = 8000): number[] {
+  const runs = plans.map((plan) => {
+    const { scenario, ...options } = 'scenario' in plan ? plan : { scenario: plan };
+    const point = compilePoint(scenario, options);
     return { scenario, point, scratch: makeScratch(point), time: 0, samples: 0 };
   });
   let batch = 0;

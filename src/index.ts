@@ -2,7 +2,10 @@
  * singleshot as a library: every command of the CLI is a function here.
  */
 export { runToDirectory, type RunToDirectoryOptions, type RunToDirectoryResult } from './app/run-to-directory.ts';
-export { runPoints, inProcessExecutor, type RunResult, type PointResult, type SweepPoint, type BatchExecutor } from './run/run-points.ts';
+export { runPoints, type RunResult } from './run/run-points.ts';
+export { inProcessExecutor, type BatchExecutor } from './run/executor.ts';
+export type { PointResult } from './run/point-result.ts';
+export type { SweepPoint } from './run/sweep-point.ts';
 export { compilePoint, type CompiledPoint } from './engine/compile-point.ts';
 export { simulateBatch, type ShotBatch } from './engine/trace/batch.ts';
 export { loadScenarioFile } from './scenario/load.ts';

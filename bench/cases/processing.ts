@@ -27,7 +27,7 @@ export const cases: BenchCase[] = [{
     const weights = Array.from({ length: bins }, (_, b) => Math.exp(-b * 0.2e-6 / 200e-6));
     const scenarios = [
       benchWorkload(),
-      withPipeline({ name: 'matched', ...base, filter: { kind: 'butterworth', order: 4, cutoff: 2e6 }, decimate: 20, weights: 'matched', calibratedWeights: weights }),
+      { scenario: withPipeline({ name: 'matched', ...base, filter: { kind: 'butterworth', order: 4, cutoff: 2e6 }, decimate: 20, weights: 'matched' }), weights: [Float64Array.from(weights)] },
       withPipeline({ name: 'hmm', ...base, classifier: 'likelihood', decimate: 20 }),
     ];
     const [plain, matched, hmm] = interleavedTraceRates(scenarios);

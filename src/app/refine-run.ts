@@ -6,7 +6,9 @@
  */
 import { InputError } from '../errors.ts';
 import type { LoadedScenario } from '../scenario/load.ts';
-import { inProcessExecutor, runPoints, type RunOptions, type RunResult, type SweepPoint } from '../run/run-points.ts';
+import { runPoints, type RunOptions, type RunResult } from '../run/run-points.ts';
+import { inProcessExecutor } from '../run/executor.ts';
+import type { SweepPoint } from '../run/sweep-point.ts';
 import { refineAxis, refineMinimum, type Refinement } from '../run/refine.ts';
 import { sweepPointAt } from '../run/sweep.ts';
 import { interruptibleExecutor } from '../run/interrupt.ts';

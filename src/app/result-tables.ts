@@ -4,7 +4,7 @@
  */
 import { join } from 'node:path';
 import { tableToIPC } from 'apache-arrow';
-import type { PointResult } from '../run/run-points.ts';
+import type { PointResult } from '../run/point-result.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
 import { tableMetadata, type RunProvenance } from '../io/metadata.ts';
 import { summaryTable } from '../io/tables/summary.ts';

@@ -7,17 +7,19 @@ import { join } from 'node:path';
 import { loadScenarioFile } from '../scenario/load.ts';
 import type { ScenarioOverrides } from '../scenario/overrides.ts';
 import type { SweepSpec } from '../scenario/types.ts';
-import { runPoints, type BatchExecutor, type RunOptions, type RunResult, type SweepPoint } from '../run/run-points.ts';
+import { runPoints, type RunOptions, type RunResult } from '../run/run-points.ts';
+import type { BatchExecutor } from '../run/executor.ts';
+import type { SweepPoint } from '../run/sweep-point.ts';
 import { ArrowFileStream } from '../io/arrow-sink.ts';
 import { writeManifest } from '../io/manifest.ts';
 import { tableMetadata, type RunProvenance } from '../io/metadata.ts';
 import { prepareOutputDir } from '../io/output-dir.ts';
 import { shotRecordBatches, shotsLayout } from '../io/tables/shots.ts';
-import { traceRecordBatch, tracesLayout, withKeptTraces, type TracesLayout } from '../io/tables/traces.ts';
+import { traceRecordBatch, tracesLayout, type TracesLayout } from '../io/tables/traces.ts';
 import { estimateRun, keptTracesEstimate, type RunEstimate } from '../run/estimate.ts';
 import { freeResources, guardResources, type FreeResources } from './resource-guard.ts';
 import { abortSignalName, interruptibleExecutor, RunInterrupted } from '../run/interrupt.ts';
-import { inProcessExecutor } from '../run/run-points.ts';
+import { inProcessExecutor } from '../run/executor.ts';
 import { expandSweep } from '../run/sweep.ts';
 import { checkRefineRequest, refineWithin, type RefineRequest, type RefineOutcome } from './refine-run.ts';
 import { writeReport } from './report.ts';
@@ -87,11 +89,11 @@ export function expandPoints(loaded: Awaited<ReturnType<typeof loadScenarioFile>
 export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDirectoryResult> {
   const loaded = await loadScenarioFile(o.scenarioPath, { shots: o.shots, seed: o.seed });
   loaded.warnings.forEach((w) => o.onWarning?.(w));
-  const points = withKeptTraces(expandPoints(loaded, o.scenarioPath), o.keepTraces);
+  const points = expandPoints(loaded, o.scenarioPath);
   if (o.refine) checkRefineRequest(o.refine, loaded, o.scenarioPath, o.shard);
   // the engine is chosen before anything is estimated or written: the estimate depends on it,
   // and every table's metadata names it and why
-  const choice = resolveEngine(points, o.engine);
+  const choice = resolveEngine(points, o.engine, o.keepTraces);
   const estimate = estimateRun(points.map((p) => p.scenario), {
     shotsTable: o.shotsTable !== false, shard: o.shard, workers: o.workers, engine: choice.engine,
     traces: o.keepTraces ? keptTracesEstimate(points[0]!.scenario, o.keepTraces) : undefined,
@@ -127,6 +129,7 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   try {
     result = await runPoints(points, {
       executor: o.signal ? interruptibleExecutor(executor, o.signal) : executor, engine: choice, shard: o.shard, onProgress: o.onProgress,
+      keepTraces: o.keepTraces,
       onCalibrated: o.keepTraces ? (calibrated) => {
         const tl = tracesLayout(first, o.keepTraces!, calibrated[0]?.compiled.grid.samples ?? 0, tableMetadata('traces', provenance), calibrated);
         traces.push({ stream: new ArrowFileStream(join(o.outDir, 'traces.arrow'), tl.schema), layout: tl });

@@ -13,7 +13,7 @@ import { InputError } from '../errors.ts';
 import type { PairTally } from '../analysis/compare.ts';
 import type { TallyNode } from '../analysis/tally-tree.ts';
 import type { PipelineCalibration } from '../classify/calibrate.ts';
-import type { PointResult } from '../run/run-points.ts';
+import type { PointResult } from '../run/point-result.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
 import { readJsonFile } from '../io/json-file.ts';
 import { TOOL_VERSION } from '../io/metadata.ts';

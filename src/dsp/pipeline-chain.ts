@@ -52,7 +52,7 @@ export interface PipelineChain {
   band: AmbiguousBand | null;
   /** Weights per bin (boxcar until calibrated weights are given). */
   binWeights: Float64Array;
-  /** Whether binWeights came from calibration (spec.calibratedWeights). */
+  /** Whether binWeights came from calibration (compileChain's `weights`). */
   trained: boolean;
 }
 
@@ -87,8 +87,13 @@ export function binSample(chain: PipelineChain, b: number): number {
   return chain.windowLo + (b + 1) * chain.factor - 1;
 }
 
-/** Compiles a pipeline's chain on `grid` with the demodulation reference at `referencePhase`. */
-export function compileChain(spec: PipelineSpec, grid: Grid, carrierFrequency: number, referencePhase: number): PipelineChain {
+/**
+ * Compiles a pipeline's chain on `grid` with the demodulation reference at `referencePhase`, and
+ * with calibrated bin weights when given (else boxcar).
+ */
+export function compileChain(
+  spec: PipelineSpec, grid: Grid, carrierFrequency: number, referencePhase: number, weights: Float64Array | null = null,
+): PipelineChain {
   const fs = grid.sampleRate;
   const { lo, hi } = pipelineWindow(spec, grid);
   const factor = spec.decimate ?? 1;
@@ -103,11 +108,11 @@ export function compileChain(spec: PipelineSpec, grid: Grid, carrierFrequency: n
   const processHi = lo + bins * factor;
   let binWeights: Float64Array;
   let trained = false;
-  if (spec.calibratedWeights !== undefined) {
-    if (spec.calibratedWeights.length !== bins) {
-      throw new RangeError(`pipeline "${spec.name}": ${spec.calibratedWeights.length} calibrated weights for ${bins} bins`);
+  if (weights !== null) {
+    if (weights.length !== bins) {
+      throw new RangeError(`pipeline "${spec.name}": ${weights.length} calibrated weights for ${bins} bins`);
     }
-    binWeights = Float64Array.from(spec.calibratedWeights);
+    binWeights = Float64Array.from(weights);
     trained = true;
   } else {
     binWeights = new Float64Array(bins).fill(1 / bins);

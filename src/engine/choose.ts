@@ -39,7 +39,7 @@ export const EXACT_SCENARIO_KEYS: ReadonlySet<string> = new Set([
 export const EXACT_SIGNAL_KEYS: ReadonlySet<string> = new Set(['carrier', 'gain', 'white', 'unit', 'components', 'response', 'flicker']);
 /** Pipeline keys the exact engine handles (the kernels carry the linear processing; weights and classifier are checked apart). */
 export const EXACT_PIPELINE_KEYS: ReadonlySet<string> = new Set([
-  'name', 'referencePhase', 'threshold', 'window', 'filter', 'decimate', 'ambiguousBand', 'weights', 'classifier', 'calibratedWeights',
+  'name', 'referencePhase', 'threshold', 'window', 'filter', 'decimate', 'ambiguousBand', 'weights', 'classifier',
 ]);
 
 /** Why a known key blocks the exact engine. */
@@ -57,14 +57,21 @@ function inactive(v: unknown): boolean {
   return false;
 }
 
-/** Why the exact engine cannot run this scenario (empty when it can). */
-export function exactBlockers(input: Scenario): string[] {
+/** The run's options that matter to the engine choice. */
+export interface EngineOptions {
+  /** Every scored record is kept (traces.arrow), which only the trace engine makes. */
+  keepTraces?: 'raw' | 'baseband';
+}
+
+/** Why the exact engine cannot run this scenario with these options (empty when it can). */
+export function exactBlockers(input: Scenario, options: EngineOptions = {}): string[] {
   const scenario = applySensor(input);
   const out: string[] = [];
   const block = (key: string, generic: string) => out.push(`${key}: ${KNOWN_BLOCKERS[key] ?? generic}`);
   for (const [k, v] of Object.entries(scenario)) {
     if (!EXACT_SCENARIO_KEYS.has(k) && !inactive(v)) block(k, 'not handled by the exact engine');
   }
+  if (options.keepTraces) block('keepTraces', '');
   for (const [k, v] of Object.entries(scenario.signal)) {
     if (!EXACT_SIGNAL_KEYS.has(k) && !inactive(v)) block(`signal.${k}`, 'not known to be white Gaussian noise on a linear chain');
   }
@@ -85,9 +92,9 @@ const EXACT_WHY = 'every pipeline is a linear functional of the record and the n
 const TRACES_WHY = 'every sample of every record is synthesised and processed';
 
 /** Picks the engine for a run (the same for all its points). `--engine exact` on an unsuitable scenario is an InputError. */
-export function chooseEngine(scenarios: readonly Scenario[], request: EngineRequest = 'auto'): EngineChoice {
+export function chooseEngine(scenarios: readonly Scenario[], request: EngineRequest = 'auto', options: EngineOptions = {}): EngineChoice {
   if (request === 'traces') return { engine: 'traces', reason: `requested (--engine traces): ${TRACES_WHY}` };
-  const blockers = [...new Set(scenarios.flatMap(exactBlockers))];
+  const blockers = [...new Set(scenarios.flatMap((s) => exactBlockers(s, options)))];
   if (request === 'exact') {
     if (blockers.length > 0) throw new InputError('--engine exact', '', `the exact engine does not apply: ${blockers.join('; ')} (use --engine traces or auto)`);
     return { engine: 'exact', reason: `requested (--engine exact): ${EXACT_WHY}` };

@@ -1,6 +1,7 @@
 /**
- * Everything a batch needs that depends only on the scenario of one sweep point, computed once:
- * the sample grid, each state's waveform, the chain's jump tables, the processing kernels.
+ * Everything a batch needs that depends only on one point's plan (its scenario and the run's
+ * options for it), computed once: the sample grid, each state's waveform, the chain's jump
+ * tables, the processing kernels.
  */
 import { makeChain, type Chain } from '../physics/chain.ts';
 import { cumulativeMixture } from '../physics/flips.ts';
@@ -12,7 +13,8 @@ import { transitionCause } from '../analysis/causes.ts';
 import type { PipelineSpec, Scenario } from '../scenario/types.ts';
 import { applySensor } from '../physics/sensor-scenario.ts';
 import { respondedWaveform } from '../signal/response.ts';
-import { compileNoise, type NoisePlan } from '../signal/noise-plan.ts';
+import { carryPipelineKernels, compileNoise, type NoisePlan } from '../signal/noise-plan.ts';
+import type { PointOptions } from './point-plan.ts';
 
 export interface CompiledPipeline {
   spec: PipelineSpec;
@@ -42,6 +44,8 @@ export interface CompiledPoint {
   noise: NoisePlan;
   /** levelWaves[s][k]: state s's waveform before the analog response (equals waveforms without one). */
   levelWaves: Float64Array[];
+  /** Keep every scored shot's record (a run option, point-plan.ts), or null. */
+  keepTraces: 'raw' | 'baseband' | null;
 }
 
 /** The mean level of each outcome group under the prepared mixture (for 'auto' phase). */
@@ -63,18 +67,23 @@ export function automaticReferencePhase(scenario: Scenario): number {
   return scenario.signal.carrier.phase + Math.atan2(m1!.im - m0!.im, m1!.re - m0!.re);
 }
 
-export function compilePoint(input: Scenario): CompiledPoint {
+/** Pipeline i of a (sensor-applied) scenario on `grid`, with calibrated bin weights when given. */
+function compilePipeline(scenario: Scenario, i: number, grid: Grid, weights: Float64Array | null): CompiledPipeline {
+  const spec = scenario.pipelines[i]!;
+  const referencePhase = spec.referencePhase === 'auto' ? automaticReferencePhase(scenario) : spec.referencePhase;
+  const chain = compileChain(spec, grid, scenario.signal.carrier.frequency, referencePhase, weights);
+  return { spec, referencePhase, kernels: chainKernels(chain, grid.samples), chain };
+}
+
+/** Compiles a point's scenario with the run's options for it (calibrated weights, kept traces). */
+export function compilePoint(input: Scenario, options: PointOptions = {}): CompiledPoint {
   // levels, rates and noise that a sensor section derives (a no-op without one)
   const scenario = applySensor(input);
   const grid = makeGrid(scenario.timing);
   const { carrier, gain } = scenario.signal;
   const tables = carrierTables(carrier, grid.samples, grid.sampleRate);
   const levelWaves = scenario.states.map((s) => stateWaveform(tables, s.level.re, s.level.im, gain, new Float64Array(grid.samples)));
-  const pipelines = scenario.pipelines.map((spec) => {
-    const referencePhase = spec.referencePhase === 'auto' ? automaticReferencePhase(scenario) : spec.referencePhase;
-    const chain = compileChain(spec, grid, carrier.frequency, referencePhase);
-    return { spec, referencePhase, kernels: chainKernels(chain, grid.samples), chain };
-  });
+  const pipelines = scenario.pipelines.map((_, i) => compilePipeline(scenario, i, grid, options.weights?.[i] ?? null));
   const n = scenario.states.length;
   const jumpCause = new Uint8Array(n * n);
   for (const t of scenario.transitions) {
@@ -95,5 +104,22 @@ export function compilePoint(input: Scenario): CompiledPoint {
     synthLo,
     synthHi,
     jumpCause,
+    keepTraces: options.keepTraces ?? null,
   };
+}
+
+/**
+ * The point with calibrated weights in the pipelines that have them (null: unchanged): their
+ * chains and kernels, and the 1/f kernels carried from them, are made again; nothing else is.
+ * The kernels' support does not depend on the weights, so the synthesised range stays.
+ */
+export function withWeights(point: CompiledPoint, weights: readonly (Float64Array | null)[]): CompiledPoint {
+  if (weights.every((w) => w === null)) return point;
+  const pipelines = point.pipelines.map((p, i) => (weights[i] ? compilePipeline(point.scenario, i, point.grid, weights[i]!) : p));
+  const flicker = point.noise.flicker;
+  const noise = flicker === null ? point.noise : {
+    ...point.noise,
+    flicker: { ...flicker, carried: carryPipelineKernels(flicker, point.noise, pipelines.map((p) => p.kernels)) },
+  };
+  return { ...point, pipelines, noise };
 }

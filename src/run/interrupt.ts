@@ -3,7 +3,7 @@
  * signal between batches, throws `RunInterrupted`, and the writers' error paths remove their
  * temporary files, so the folder keeps run.json `complete: false` and only complete files.
  */
-import type { BatchExecutor } from './run-points.ts';
+import type { BatchExecutor } from './executor.ts';
 
 /** Exit codes of a process stopped by a signal, by shell convention 128 + signal number. */
 export const SIGNAL_EXIT_CODES: Readonly<Record<string, number>> = { SIGINT: 130, SIGTERM: 143, SIGHUP: 129 };

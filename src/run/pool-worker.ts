@@ -18,8 +18,8 @@ if (!port) throw new Error('pool-worker.ts runs only as a worker thread (see poo
 let runner: TaskRunner | null = null;
 port.on('message', (m: ToWorker) => {
   if (m.type === 'points') {
-    if (runner) runner.setScenarios(m.scenarios);
-    else runner = new TaskRunner(m.scenarios);
+    if (runner) runner.setPlans(m.plans);
+    else runner = new TaskRunner(m.plans);
     return;
   }
   let reply: FromWorker;

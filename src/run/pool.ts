@@ -16,7 +16,8 @@ import { InputError } from '../errors.ts';
 import type { ShotBatch } from '../engine/trace/batch.ts';
 import type { BatchTask, TaskList } from './batches.ts';
 import type { TalliedBatch } from '../engine/exact/fused.ts';
-import type { BatchExecutor, SweepPoint } from './run-points.ts';
+import type { BatchExecutor } from './executor.ts';
+import type { PointPlan } from '../engine/point-plan.ts';
 
 /** The default number of workers: every core the process may use. */
 export function defaultWorkers(): number {
@@ -25,7 +26,7 @@ export function defaultWorkers(): number {
 
 /** Messages from the main thread to a worker. */
 export type ToWorker =
-  | { type: 'points'; run: number; scenarios: SweepPoint['scenario'][] }
+  | { type: 'points'; run: number; plans: readonly PointPlan[] }
   | { type: 'task'; run: number; seq: number; task: BatchTask };
 
 /** An error as it crosses threads. */
@@ -145,15 +146,14 @@ export function workerPoolExecutor(workers: number, options: PoolOptions = {}): 
   };
 
   return {
-    async *run(points: readonly SweepPoint[], tasks: TaskList): AsyncGenerator<ShotBatch | TalliedBatch> {
+    async *run(points: readonly PointPlan[], tasks: TaskList): AsyncGenerator<ShotBatch | TalliedBatch> {
       if (tasks.length === 0) return;
       if (broken) throw broken;
       const pool = start();
       const run = ++runId;
-      const scenarios = points.map((p) => p.scenario);
       for (const t of pool) {
         t.busy = 0;
-        t.worker.postMessage({ type: 'points', run, scenarios } satisfies ToWorker);
+        t.worker.postMessage({ type: 'points', run, plans: points } satisfies ToWorker);
       }
       const results = new Map<number, Promise<ShotBatch | TalliedBatch>>();
       let next = 0;

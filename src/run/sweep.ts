@@ -8,7 +8,7 @@
 import { InputError } from '../errors.ts';
 import { resolveScenario } from '../scenario/resolve.ts';
 import type { Scenario, SweepAxis, SweepSpec } from '../scenario/types.ts';
-import type { SweepPoint } from './run-points.ts';
+import type { SweepPoint } from './sweep-point.ts';
 
 /** Index of each axis's value at every point: grid (last axis fastest) or zipped. */
 export function sweepCombinations(spec: SweepSpec): number[][] {

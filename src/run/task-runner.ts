@@ -7,13 +7,13 @@ import type { BatchTask } from './batches.ts';
 import { compilePoint, type CompiledPoint } from '../engine/compile-point.ts';
 import { makeExactScratch, simulateExactBatch, type ExactScratch } from '../engine/exact/batch.ts';
 import { simulateTalliedBatch, type TalliedBatch } from '../engine/exact/fused.ts';
-import type { Scenario } from '../scenario/types.ts';
+import type { PointPlan } from '../engine/point-plan.ts';
 
 /** How many points' compiled tables a runner keeps (tasks arrive in point order). */
 const KEPT_POINTS = 4;
 
 interface Entry {
-  scenario: Scenario;
+  plan: PointPlan;
   compiled: CompiledPoint;
   traces?: BatchScratch;
   exact?: ExactScratch;
@@ -23,24 +23,24 @@ interface Entry {
 export class TaskRunner {
   private readonly kept = new Map<number, Entry>();
 
-  constructor(private scenarios: readonly Scenario[]) {}
+  constructor(private plans: readonly PointPlan[]) {}
 
-  /** Replaces the points (e.g. the scored scenarios after calibration); drops cached tables that no longer match. */
-  setScenarios(scenarios: readonly Scenario[]): void {
-    this.scenarios = scenarios;
-    for (const [i, e] of this.kept) if (scenarios[i] !== e.scenario) this.kept.delete(i);
+  /** Replaces the points (e.g. the scored plans after calibration); drops cached tables whose plan changed. */
+  setPlans(plans: readonly PointPlan[]): void {
+    this.plans = plans;
+    for (const [i, e] of this.kept) if (!plans[i] || !samePlan(plans[i]!, e.plan)) this.kept.delete(i);
   }
 
   private entry(point: number): Entry {
     let e = this.kept.get(point);
-    if (e && e.scenario === this.scenarios[point]) {
+    const plan = this.plans[point];
+    if (e && plan && samePlan(plan, e.plan)) {
       this.kept.delete(point);
       this.kept.set(point, e); // most recently used last
       return e;
     }
-    const scenario = this.scenarios[point];
-    if (!scenario) throw new Error(`task for point ${point}, which the runner does not have`);
-    e = { scenario, compiled: compilePoint(scenario) };
+    if (!plan) throw new Error(`task for point ${point}, which the runner does not have`);
+    e = { plan, compiled: compilePoint(plan.scenario, plan) };
     this.kept.set(point, e);
     while (this.kept.size > KEPT_POINTS) this.kept.delete(this.kept.keys().next().value!);
     return e;
@@ -56,4 +56,14 @@ export class TaskRunner {
     e.traces ??= makeScratch(e.compiled);
     return simulateBatch(e.compiled, t.point, t.purpose, t.batch, t.count, e.traces);
   }
+}
+
+/** Whether two plans compile to the same point: the same scenario object, weights and kept traces. */
+function samePlan(a: PointPlan, b: PointPlan): boolean {
+  if (a === b) return true;
+  if (a.scenario !== b.scenario || a.keepTraces !== b.keepTraces) return false;
+  const wa = a.weights ?? [], wb = b.weights ?? [];
+  const n = Math.max(wa.length, wb.length);
+  for (let i = 0; i < n; i++) if ((wa[i] ?? null) !== (wb[i] ?? null)) return false;
+  return true;
 }

@@ -223,8 +223,6 @@ export interface PipelineSpec {
   classifier?: ClassifierKind;
   /** Default none. */
   ambiguousBand?: AmbiguousBand | null;
-  /** Filled by the run after calibration, never by a file: matched/optimal weights per bin. */
-  calibratedWeights?: number[];
 }
 
 /** One swept scenario value: its key path, table column, SI unit and values. */
@@ -280,6 +278,4 @@ export interface Scenario {
   sensor?: SensorSpec | null;
   /** The sweep section of the file (absent when nothing is swept; absent in each point's scenario). */
   sweep?: SweepSpec;
-  /** Set by the run command, never by a file: copy each scored shot's record for traces.arrow. */
-  keepTraces?: 'raw' | 'baseband';
 }

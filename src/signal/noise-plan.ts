@@ -271,23 +271,34 @@ function compileFlicker(
     }
     return w;
   };
+  return {
+    sources, step, baseRate, offset, width, index, fraction, capacity,
+    below: { sensor: weights('sensor', 'below'), amplifier: weights('amplifier', 'below') },
+    above: { sensor: weights('sensor', 'above'), amplifier: weights('amplifier', 'above') },
+    carried: carryPipelineKernels({ sources, index, fraction, width }, { sensorWeight, gain }, kernels),
+  };
+}
+
+/**
+ * Each pipeline's I and Q kernels carried onto the 1/f window, per injection point (FlickerPlan
+ * `carried`): x[k] = K[k]·(gain·c_k for sensor-side sources, gain for amplifier-side), then
+ * carryKernel. Null for an injection no source uses.
+ */
+export function carryPipelineKernels(
+  f: Pick<FlickerPlan, 'sources' | 'index' | 'fraction' | 'width'>, weights: Pick<NoisePlan, 'sensorWeight' | 'gain'>,
+  kernels: readonly KernelPair[],
+): FlickerPlan['carried'] {
   const carried = (injection: NoiseInjection) => {
-    if (!sources.some((s) => s.injection === injection)) return null;
-    const tablesOf = { index, fraction, width };
+    if (!f.sources.some((s) => s.injection === injection)) return null;
     const weighted = (kernel: Float64Array, lo: number, hi: number) => {
-      const x = new Float64Array(n);
-      for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? sensorWeight[k]! : gain);
-      return carryKernel(tablesOf, x, lo, hi);
+      const x = new Float64Array(kernel.length);
+      for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? weights.sensorWeight[k]! : weights.gain);
+      return carryKernel(f, x, lo, hi);
     };
     return kernels.map((k) => ({
       inPhase: weighted(k.inPhase, k.lo, k.hi),
       quadrature: k.quadrature ? weighted(k.quadrature, k.lo, k.hi) : null,
     }));
   };
-  return {
-    sources, step, baseRate, offset, width, index, fraction, capacity,
-    below: { sensor: weights('sensor', 'below'), amplifier: weights('amplifier', 'below') },
-    above: { sensor: weights('sensor', 'above'), amplifier: weights('amplifier', 'above') },
-    carried: { sensor: carried('sensor'), amplifier: carried('amplifier') },
-  };
+  return { sensor: carried('sensor'), amplifier: carried('amplifier') };
 }

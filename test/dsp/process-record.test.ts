@@ -39,8 +39,7 @@ function pointFor(carrier: 'none' | 'sine', pipeline: Partial<PipelineSpec>, tra
   if (trainedWeights) {
     const bins = point.pipelines[0]!.chain.bins;
     const w = xorshiftRecord(99, bins);
-    sc.pipelines = [{ ...spec, calibratedWeights: Array.from(w) }];
-    point = compilePoint(sc);
+    point = compilePoint(sc, { weights: [w] });
   }
   return point;
 }

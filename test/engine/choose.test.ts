@@ -36,7 +36,6 @@ const traceCases: [string, Scenario, RegExp][] = [
     s.signal.telegraph = [{ name: 't', amplitude: 0.1, rateUp: 1e3, rateDown: 1e3, injection: 'amplifier', inDetuning: false }];
   }), /signal\.telegraph: telegraph noise is not Gaussian/],
   ['a digitizer', withChange((s) => { s.signal.digitizer = { low: -5, high: 5, bits: 8 }; }), /signal\.digitizer: clipping and quantisation are not linear/],
-  ['kept traces', withChange((s) => { s.keepTraces = 'raw'; }), /keepTraces: traces are kept/],
   ['the likelihood classifier', withChange((s) => { s.pipelines[0]!.classifier = 'likelihood'; }), /pipeline "main": the likelihood classifier is not linear/],
   ['matched weights', withChange((s) => { s.pipelines[0]!.weights = 'matched'; }), /pipeline "main": matched weights are calibrated from recorded traces/],
   ['a signal feature this file does not know', withChange((s) => { (s.signal as unknown as Record<string, unknown>).mystery = { on: true }; }), /signal\.mystery: not known to be white Gaussian/],
@@ -60,6 +59,13 @@ describe('engine choice', () => {
   it.each(traceCases)('%s: --engine exact is refused with the reason', (_name, s, why) => {
     expect(() => chooseEngine([s], 'exact')).toThrow(InputError);
     expect(() => chooseEngine([s], 'exact')).toThrow(why);
+  });
+
+  it('kept traces (a run option, not a scenario key) keep the trace engine and say why', () => {
+    const s = exactCases[0]![1];
+    expect(exactBlockers(s, { keepTraces: 'raw' })).toEqual(['keepTraces: traces are kept, which needs every record']);
+    expect(chooseEngine([s], 'auto', { keepTraces: 'baseband' })).toMatchObject({ engine: 'traces', reason: expect.stringMatching(/keepTraces: traces are kept/) });
+    expect(() => chooseEngine([s], 'exact', { keepTraces: 'raw' })).toThrow(/keepTraces: traces are kept/);
   });
 
   it('a sweep takes the exact engine only if every point allows it', () => {

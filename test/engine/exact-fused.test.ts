@@ -7,7 +7,8 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { loadScenarioFile } from '../../src/scenario/load.ts';
-import { inProcessExecutor, runPoints, type BatchExecutor, type RunResult } from '../../src/run/run-points.ts';
+import { runPoints, type RunResult } from '../../src/run/run-points.ts';
+import { inProcessExecutor, type BatchExecutor } from '../../src/run/executor.ts';
 import { workerPoolExecutor } from '../../src/run/pool.ts';
 import type { Tally } from '../../src/analysis/tally.ts';
 import type { Scenario } from '../../src/scenario/types.ts';

@@ -115,7 +115,7 @@ describe('slow noise does not depend on batching (continuous timelines, random a
   it('keeping traces changes no value, and the kept records carry the 1/f noise', () => {
     const sc = noiseScenario({ carrier: 'sine', white: 0.05, shots: 1024, batchSize: 1024, shotPeriod: 50e-6, signal: { flicker: [flicker('sensor', 1e-2, 100, 100e3)] } });
     const plain = simulateBatch(compilePoint(sc), 0, 'score', 0, 1024);
-    const kept = simulateBatch(compilePoint({ ...sc, keepTraces: 'raw' }), 0, 'score', 0, 1024);
+    const kept = simulateBatch(compilePoint(sc, { keepTraces: 'raw' }), 0, 'score', 0, 1024);
     expect(Array.from(kept.values[0]!.inPhase)).toEqual(Array.from(plain.values[0]!.inPhase));
     // each kept record integrates (Σ K·record, float32 samples) to the shot's value, 1/f included
     const point = compilePoint(sc);

@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runToDirectory } from '../../src/app/run-to-directory.ts';
-import { inProcessExecutor } from '../../src/run/run-points.ts';
+import { inProcessExecutor } from '../../src/run/executor.ts';
 import { reviveError, transferables, workerPoolExecutor } from '../../src/run/pool.ts';
 import type { BatchTask } from '../../src/run/batches.ts';
 import type { ShotBatch } from '../../src/engine/trace/batch.ts';
@@ -59,7 +59,7 @@ describe('workers', () => {
     pools.push(pool);
     const scenario = twoStateScenario({ shots: 1024 });
     const run = async () => {
-      for await (const _ of pool.run([{ parameters: {}, scenario }], [{ point: 3, purpose: 'score' as const, batch: 0, count: 1024 }])) void _;
+      for await (const _ of pool.run([{ scenario }], [{ point: 3, purpose: 'score' as const, batch: 0, count: 1024 }])) void _;
     };
     await expect(run()).rejects.toThrow(/point 3, which the runner does not have/);
   }, 30_000);

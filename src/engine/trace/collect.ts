@@ -55,7 +55,7 @@ export function makeShotCollector(
 ): ShotCollector | null {
   const samples = point.grid.samples;
   const wanted = point.pipelines.map((p) => (purpose === 'calibrate' ? needsCalibrationBins(p.spec) : purpose === 'score' && needsScoreBins(p.spec)));
-  const keep = purpose === 'score' ? point.scenario.keepTraces : undefined;
+  const keep = purpose === 'score' ? point.keepTraces ?? undefined : undefined;
   if (!wanted.some(Boolean) && keep === undefined) return null;
 
   const records: (KeptBins | null)[] = point.pipelines.map((p, j) => {

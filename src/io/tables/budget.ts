@@ -5,7 +5,7 @@
  */
 import type { Table } from 'apache-arrow';
 import type { CauseComparison } from '../../analysis/summary.ts';
-import type { PointResult } from '../../run/run-points.ts';
+import type { PointResult } from '../../run/point-result.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
 
 interface BudgetRow {

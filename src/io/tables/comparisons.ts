@@ -5,7 +5,7 @@
  * Written only when a point has two or more pipelines.
  */
 import type { Table } from 'apache-arrow';
-import type { PointResult } from '../../run/run-points.ts';
+import type { PointResult } from '../../run/point-result.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
 
 /** Plain columns of the comparisons table. */

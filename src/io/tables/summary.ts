@@ -3,7 +3,7 @@
  * intervals, assignment matrix, mean error, SNR (simulated and analytic), threshold.
  */
 import type { Table } from 'apache-arrow';
-import type { PointResult } from '../../run/run-points.ts';
+import type { PointResult } from '../../run/point-result.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
 import { pointNoiseOf } from '../../analysis/noise-prediction.ts';
 

@@ -23,7 +23,7 @@
 import { Field, FixedSizeList, Float32, Float64, makeData, RecordBatch, Schema, Struct, Uint32 } from 'apache-arrow';
 import { attributeCause, CAUSE_NOISE, CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
 import type { ShotBatch } from '../../engine/trace/batch.ts';
-import type { PointResult } from '../../run/run-points.ts';
+import type { PointResult } from '../../run/point-result.ts';
 import type { Scenario } from '../../scenario/types.ts';
 import {
   dictionaryData, makeDictionaryColumn, nullableFloat64Data, uint32Data, unitField, type DictionaryColumn,
@@ -144,10 +144,4 @@ export function traceRecordBatch(layout: TracesLayout, b: ShotBatch, outcomeOf: 
   ];
   const data = makeData({ type: new Struct(layout.schema.fields), length: n, nullCount: 0, children });
   return new RecordBatch(layout.schema, data);
-}
-
-/** The sweep points with `keepTraces` set on their scenarios (unchanged when `kind` is undefined). */
-export function withKeptTraces<P extends { scenario: Scenario }>(points: P[], kind: 'raw' | 'baseband' | undefined): P[] {
-  if (kind === undefined) return points;
-  return points.map((p) => ({ ...p, scenario: { ...p.scenario, keepTraces: kind } }));
 }
