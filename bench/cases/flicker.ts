@@ -6,7 +6,7 @@
  */
 import { benchWorkload } from '../workload.ts';
 import { interleavedTraceRates, type BenchCase } from '../harness.ts';
-import type { Scenario } from '../../src/scenario/types.ts';
+import type { NoiseSourceSpec, Scenario } from '../../src/scenario/types.ts';
 
 /** The core workload with sensor-side 1/f noise added. */
 export function flickerWorkload(): Scenario {
@@ -15,7 +15,7 @@ export function flickerWorkload(): Scenario {
     ...s,
     signal: {
       ...s.signal,
-      flicker: [{ name: 'charge', amplitude: 1e-4, exponent: 1, low: 1, high: 1e6, injection: 'sensor', inDetuning: false }],
+      sources: [{ kind: 'flicker', name: 'charge', amplitude: 1e-4, exponent: 1, low: 1, high: 1e6, injection: 'sensor', inDetuning: false } as NoiseSourceSpec],
     },
   };
 }

@@ -1,8 +1,8 @@
 /**
- * The analytic budget with the predicted noise (predict-noise.ts) instead of white noise alone.
+ * The analytic budget with the predicted noise (noise-prediction.ts) instead of white noise alone.
  *
- * Gaussian sources (white, 1/f, quantisation) add their variances. A two-level fluctuator is not
- * Gaussian: when it rarely switches during the window (λ·τ < SLOW_FLUCTUATOR), a shot sees it in
+ * Gaussian sources (white, 1/f, quantisation) add their variances. A two-level source (a kind that
+ * gives its `twoLevel` shape: a fluctuator) is not Gaussian: when it rarely switches during the window (λ·τ < SLOW_FLUCTUATOR), a shot sees it in
  * one state or the other, so the integrated value is a mixture: configuration c of the slow
  * fluctuators (probability Π π^s(1 − π)^(1−s)) shifts every mean by o_c = Σ_f s_f·a_f·ΣK_f (K_f
  * the kernel seen from its injection point). The budget is then the mixture of the Barthel budgets
@@ -12,9 +12,8 @@
  * Gaussian, with its variance, and its mean offset a·π·ΣK_f shifts every configuration.
  */
 import { analyticBudget, type Budget, type BudgetInput } from './budget.ts';
-import { stationaryOccupation } from '../signal/telegraph.ts';
 import type { NoisePlan } from '../signal/noise-plan.ts';
-import { predictNoise, type NoisePrediction } from './noise-prediction.ts';
+import { predictNoise, seenFrom, type NoisePrediction } from './noise-prediction.ts';
 
 /** Below this λ·τ a fluctuator is a discrete mixture in the budget; above it, Gaussian. */
 export const SLOW_FLUCTUATOR = 0.05;
@@ -36,22 +35,20 @@ export function noiseMixture(plan: NoisePlan, kernel: Float64Array, lo: number, 
   let gaussianVariance = prediction.variance;
   let shift = 0;
   let components = [{ weight: 1, offset: 0 }];
-  const tp = plan.telegraph;
-  if (tp) {
-    const window = (hi - lo) / sampleRate;
-    const telegraph = prediction.sources.filter((s) => s.kind === 'telegraph');
-    tp.fluctuators.forEach((f, i) => {
-      let seen = 0;
-      const sensor = tp.injections[i] === 'sensor';
-      for (let k = lo; k < hi; k++) seen += kernel[k]! * (sensor ? plan.sensorWeight[k]! : plan.gain);
-      const step = f.amplitude * seen;
-      const p = stationaryOccupation(f.rateUp, f.rateDown);
-      const slow = (f.rateUp + f.rateDown) * window < SLOW_FLUCTUATOR && components.length < 2 ** MAX_MIXED;
+  const window = (hi - lo) / sampleRate;
+  // the prediction's rows: the white sources, then each kind's sources in order
+  let row = plan.white.length;
+  for (const { compiled } of plan.kinds) {
+    compiled.sources.forEach((info, s) => {
+      const variance = prediction.sources[row++]!.variance;
+      if (!compiled.twoLevel) return;
+      const { probability: p, step, switchingRate } = compiled.twoLevel(s, seenFrom(plan, info.injection, kernel, lo, hi), lo, hi);
+      const slow = switchingRate * window < SLOW_FLUCTUATOR && components.length < 2 ** MAX_MIXED;
       if (!slow) {
         shift += step * p;
         return;
       }
-      gaussianVariance -= telegraph[i]!.variance;
+      gaussianVariance -= variance;
       components = components.flatMap((c) => [
         { weight: c.weight * (1 - p), offset: c.offset },
         { weight: c.weight * p, offset: c.offset + step },

@@ -13,27 +13,24 @@
  * its sinc side lobes, ∝ (πτ(f_c − f))^−2 (the carrier removes it).
  *
  * - white: σ²_sample·Σ K² (independent samples); every component separately, so they add up;
- * - 1/f: Σ over bands of gᵀ·R̄·g with g the kernel carried onto each band's grid through the
- *   interpolation weights the engine uses (flicker-timeline.ts flickerFunctionalVariance):
- *   the interpolation's spectral effect is in the prediction exactly, as is the analog
- *   response for sensor-side noise (folded into the generated spectrum);
- * - telegraph: a²·π(1 − π)·Σ_k Σ_k' K_k K_k' e^(−λ|t_k − t_k'|) (Machlup, J. Appl. Phys. 25, 341 (1954));
+ * - every other source: its kind's variance of Σ_k x_k·n(t_k) (signal/noise/*.ts: for 1/f the
+ *   band-by-band quadratic form on the timeline the engine draws from, for a fluctuator
+ *   Machlup's exponential correlation);
  * - quantisation: step²/12·Σ K² (Widrow 1956), valid when the noise spans many steps.
- * 1/f noise correlates samples within a shot and shots with each other; the prediction is the
- * marginal variance of one shot's value over the whole band (what the pooled σ of many shots
- * estimates). Clipping is not predicted (the run warns when it happened).
+ * Noise correlated across shots (1/f) is predicted as the marginal variance of one shot's value
+ * over the whole band (what the pooled σ of many shots estimates). Clipping is not predicted
+ * (the run warns when it happened).
  */
-import { stationaryOccupation } from '../signal/telegraph.ts';
-import { exponentialQuadraticForm, squaredSum } from '../signal/filter-function.ts';
-import { flickerFunctionalVariance } from '../signal/flicker-timeline.ts';
+import { squaredSum } from '../signal/filter-function.ts';
 import { quantisationStep } from '../signal/digitizer.ts';
 import type { NoiseInjection } from '../scenario/types.ts';
-import { carryKernel, type NoisePlan } from '../signal/noise-plan.ts';
+import type { NoisePlan } from '../signal/noise-plan.ts';
 
 /** One source's entry in the noise budget. */
 export interface NoiseSourceBudget {
   name: string;
-  kind: 'white' | 'flicker' | 'telegraph' | 'quantisation';
+  /** 'white', 'quantisation', or the kind of a noise source (signal/noise/). */
+  kind: string;
   injection: NoiseInjection;
   /**
    * white: one-sided density (signal unit/√Hz, before the gain); flicker: √A, its density at
@@ -63,39 +60,10 @@ export function predictNoise(plan: NoisePlan, kernel: Float64Array, lo: number, 
   for (const w of plan.white) {
     sources.push({ name: w.name, kind: 'white', injection: 'amplifier', density: w.density, origin: w.origin, variance: w.perSampleVariance * k2 });
   }
-  const effective = (injection: NoiseInjection): Float64Array => {
-    const x = new Float64Array(kernel.length);
-    for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? plan.sensorWeight[k]! : plan.gain);
-    return x;
-  };
-  const fl = plan.flicker;
-  if (fl) {
-    const carried: Partial<Record<NoiseInjection, Float64Array>> = {};
-    for (const s of fl.sources) {
-      let g = carried[s.injection];
-      if (!g) {
-        g = carryKernel(fl, effective(s.injection), lo, hi);
-        carried[s.injection] = g;
-      }
-      const v = flickerFunctionalVariance(s.bands, g, fl.step, fl.offset).total;
-      sources.push({
-        name: s.name, kind: 'flicker', injection: s.injection, density: Math.sqrt(s.amplitude),
-        origin: `1/f^${s.exponent} on [${s.low}, ${s.high}] Hz`, variance: v,
-      });
-    }
-  }
-  const tp = plan.telegraph;
-  if (tp) {
-    tp.fluctuators.forEach((f, i) => {
-      const injection = tp.injections[i]!;
-      const x = effective(injection);
-      const p = stationaryOccupation(f.rateUp, f.rateDown);
-      const rho = Math.exp(-(f.rateUp + f.rateDown) / sampleRate);
-      const v = f.amplitude * f.amplitude * p * (1 - p) * exponentialQuadraticForm(x, lo, hi, rho);
-      sources.push({
-        name: tp.names[i]!, kind: 'telegraph', injection, density: f.amplitude,
-        origin: `two-level fluctuator, up ${f.rateUp}/s, down ${f.rateDown}/s`, variance: v,
-      });
+  for (const { compiled } of plan.kinds) {
+    compiled.sources.forEach((info, s) => {
+      const x = seenFrom(plan, info.injection, kernel, lo, hi);
+      sources.push({ ...info, variance: compiled.variance(s, x, lo, hi, sampleRate) });
     });
   }
   if (plan.digitizer && plan.digitizer.codes > 0) {
@@ -113,6 +81,16 @@ export function predictNoise(plan: NoisePlan, kernel: Float64Array, lo: number, 
     sources: sources.map((s) => ({ ...s, sigma: Math.sqrt(s.variance), share: variance > 0 ? s.variance / variance : 0 })),
     variance, sigma: Math.sqrt(variance),
   };
+}
+
+/**
+ * The functional of the noise at an injection point: x_k = K_k·g·c_k for sensor-side noise (the
+ * carrier modulates it like the signal), K_k·g for amplifier-side noise.
+ */
+export function seenFrom(plan: Pick<NoisePlan, 'sensorWeight' | 'gain'>, injection: NoiseInjection, kernel: Float64Array, lo: number, hi: number): Float64Array {
+  const x = new Float64Array(kernel.length);
+  for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? plan.sensorWeight[k]! : plan.gain);
+  return x;
 }
 
 /** The projected kernel cos·K_I + sin·K_Q of a pipeline on its support (zero elsewhere). */

@@ -11,6 +11,7 @@
 import { InputError } from '../errors.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { applySensor } from '../physics/sensor-scenario.ts';
+import { sourcesByKind } from '../signal/noise/registry.ts';
 import { needsCalibrationBins, needsScoreBins } from '../dsp/pipeline-chain.ts';
 
 /** The engines. */
@@ -33,10 +34,10 @@ export const EXACT_SCENARIO_KEYS: ReadonlySet<string> = new Set([
 ]);
 /**
  * Signal-chain keys the exact engine handles: carrier, gain, white Gaussian noise (given or from
- * its parts), analog response, and 1/f noise (Gaussian: its part of each value comes from the
- * same slow-noise timeline as in the trace engine, through the kernels carried onto it).
+ * its parts) and the analog response. The noise sources beyond white (`sources`) each say
+ * whether the exact engine may use them (signal/noise/contract.ts `exactBlocker`).
  */
-export const EXACT_SIGNAL_KEYS: ReadonlySet<string> = new Set(['carrier', 'gain', 'white', 'unit', 'components', 'response', 'flicker']);
+export const EXACT_SIGNAL_KEYS: ReadonlySet<string> = new Set(['carrier', 'gain', 'white', 'unit', 'components', 'response']);
 /** Pipeline keys the exact engine handles (the kernels carry the linear processing; weights and classifier are checked apart). */
 export const EXACT_PIPELINE_KEYS: ReadonlySet<string> = new Set([
   'name', 'referencePhase', 'threshold', 'window', 'filter', 'decimate', 'ambiguousBand', 'weights', 'classifier',
@@ -45,7 +46,6 @@ export const EXACT_PIPELINE_KEYS: ReadonlySet<string> = new Set([
 /** Why a known key blocks the exact engine. */
 const KNOWN_BLOCKERS: Record<string, string> = {
   keepTraces: 'traces are kept, which needs every record',
-  'signal.telegraph': 'telegraph noise is not Gaussian',
   'signal.digitizer': 'clipping and quantisation are not linear',
 };
 
@@ -73,7 +73,9 @@ export function exactBlockers(input: Scenario, options: EngineOptions = {}): str
   }
   if (options.keepTraces) block('keepTraces', '');
   for (const [k, v] of Object.entries(scenario.signal)) {
-    if (!EXACT_SIGNAL_KEYS.has(k) && !inactive(v)) block(`signal.${k}`, 'not known to be white Gaussian noise on a linear chain');
+    if (k === 'sources') {
+      for (const { kind } of sourcesByKind(scenario.signal.sources)) if (kind.exactBlocker !== null) block(`signal.${kind.kind}`, kind.exactBlocker);
+    } else if (!EXACT_SIGNAL_KEYS.has(k) && !inactive(v)) block(`signal.${k}`, 'not known to be white Gaussian noise on a linear chain');
   }
   for (const p of scenario.pipelines) {
     for (const [k, v] of Object.entries(p)) {

@@ -13,7 +13,7 @@ import { transitionCause } from '../analysis/causes.ts';
 import type { PipelineSpec, Scenario } from '../scenario/types.ts';
 import { applySensor } from '../physics/sensor-scenario.ts';
 import { respondedWaveform } from '../signal/response.ts';
-import { carryPipelineKernels, compileNoise, type NoisePlan } from '../signal/noise-plan.ts';
+import { compileNoise, withPipelineKernels, type NoisePlan } from '../signal/noise-plan.ts';
 import type { PointOptions } from './point-plan.ts';
 
 export interface CompiledPipeline {
@@ -110,16 +110,11 @@ export function compilePoint(input: Scenario, options: PointOptions = {}): Compi
 
 /**
  * The point with calibrated weights in the pipelines that have them (null: unchanged): their
- * chains and kernels, and the 1/f kernels carried from them, are made again; nothing else is.
+ * chains and kernels, and what the noise kinds derive from them (the 1/f kernels carried onto its timeline) are made again; nothing else is.
  * The kernels' support does not depend on the weights, so the synthesised range stays.
  */
 export function withWeights(point: CompiledPoint, weights: readonly (Float64Array | null)[]): CompiledPoint {
   if (weights.every((w) => w === null)) return point;
   const pipelines = point.pipelines.map((p, i) => (weights[i] ? compilePipeline(point.scenario, i, point.grid, weights[i]!) : p));
-  const flicker = point.noise.flicker;
-  const noise = flicker === null ? point.noise : {
-    ...point.noise,
-    flicker: { ...flicker, carried: carryPipelineKernels(flicker, point.noise, pipelines.map((p) => p.kernels)) },
-  };
-  return { ...point, pipelines, noise };
+  return { ...point, pipelines, noise: withPipelineKernels(point.noise, pipelines.map((p) => p.kernels)) };
 }

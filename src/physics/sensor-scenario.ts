@@ -9,16 +9,17 @@
  * - Shot-noise current ('sensor' in the components): the mean |I| of the states under the
  *   prepared mixture (the carrier's modulation of the current is not folded in: at baseband
  *   this is exact, with a carrier it is an upper bound).
- * - Detuning (charge) noise, linear response about ε0: a 1/f amplitude A_ε (J²/Hz at 1 Hz)
- *   becomes (dI/dε)²·A_ε in A²/Hz; a fluctuator of detuning amplitude δ becomes the exact current
- *   step I(ε0 + δ) − I(ε0). The per-state difference of the slope (second order in the shift) is
- *   neglected.
+ * - Detuning (charge) noise: each kind turns itself into current from the slope dI/dε at ε0 and
+ *   the exact step I(ε0 + δ) − I(ε0) (signal/noise/: a 1/f amplitude A_ε (J²/Hz at 1 Hz) becomes
+ *   (dI/dε)²·A_ε in A²/Hz, a fluctuator of detuning amplitude δ the exact current step). The
+ *   per-state difference of the slope (second order in the shift) is neglected.
  * - Readout-induced relaxation (phenomenological, no source; physics/sensor.ts biasRelaxationRate):
  *   its rate at the sensor's bias is added to the listed transition's rate (`add`, the default),
  *   or replaces it (`replace`); a transition that does not exist yet is created.
  */
 import type { Scenario, SensorSpec, TransitionSpec } from '../scenario/types.ts';
 import { biasRelaxationRate, sensorCurrent, sensorSlope, steepestDetuning, type SensorParams } from './sensor.ts';
+import { noiseKind } from '../signal/noise/registry.ts';
 
 /** The sensor's operating point and what follows from it. */
 export interface SensorOperatingPoint {
@@ -79,6 +80,7 @@ export function applySensor(scenario: Scenario): Scenario {
   if (!spec || spec.derived) return scenario;
   const op = sensorOperatingPoint(spec, scenario.prepare);
   const signal = scenario.signal;
+  const response = { slope: op.slope, step: (detuning: number) => sensorCurrent(op.params, op.detuning + detuning) - op.current };
   const components = signal.components && signal.components.current === 'sensor'
     ? { ...signal.components, current: op.meanCurrent }
     : signal.components;
@@ -89,14 +91,7 @@ export function applySensor(scenario: Scenario): Scenario {
     signal: {
       ...signal,
       ...(components !== undefined ? { components } : {}),
-      ...(signal.flicker ? {
-        flicker: signal.flicker.map((f) => (f.inDetuning ? { ...f, amplitude: f.amplitude * op.slope * op.slope, inDetuning: false } : f)),
-      } : {}),
-      ...(signal.telegraph ? {
-        telegraph: signal.telegraph.map((t) => (t.inDetuning
-          ? { ...t, amplitude: sensorCurrent(op.params, op.detuning + t.amplitude) - op.current, inDetuning: false }
-          : t)),
-      } : {}),
+      ...(signal.sources ? { sources: signal.sources.map((s) => (s.inDetuning ? noiseKind(s).fromDetuning(s, response) : s)) } : {}),
     },
     sensor: { ...spec, derived: true },
   };

@@ -6,6 +6,7 @@
  */
 import { makeGrid } from '../signal/grid.ts';
 import type { Scenario } from '../scenario/types.ts';
+import { sourcesByKind } from '../signal/noise/registry.ts';
 
 /**
  * Conservative throughput of the trace engine on one core, in record samples per second
@@ -23,12 +24,6 @@ export const CONSERVATIVE_SAMPLES_PER_SECOND = 25e6;
 export const EXACT_SECONDS_PER_SHOT = 2e-7;
 /** Conservative extra cost of each pipeline output (I or Q) per exact-engine shot, in seconds. */
 export const EXACT_SECONDS_PER_OUTPUT = 2e-8;
-/**
- * Conservative cost of a 1/f source per record sample of every shot, in seconds, in either
- * engine: its timeline is synthesised at about the record's rate (FFT blocks, band
- * interpolation). Measured at ~170 ns per sample for one source on the loaded 2-core machine.
- */
-export const FLICKER_SECONDS_PER_SAMPLE = 2.5e-7;
 /** Conservative cost of one hidden-state jump (exponential draw, table walk), in seconds. */
 export const SECONDS_PER_JUMP = 2e-7;
 /** Memory of the process itself (Node, modules, tables of the engine), bytes. */
@@ -137,8 +132,8 @@ export function estimateRun(scenarios: readonly Scenario[], o: EstimateOptions =
     const shots = scored + s.calibrationShots;
     samples += shots * n;
     const jumps = shots * jumpsPerRecord(s) * SECONDS_PER_JUMP;
-    // 1/f timelines are synthesised in both engines (the exact engine only skips the records)
-    seconds += shots * n * (s.signal.flicker?.length ?? 0) * FLICKER_SECONDS_PER_SAMPLE;
+    // noise timelines (1/f) are synthesised in both engines (the exact engine only skips the records)
+    for (const { kind, specs } of sourcesByKind(s.signal.sources)) seconds += shots * n * kind.secondsPerSample(specs);
     if (o.engine === 'exact') {
       // no record is synthesised: a fixed cost per shot and output (I and Q of each pipeline)
       seconds += shots * (EXACT_SECONDS_PER_SHOT + 2 * p * EXACT_SECONDS_PER_OUTPUT) + jumps;

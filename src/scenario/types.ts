@@ -77,10 +77,8 @@ export interface SignalSpec {
   unit: string;
   /** White noise built from the parts of the chain (adds to `white`); absent or null for none. */
   components?: NoiseComponentsSpec | null;
-  /** 1/f noise sources (absent: none). */
-  flicker?: FlickerNoiseSpec[];
-  /** Two-level fluctuators (absent: none). */
-  telegraph?: TelegraphNoiseSpec[];
+  /** Noise sources beyond white noise, each of a registered kind (signal/noise/), in registry order (absent: none). */
+  sources?: NoiseSourceSpec[];
   /** First-order analog response on the level path (absent or null: instantaneous). */
   response?: ResponseSpec | null;
   /** Clipping range and resolution after the gain (absent or null: ideal). */
@@ -93,29 +91,16 @@ export interface SignalSpec {
  */
 export type NoiseInjection = 'sensor' | 'amplifier';
 
-/** A 1/f^α noise source, one-sided S(f) = amplitude/f^α on [low, high]. */
-export interface FlickerNoiseSpec {
+/**
+ * One noise source beyond white noise. Its kind (a file of signal/noise/, listed in its registry)
+ * says what its other fields are.
+ */
+export interface NoiseSourceSpec {
+  kind: string;
+  /** Its name in the noise budget. */
   name: string;
-  /** A: signal unit²/Hz at 1 Hz, or J²/Hz at 1 Hz when `inDetuning`. */
-  amplitude: number;
-  exponent: number;
-  /** Band edges, Hz. */
-  low: number;
-  high: number;
   injection: NoiseInjection;
-  /** The amplitude is detuning (charge) noise, turned into current by the sensor's slope. */
-  inDetuning: boolean;
-}
-
-/** A two-level fluctuator adding 0 or `amplitude`. */
-export interface TelegraphNoiseSpec {
-  name: string;
-  /** Signal unit, or J of detuning when `inDetuning`. */
-  amplitude: number;
-  /** 0→1 and 1→0 rates, 1/s. */
-  rateUp: number;
-  rateDown: number;
-  injection: NoiseInjection;
+  /** Given as detuning (charge) noise, in energy units: the sensor turns it into signal units. */
   inDetuning: boolean;
 }
 

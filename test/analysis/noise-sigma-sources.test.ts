@@ -10,27 +10,27 @@
  * nothing of the generator's blocks, grids or interpolation, so the agreement is not circular.
  */
 import { describe, expect, it } from 'vitest';
-import { flicker, idealFlickerSigma, noiseScenario, runNoise, type NoiseCase } from '../support/noise-helpers.ts';
+import { flicker, idealFlickerSigma, noiseScenario, runNoise, sourcesOf, type NoiseCase } from '../support/noise-helpers.ts';
 
 const A = 1e-4;
 const cases: { name: string; c: NoiseCase; ideal?: boolean }[] = [
   // white: σ² = S/(2τ) at baseband, S/τ with a sine carrier (DESIGN.md §4; test/plan/noise-sigma.test.ts)
   { name: 'white noise at baseband', c: { carrier: 'none', white: 1 } },
   { name: 'white noise with a 1 MHz carrier', c: { carrier: 'sine', white: 1 } },
-  { name: 'amplifier-side 1/f at baseband', c: { carrier: 'none', shotPeriod: 100e-6, signal: { flicker: [flicker('amplifier', A, 100, 200e3)] } }, ideal: true },
-  { name: 'amplifier-side 1/f with a carrier', c: { carrier: 'sine', shotPeriod: 100e-6, signal: { flicker: [flicker('amplifier', A, 100, 200e3)] } }, ideal: true },
-  { name: 'sensor-side 1/f with a carrier', c: { carrier: 'sine', shotPeriod: 100e-6, signal: { flicker: [flicker('sensor', A, 100, 200e3)] } }, ideal: true },
+  { name: 'amplifier-side 1/f at baseband', c: { carrier: 'none', shotPeriod: 100e-6, signal: { sources: [flicker('amplifier', A, 100, 200e3)] } }, ideal: true },
+  { name: 'amplifier-side 1/f with a carrier', c: { carrier: 'sine', shotPeriod: 100e-6, signal: { sources: [flicker('amplifier', A, 100, 200e3)] } }, ideal: true },
+  { name: 'sensor-side 1/f with a carrier', c: { carrier: 'sine', shotPeriod: 100e-6, signal: { sources: [flicker('sensor', A, 100, 200e3)] } }, ideal: true },
   {
     name: 'sensor-side 1/f through an 8 kHz bandwidth, with a carrier',
     c: {
       carrier: 'sine', shotPeriod: 100e-6,
-      signal: { flicker: [flicker('sensor', A, 100, 500e3, 0.7)], response: { timeConstant: 1 / (2 * Math.PI * 8e3), from: 'settled' } },
+      signal: { sources: [flicker('sensor', A, 100, 500e3, 0.7)], response: { timeConstant: 1 / (2 * Math.PI * 8e3), from: 'settled' } },
     },
     ideal: true,
   },
   {
     name: 'white + both 1/f injections + gain 2.5',
-    c: { carrier: 'sine', white: 0.3, shotPeriod: 100e-6, signal: { gain: 2.5, flicker: [flicker('sensor', A, 100, 200e3), flicker('amplifier', 3 * A, 100, 100e3, 1.3)] } },
+    c: { carrier: 'sine', white: 0.3, shotPeriod: 100e-6, signal: { gain: 2.5, sources: [flicker('sensor', A, 100, 200e3), flicker('amplifier', 3 * A, 100, 100e3, 1.3)] } },
   },
 ];
 
@@ -46,7 +46,7 @@ describe('simulated σ = filter-function prediction within 3 % (20 480 shots)', 
       expect(Math.abs(predicted / formula - 1), `${name}: predicted ${predicted}, formula ${formula}`).toBeLessThan(1e-9);
     }
     if (ideal) {
-      const f = c.signal!.flicker![0]!;
+      const f = sourcesOf(c.signal!, 'flicker')[0]!;
       const expected = idealFlickerSigma(run.point, f);
       expect(Math.abs(predicted / expected - 1), `${name}: prediction ${predicted}, ideal ∫S|H|² ${expected}`).toBeLessThan(0.03);
     }
@@ -61,8 +61,8 @@ describe('simulated σ = filter-function prediction within 3 % (20 480 shots)', 
 });
 
 describe('where the noise enters decides what a carrier does (common practice, no source)', () => {
-  const amp = (carrier: 'none' | 'sine') => runNoise(noiseScenario({ carrier, shotPeriod: 100e-6, signal: { flicker: [flicker('amplifier', A, 100, 200e3)] } })).sigma;
-  const sensor = (carrier: 'none' | 'sine') => runNoise(noiseScenario({ carrier, shotPeriod: 100e-6, signal: { flicker: [flicker('sensor', A, 100, 200e3)] } })).sigma;
+  const amp = (carrier: 'none' | 'sine') => runNoise(noiseScenario({ carrier, shotPeriod: 100e-6, signal: { sources: [flicker('amplifier', A, 100, 200e3)] } })).sigma;
+  const sensor = (carrier: 'none' | 'sine') => runNoise(noiseScenario({ carrier, shotPeriod: 100e-6, signal: { sources: [flicker('sensor', A, 100, 200e3)] } })).sigma;
 
   it('a carrier lowers amplifier-side 1/f σ by ≥ 10× against baseband', () => {
     const base = amp('none'), carried = amp('sine');

@@ -34,7 +34,7 @@ describe('SNR against the window length τ', () => {
     // sample, 1/f on [30 Hz, 50 kHz]
     const base: NoiseCase = {
       sampleRate: 4e6, carrierFrequency: 500e3, recordLength: 200e-6, carrier: 'sine', white: 1, shots: 10240,
-      signal: { flicker: [flicker('sensor', 0.006, 30, 50e3)] },
+      signal: { sources: [flicker('sensor', 0.006, 30, 50e3)] },
     };
     const windows = [2e-6, 6.3e-6, 20e-6, 63e-6, 200e-6];
     const { snr, predicted } = snrCurve(base, windows);

@@ -7,7 +7,8 @@
 import { describe, expect, it } from 'vitest';
 import { chooseEngine, exactBlockers } from '../../src/engine/choose.ts';
 import { InputError } from '../../src/errors.ts';
-import type { Scenario } from '../../src/scenario/types.ts';
+import type { NoiseSourceSpec, Scenario } from '../../src/scenario/types.ts';
+import type { FlickerSourceSpec } from '../../src/signal/noise/flicker.ts';
 import { twoStateScenario } from '../support/scenarios.ts';
 
 function withChange(change: (s: Scenario) => void): Scenario {
@@ -24,16 +25,17 @@ const exactCases: [string, Scenario][] = [
   })],
   ['no noise at all', withChange((s) => { s.signal.white = null; })],
   ['1/f noise (amplifier- and sensor-side)', withChange((s) => {
-    s.signal.flicker = [
-      { name: 'f', amplitude: 1e-3, exponent: 1, low: 1, high: 1e6, injection: 'amplifier', inDetuning: false },
-      { name: 'g', amplitude: 1e-4, exponent: 1.2, low: 10, high: 1e6, injection: 'sensor', inDetuning: false },
+    const flickers: FlickerSourceSpec[] = [
+      { kind: 'flicker', name: 'f', amplitude: 1e-3, exponent: 1, low: 1, high: 1e6, injection: 'amplifier', inDetuning: false },
+      { kind: 'flicker', name: 'g', amplitude: 1e-4, exponent: 1.2, low: 10, high: 1e6, injection: 'sensor', inDetuning: false },
     ];
+    s.signal.sources = flickers;
   })],
 ];
 
 const traceCases: [string, Scenario, RegExp][] = [
   ['telegraph noise', withChange((s) => {
-    s.signal.telegraph = [{ name: 't', amplitude: 0.1, rateUp: 1e3, rateDown: 1e3, injection: 'amplifier', inDetuning: false }];
+    s.signal.sources = [{ kind: 'telegraph', name: 't', amplitude: 0.1, rateUp: 1e3, rateDown: 1e3, injection: 'amplifier', inDetuning: false } as NoiseSourceSpec];
   }), /signal\.telegraph: telegraph noise is not Gaussian/],
   ['a digitizer', withChange((s) => { s.signal.digitizer = { low: -5, high: 5, bits: 8 }; }), /signal\.digitizer: clipping and quantisation are not linear/],
   ['the likelihood classifier', withChange((s) => { s.pipelines[0]!.classifier = 'likelihood'; }), /pipeline "main": the likelihood classifier is not linear/],

@@ -18,7 +18,8 @@ import { simulateBatch, type ShotBatch } from '../../src/engine/trace/batch.ts';
 import { simulateExactBatch, exactTables } from '../../src/engine/exact/batch.ts';
 import { whiteCovariance } from '../../src/analysis/linear-statistic.ts';
 import { runPoints } from '../../src/run/run-points.ts';
-import type { Scenario } from '../../src/scenario/types.ts';
+import type { NoiseSourceSpec, Scenario } from '../../src/scenario/types.ts';
+import type { FlickerSourceSpec } from '../../src/signal/noise/flicker.ts';
 import { twoStateScenario } from '../support/scenarios.ts';
 
 const base = { recordLength: 4e-6, sampleRate: 50e6, batchSize: 4096 };
@@ -61,10 +62,11 @@ function mixedErrors(seed: number): Scenario {
  */
 function withFlicker(seed: number): Scenario {
   const s = twoStateScenario({ ...base, t1: 12e-6, sigmaPerSample: 3, seed });
-  s.signal.flicker = [
-    { name: 'sensor 1/f', amplitude: 0.15, exponent: 1, low: 50e3, high: 10e6, injection: 'sensor', inDetuning: false },
-    { name: 'amplifier 1/f', amplitude: 0.05, exponent: 1.2, low: 50e3, high: 10e6, injection: 'amplifier', inDetuning: false },
+  const flickers: FlickerSourceSpec[] = [
+    { kind: 'flicker', name: 'sensor 1/f', amplitude: 0.15, exponent: 1, low: 50e3, high: 10e6, injection: 'sensor', inDetuning: false },
+    { kind: 'flicker', name: 'amplifier 1/f', amplitude: 0.05, exponent: 1.2, low: 50e3, high: 10e6, injection: 'amplifier', inDetuning: false },
   ];
+  s.signal.sources = flickers;
   return s;
 }
 
@@ -142,7 +144,7 @@ describe('different seeds: the engines agree in distribution', () => {
 
   it('the KS check sees the 1/f part: the exact engine without it is rejected against the trace engine with it (p < 0.01)', () => {
     const without = withFlicker(22);
-    without.signal.flicker = [];
+    without.signal.sources = [];
     const r = ksTwoSample(column(batches(simulateBatch, withFlicker(21), 3), 0, 'inPhase'), column(batches(simulateExactBatch, without, 3), 0, 'inPhase'));
     expect(r.pValue, `D = ${r.statistic}, p = ${r.pValue}`).toBeLessThan(0.01);
   });
@@ -172,7 +174,7 @@ describe('the 1/f part of the outputs', () => {
     const [t] = batches(simulateBatch, s, 1), [e] = batches(simulateExactBatch, s, 1);
     const quiet = withFlicker(51);
     quiet.signal.white = null;
-    quiet.signal.flicker = [];
+    quiet.signal.sources = [];
     const [c] = batches(simulateExactBatch, quiet, 1);
     let worst = 0, scale = 0, power = 0;
     for (let i = 0; i < t!.count; i++) {

@@ -11,7 +11,8 @@ import { runPoints, type RunResult } from '../../src/run/run-points.ts';
 import { inProcessExecutor, type BatchExecutor } from '../../src/run/executor.ts';
 import { workerPoolExecutor } from '../../src/run/pool.ts';
 import type { Tally } from '../../src/analysis/tally.ts';
-import type { Scenario } from '../../src/scenario/types.ts';
+import type { NoiseSourceSpec, Scenario } from '../../src/scenario/types.ts';
+import type { FlickerSourceSpec } from '../../src/signal/noise/flicker.ts';
 import { twoStateScenario } from '../support/scenarios.ts';
 
 const pools: { close(): Promise<void> }[] = [];
@@ -94,10 +95,11 @@ describe('fused exact path', () => {
     ['four-lane kernel: flips both ways, band', async () => ({ ...(await oneJump()), shots: 8192, batchSize: 8192 })],
     ['1/f noise on both sides of the sensor (per-shot timeline draws)', async () => {
       const s = twoStateScenario({ t1: 5e-6, recordLength: 2e-6, sampleRate: 20e6, shots: 4100, batchSize: 2048 });
-      s.signal.flicker = [
-        { name: 'sensor 1/f', amplitude: 0.1, exponent: 1, low: 1e3, high: 5e6, injection: 'sensor', inDetuning: false },
-        { name: 'amplifier 1/f', amplitude: 0.05, exponent: 1.5, low: 1e3, high: 5e6, injection: 'amplifier', inDetuning: false },
+      const flickers: FlickerSourceSpec[] = [
+        { kind: 'flicker', name: 'sensor 1/f', amplitude: 0.1, exponent: 1, low: 1e3, high: 5e6, injection: 'sensor', inDetuning: false },
+        { kind: 'flicker', name: 'amplifier 1/f', amplitude: 0.05, exponent: 1.5, low: 1e3, high: 5e6, injection: 'amplifier', inDetuning: false },
       ];
+      s.signal.sources = flickers;
       return s;
     }],
   ])('%s: the same tally tree and paired counts to the bit', async (_name, make) => {

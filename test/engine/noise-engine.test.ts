@@ -12,7 +12,7 @@ import { gaussianTail, normalCdf } from '../../src/analysis/special.ts';
 import { parseScenarioText } from '../../src/scenario/parse.ts';
 import { resolveScenario } from '../../src/scenario/resolve.ts';
 import type { Scenario } from '../../src/scenario/types.ts';
-import { flicker, noiseScenario, runNoise } from '../support/noise-helpers.ts';
+import { flicker, fluctuator, noiseScenario, runNoise } from '../support/noise-helpers.ts';
 
 describe('telegraph noise through the engine (two-level fluctuator; Machlup, J. Appl. Phys. 25, 341 (1954))', () => {
   it('the histogram has the side peak at the amplitude with the weight the occupation predicts (χ², fixed seed)', () => {
@@ -20,7 +20,7 @@ describe('telegraph noise through the engine (two-level fluctuator; Machlup, J. 
     const sigmaValue = 0.1; // σ of the integrated value from white noise: per-sample σ·/√200
     const sc = noiseScenario({
       carrier: 'none', white: sigmaValue * Math.sqrt(200), shotPeriod: 10e-3, levels: [0, 5],
-      signal: { telegraph: [{ name: 'trap', amplitude: a, rateUp: up, rateDown: down, injection: 'amplifier', inDetuning: false }] },
+      signal: { sources: [fluctuator('trap', a, up, down, 'amplifier')] },
     });
     sc.prepare = [1, 0]; // the ground state only: its histogram is the fluctuator's
     const run = runNoise(sc);
@@ -61,7 +61,7 @@ describe('the analytic budget with a slow fluctuator is a mixture, not a Gaussia
     // levels 0 and 1, σ 0.2 from white noise, a fluctuator of 0.5 at π = 0.3 that never switches in a window
     const sc = noiseScenario({
       carrier: 'none', white: 0.2 * Math.sqrt(200), shotPeriod: 10e-3, levels: [0, 1],
-      signal: { telegraph: [{ name: 'trap', amplitude: 0.5, rateUp: 30, rateDown: 70, injection: 'amplifier', inDetuning: false }] },
+      signal: { sources: [fluctuator('trap', 0.5, 30, 70, 'amplifier')] },
     });
     const result = await runPoints([{ parameters: {}, scenario: sc }]);
     const s = result.points[0]!.summaries[0]!;
@@ -82,10 +82,9 @@ describe('slow noise does not depend on batching (continuous timelines, random a
     const make = (batchSize: number): Scenario => noiseScenario({
       carrier: 'sine', white: 0.5, t1: 50e-6, shots: 4096, batchSize, shotPeriod: 37e-6,
       signal: {
-        flicker: [flicker('sensor', 1e-3, 50, 300e3), flicker('amplifier', 2e-3, 10, 100e3, 1.2)],
-        telegraph: [
-          { name: 'fast', amplitude: 0.2, rateUp: 2e4, rateDown: 3e4, injection: 'sensor', inDetuning: false },
-          { name: 'slow', amplitude: -0.3, rateUp: 20, rateDown: 50, injection: 'amplifier', inDetuning: false },
+        sources: [
+          flicker('sensor', 1e-3, 50, 300e3), flicker('amplifier', 2e-3, 10, 100e3, 1.2),
+          fluctuator('fast', 0.2, 2e4, 3e4, 'sensor'), fluctuator('slow', -0.3, 20, 50, 'amplifier'),
         ],
         response: { timeConstant: 0.3e-6, from: 'zero' },
         digitizer: withDigitizer ? { low: -4, high: 4, bits: 10 } : null,
@@ -113,7 +112,7 @@ describe('slow noise does not depend on batching (continuous timelines, random a
   });
 
   it('keeping traces changes no value, and the kept records carry the 1/f noise', () => {
-    const sc = noiseScenario({ carrier: 'sine', white: 0.05, shots: 1024, batchSize: 1024, shotPeriod: 50e-6, signal: { flicker: [flicker('sensor', 1e-2, 100, 100e3)] } });
+    const sc = noiseScenario({ carrier: 'sine', white: 0.05, shots: 1024, batchSize: 1024, shotPeriod: 50e-6, signal: { sources: [flicker('sensor', 1e-2, 100, 100e3)] } });
     const plain = simulateBatch(compilePoint(sc), 0, 'score', 0, 1024);
     const kept = simulateBatch(compilePoint(sc, { keepTraces: 'raw' }), 0, 'score', 0, 1024);
     expect(Array.from(kept.values[0]!.inPhase)).toEqual(Array.from(plain.values[0]!.inPhase));
@@ -132,7 +131,7 @@ describe('slow noise does not depend on batching (continuous timelines, random a
   });
 
   it('a batch run alone (a worker or shard) gives the values it gives in sequence', () => {
-    const sc = noiseScenario({ carrier: 'none', shots: 8192, batchSize: 2048, shotPeriod: 50e-6, signal: { flicker: [flicker('sensor', 1e-3, 5, 100e3)] } });
+    const sc = noiseScenario({ carrier: 'none', shots: 8192, batchSize: 2048, shotPeriod: 50e-6, signal: { sources: [flicker('sensor', 1e-3, 5, 100e3)] } });
     const point = compilePoint(sc);
     const scratch = makeScratch(point);
     const sequence = [0, 1, 2, 3].map((b) => simulateBatch(point, 0, 'score', b, 2048, scratch).values[0]!.inPhase);

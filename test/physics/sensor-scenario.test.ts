@@ -2,6 +2,7 @@
  * The sensor front end through the scenario path: levels, readout-induced relaxation and
  * detuning noise follow from the sensor dot (Beenakker, Phys. Rev. B 44, 1646 (1991)).
  */
+import { sourcesOf } from '../support/noise-helpers.ts';
 import { describe, expect, it } from 'vitest';
 import { parseScenarioText } from '../../src/scenario/parse.ts';
 import { resolveScenario } from '../../src/scenario/resolve.ts';
@@ -102,10 +103,10 @@ describe('noise in detuning units and the sensor current', () => {
     const c = compilePoint(scenario).scenario;
     const p: SensorParams = { gammaL: 1e9, gammaR: 2e9, temperature: 0.1, bias: 30e-6 };
     const slope = sensorSlope(p, 15 * ueV);
-    const f = c.signal.flicker![0]!;
+    const f = sourcesOf(c.signal, 'flicker')[0]!;
     expect(f.inDetuning).toBe(false);
     expect(f.amplitude / ((0.5 * ueV) ** 2 * slope * slope)).toBeCloseTo(1, 12);
-    const t = c.signal.telegraph![0]!;
+    const t = sourcesOf(c.signal, 'telegraph')[0]!;
     expect(t.amplitude).toBeCloseTo(sensorCurrent(p, 18 * ueV) - sensorCurrent(p, 15 * ueV), 22);
     // prepared 3:1, so the shot-noise current is ¾|I(ε0)| + ¼|I(ε0 + δ)|
     const mean = 0.75 * Math.abs(sensorCurrent(p, 15 * ueV)) + 0.25 * Math.abs(sensorCurrent(p, 35 * ueV));

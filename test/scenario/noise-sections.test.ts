@@ -1,3 +1,4 @@
+import { sourcesOf } from '../support/noise-helpers.ts';
 import { describe, expect, it } from 'vitest';
 import { parseScenarioText } from '../../src/scenario/parse.ts';
 import { resolveScenario } from '../../src/scenario/resolve.ts';
@@ -39,19 +40,19 @@ function errorAt(text: string): string {
 describe('signal.noise: flicker, telegraph, components', () => {
   it('reads a 1/f source as its density at a reference frequency: A = density²·at^α', () => {
     const s = resolve(`${BASE}signal:\n  noise:\n    flicker: { density: 5 pA/rtHz, at: 10 Hz, exponent: 1.5, low: 1 Hz, high: 100 kHz, injection: sensor }\n`).scenario;
-    const f = s.signal.flicker![0]!;
+    const f = sourcesOf(s.signal, 'flicker')[0]!;
     expect(f.amplitude).toBeCloseTo(25e-24 * 10 ** 1.5, 30);
     expect([f.name, f.exponent, f.low, f.high, f.injection, f.inDetuning]).toEqual(['flicker', 1.5, 1, 1e5, 'sensor', false]);
   });
 
   it('takes a list of sources with names and defaults (α = 1, at 1 Hz)', () => {
     const s = resolve(`${BASE}signal:\n  noise:\n    flicker:\n      - { density: 1 pA/rtHz, low: 1 Hz, high: 10 kHz, injection: sensor }\n      - { name: amp, density: 2 pA/rtHz, low: 1 Hz, high: 10 kHz, injection: amplifier }\n`).scenario;
-    expect(s.signal.flicker!.map((f) => [f.name, f.amplitude, f.exponent])).toEqual([['flicker', 1e-24, 1], ['amp', 4e-24, 1]]);
+    expect(sourcesOf(s.signal, 'flicker').map((f) => [f.name, f.amplitude, f.exponent])).toEqual([['flicker', 1e-24, 1], ['amp', 4e-24, 1]]);
   });
 
   it('reads fluctuators from rates or dwell times', () => {
     const s = resolve(`${BASE}signal:\n  noise:\n    telegraph:\n      - { amplitude: 20 pA, rateUp: 2 kHz, dwellHigh: 1 ms, injection: amplifier }\n`).scenario;
-    const t = s.signal.telegraph![0]!;
+    const t = sourcesOf(s.signal, 'telegraph')[0]!;
     expect([t.amplitude, t.rateUp, t.rateDown, t.injection]).toEqual([20e-12, 2000, 1000, 'amplifier']);
   });
 
@@ -70,8 +71,8 @@ describe('signal.noise: flicker, telegraph, components', () => {
 
   it('with a sensor, noise may be written in detuning units', () => {
     const s = resolve(`${SENSOR_STATES}signal:\n  noise:\n    flicker: { density: 1 ueV/rtHz, low: 1 Hz, high: 10 kHz, injection: sensor }\n    telegraph: { amplitude: 2 ueV, rateUp: 1 Hz, rateDown: 1 Hz, injection: sensor }\n`).scenario;
-    expect(s.signal.flicker![0]!.inDetuning).toBe(true);
-    expect(s.signal.telegraph![0]!.inDetuning).toBe(true);
+    expect(sourcesOf(s.signal, 'flicker')[0]!.inDetuning).toBe(true);
+    expect(sourcesOf(s.signal, 'telegraph')[0]!.inDetuning).toBe(true);
     expect(s.signal.unit).toBe('A');
   });
 

@@ -4,12 +4,26 @@ import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';
 import { predictNoise, projectedKernel, type NoisePrediction } from '../../src/analysis/noise-prediction.ts';
 import { filterFunctionVariance } from '../../src/signal/filter-function.ts';
 import { responsePowerGain } from '../../src/signal/response.ts';
-import type { FlickerNoiseSpec, Scenario, SignalSpec } from '../../src/scenario/types.ts';
+import type { Scenario, SignalSpec } from '../../src/scenario/types.ts';
+import type { FlickerSourceSpec } from '../../src/signal/noise/flicker.ts';
+import type { TelegraphSourceSpec } from '../../src/signal/noise/telegraph.ts';
 import { twoStateScenario, type TwoStateOptions } from './scenarios.ts';
 
 /** A 1/f source spec (signal units). */
-export function flicker(injection: 'sensor' | 'amplifier', amplitude: number, low: number, high: number, exponent = 1): FlickerNoiseSpec {
-  return { name: `${injection}Flicker`, amplitude, exponent, low, high, injection, inDetuning: false };
+export function flicker(injection: 'sensor' | 'amplifier', amplitude: number, low: number, high: number, exponent = 1): FlickerSourceSpec {
+  return { kind: 'flicker', name: `${injection}Flicker`, amplitude, exponent, low, high, injection, inDetuning: false };
+}
+
+/** A fluctuator spec (signal units). */
+export function fluctuator(name: string, amplitude: number, rateUp: number, rateDown: number, injection: 'sensor' | 'amplifier'): TelegraphSourceSpec {
+  return { kind: 'telegraph', name, amplitude, rateUp, rateDown, injection, inDetuning: false };
+}
+
+/** The sources of one kind of a signal section. */
+export function sourcesOf(signal: Partial<SignalSpec>, kind: 'flicker'): FlickerSourceSpec[];
+export function sourcesOf(signal: Partial<SignalSpec>, kind: 'telegraph'): TelegraphSourceSpec[];
+export function sourcesOf(signal: Partial<SignalSpec>, kind: string): unknown[] {
+  return (signal.sources ?? []).filter((s) => s.kind === kind);
 }
 
 export interface NoiseCase extends TwoStateOptions {
@@ -70,7 +84,7 @@ export function runNoise(sc: Scenario): NoiseRun {
  * H the I kernel times the gain (and the carrier for sensor-side noise) — independent of the
  * generator's blocks and grids (Wiener–Khinchin).
  */
-export function idealFlickerSigma(point: CompiledPoint, f: FlickerNoiseSpec): number {
+export function idealFlickerSigma(point: CompiledPoint, f: FlickerSourceSpec): number {
   const k = point.pipelines[0]!.kernels;
   const x = new Float64Array(k.inPhase.length);
   for (let j = k.lo; j < k.hi; j++) x[j] = k.inPhase[j]! * (f.injection === 'sensor' ? point.noise.sensorWeight[j]! : point.noise.gain);

@@ -167,7 +167,7 @@ export function simulateExactBatch(
     sampleHistories(history, stream, out, from, to, store);
     blockValues(t, lane, scratch.normals, targets, out.initial, from, to, store);
   }
-  addFlickerValues(point, pointIndex, purpose, scratch, t, targets, out.firstShot, 0, count);
+  addLinearNoiseValues(point, pointIndex, purpose, scratch, t, targets, out.firstShot, 0, count);
   return out;
 }
 
@@ -311,18 +311,18 @@ function respondedPathValue(
 }
 
 /**
- * Adds the 1/f part to targets[d][i] for the shots [from, to) of a batch whose first shot is
- * `firstShot` (nothing without 1/f noise): the same per-shot timeline draw and carried dot
+ * Adds the noise with a linear path (1/f) to targets[d][i] for the shots [from, to) of a batch whose first shot is
+ * `firstShot` (nothing without such noise): the same per-shot timeline draw and carried dot
  * product as the trace engine's values (batch.ts), in shot order.
  */
-export function addFlickerValues(
+export function addLinearNoiseValues(
   point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, scratch: BatchScratch, t: ExactTables,
   targets: readonly Float64Array[], firstShot: number, from: number, to: number,
 ): void {
-  if (!point.noise.flicker) return;
+  if (!point.noise.kinds.some((k) => k.compiled.linear)) return;
   const slow = noiseRuntime(point, pointIndex, purpose, scratch);
   for (let i = from; i < to; i++) {
     slow.shot(firstShot + i);
-    for (let d = 0; d < t.outputs; d++) targets[d]![i] += slow.flickerValue(t.pipeline[d]!, t.isQuadrature[d] === 1);
+    for (let d = 0; d < t.outputs; d++) targets[d]![i] += slow.linearValue(t.pipeline[d]!, t.isQuadrature[d] === 1);
   }
 }

@@ -29,7 +29,7 @@ const LAYER_W = ZIGGURAT.w;
  * columns, and no 1/f noise (its per-shot timeline draw runs in the separate passes).
  */
 export function fastKernelApplies(point: CompiledPoint, t: ExactTables, h: HistoryTables, pipelines: number, outcomes: number): boolean {
-  return point.noise.flicker === null && h.states === 2 && outcomes === 2 && pipelines === 1
+  return point.noise.kinds.length === 0 && h.states === 2 && outcomes === 2 && pipelines === 1
     && t.outputs >= 1 && t.outputs <= 2 && t.columns.length <= 2;
 }
 

@@ -19,7 +19,7 @@ import { ExactKernel, exactKernelApplies } from './kernel.ts';
 import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../../random/streams.ts';
 import type { CompiledPoint } from '../compile-point.ts';
 import type { FusedPipeline, FusedScoring } from './fused-scoring.ts';
-import { addFlickerValues, blockValues, makeExactScratch, refreshExactScratch, type ExactScratch } from './batch.ts';
+import { addLinearNoiseValues, blockValues, makeExactScratch, refreshExactScratch, type ExactScratch } from './batch.ts';
 import { sampleHistories, type HistoryColumns } from '../../physics/history.ts';
 import { scratchHistory } from '../trace/batch.ts';
 
@@ -159,7 +159,7 @@ export function simulateTalliedBatch(
     }
     sampleHistories(history, stream, columns, 0, len, scratch.store);
     blockValues(t, lane, scratch.normals, values, columns.initial, 0, len, scratch.store);
-    addFlickerValues(point, pointIndex, purpose, scratch, t, values, firstShot + from, 0, len);
+    addLinearNoiseValues(point, pointIndex, purpose, scratch, t, values, firstShot + from, 0, len);
     for (let p = 0; p < nPipes; p++) {
       const s = scoring.pipelines[p]!;
       const leaf = emptyTally(states, outcomes);

@@ -59,7 +59,7 @@ export function noiseRuntime(point: CompiledPoint, pointIndex: number, purpose: 
   const key = `${pointIndex}/${purpose}`;
   let r = scratch.noise.get(key);
   if (!r) {
-    r = makeNoiseRuntime(point.noise, point.scenario.seed, pointIndex, purpose, point.grid.sampleRate, point.scenario.timing);
+    r = makeNoiseRuntime(point.noise, point.scenario.seed, pointIndex, purpose);
     scratch.noise.set(key, r);
   }
   return r;
@@ -152,7 +152,7 @@ export function simulateBatch(
   const collector = makeShotCollector(point, pointIndex, purpose, out.firstShot, count);
   // noise beyond white (noise/sensor hook): slow noise from its own streams, response, digitizer
   const { response, digitizer } = point.noise;
-  const slow = point.noise.slow ? noiseRuntime(point, pointIndex, purpose, scratch) : null;
+  const slow = point.noise.kinds.length > 0 ? noiseRuntime(point, pointIndex, purpose, scratch) : null;
   let clipped = 0;
   const pair = new Float64Array(2);
   forEachBlock(out, point.scenario.seed, (stream, from, to) => {
@@ -165,22 +165,22 @@ export function simulateBatch(
       else if (response) writeRespondedSignal(record, lo, hi, point.levelWaves, response, out.initial[i]!, path, fs);
       else writeSignal(record, lo, hi, point.waveforms, out.initial[i]!, path, fs);
       if (slow) {
-        // 1/f goes into the record only when the digitizer needs it there; otherwise it enters
-        // each value through its carried kernel (compile-noise.ts), the same linear map
+        // noise with a linear path (1/f) goes into the record only when the digitizer needs it
+        // there; otherwise it enters each value through that path (signal/noise-runtime.ts)
         slow.shot(out.firstShot + i);
-        slow.addTelegraph(record, lo, hi);
-        if (digitizer) slow.addFlicker(record, lo, hi);
+        slow.addToRecord(record, lo, hi);
+        if (digitizer) slow.addLinearToRecord(record, lo, hi);
       }
       if (!plain) kernel.addNoise(stream, lo, hi, point.whiteSigma);
       if (digitizer) clipped += digitize(record, lo, hi, digitizer);
-      const carried = slow !== null && slow.hasFlicker && digitizer === null;
+      const carried = slow !== null && slow.hasLinear && digitizer === null;
       for (let p = 0; p < point.pipelines.length; p++) {
         kernel.values(p, pair);
-        out.values[p]!.inPhase[i] = pair[0]! + (carried ? slow.flickerValue(p, false) : 0);
-        out.values[p]!.quadrature[i] = point.pipelines[p]!.kernels.quadrature ? pair[1]! + (carried ? slow.flickerValue(p, true) : 0) : 0;
+        out.values[p]!.inPhase[i] = pair[0]! + (carried ? slow.linearValue(p, false) : 0);
+        out.values[p]!.quadrature[i] = point.pipelines[p]!.kernels.quadrature ? pair[1]! + (carried ? slow.linearValue(p, true) : 0) : 0;
       }
       // kept traces and bins see the whole record (after the values, which do not depend on them)
-      if (carried && collector) slow.addFlicker(record, lo, hi);
+      if (carried && collector) slow.addLinearToRecord(record, lo, hi);
       collector?.shot(i, record, out.initial[i]!, path);
     }
   });

@@ -111,8 +111,7 @@ export function resolveSignal(doc: SignalDoc, ctx: ResolveContext, inputs: Signa
   return {
     carrier, gain: s.gain ?? 1, white: density === null ? null : { density }, unit,
     ...(extras.components ? { components: extras.components } : {}),
-    ...(extras.flicker.length ? { flicker: extras.flicker } : {}),
-    ...(extras.telegraph.length ? { telegraph: extras.telegraph } : {}),
+    ...(extras.sources.length ? { sources: extras.sources } : {}),
     ...(chain.response ? { response: chain.response } : {}),
     ...(chain.digitizer ? { digitizer: chain.digitizer } : {}),
   };

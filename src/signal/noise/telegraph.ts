@@ -1,0 +1,153 @@
+/**
+ * Random telegraph noise (`signal.noise.telegraph`): two-level fluctuators (charge traps), each
+ * adding 0 or its amplitude, switching up at rateUp and down at rateDown (Machlup, J. Appl.
+ * Phys. 25, 341 (1954)). All fluctuators of a point share one timeline across the shots
+ * (telegraph-timeline.ts), random access by seeding block. Not Gaussian: the histograms get
+ * wings, and the exact engine does not take it.
+ *
+ * Variance of Σ_k x_k·n(t_k): a²·π(1 − π)·Σ_k Σ_k' x_k x_k' e^(−λ|t_k − t_k'|), π = up/λ,
+ * λ = up + down; one-sided spectrum 4a²·π(1 − π)·λ/(λ² + (2πf)²) (Machlup 1954).
+ * Steps are not smoothed by the analog response (fluctuators switch far more slowly than any
+ * bandwidth of interest).
+ */
+import type { NoiseInjection, NoiseSourceSpec } from '../../scenario/types.ts';
+import { SEED_BLOCK } from '../../random/streams.ts';
+import { exponentialQuadraticForm } from '../filter-function.ts';
+import { stationaryOccupation } from '../telegraph.ts';
+import { makeTelegraphRecord, makeTelegraphTimeline, type Fluctuator } from '../telegraph-timeline.ts';
+import type { CompiledNoiseKind, KindedValue, NoiseSourceKind } from './contract.ts';
+import { telegraphStreamIndex } from './stream-layout.ts';
+
+/** A fluctuator as the scenario holds it. */
+export interface TelegraphSourceSpec extends NoiseSourceSpec {
+  kind: 'telegraph';
+  /** Signal unit, or J of detuning when `inDetuning`. */
+  amplitude: number;
+  /** 0→1 and 1→0 rates, 1/s. */
+  rateUp: number;
+  rateDown: number;
+}
+
+/** Most fluctuators per point. */
+export const MAX_FLUCTUATORS = 16;
+
+const positive = { min: 0, minExclusive: true } as const;
+
+export const telegraphKind: NoiseSourceKind<TelegraphSourceSpec> = {
+  kind: 'telegraph',
+  config: {
+    fields: {
+      name: { type: 'name', optional: true, description: 'Name in the noise budget (default telegraph, telegraph2, …)' },
+      amplitude: { type: 'kinded', dimension: 'signalOrEnergy', description: 'Level added in the upper state' },
+      rateUp: { type: 'quantity', dimension: 'rate', range: { min: 0 }, optional: true, description: 'Rate of lower → upper switches' },
+      rateDown: { type: 'quantity', dimension: 'rate', range: { min: 0 }, optional: true, description: 'Rate of upper → lower switches' },
+      dwellLow: { type: 'quantity', dimension: 'time', range: positive, optional: true, description: 'Mean time in the lower state (1/rateUp)' },
+      dwellHigh: { type: 'quantity', dimension: 'time', range: positive, optional: true, description: 'Mean time in the upper state (1/rateDown)' },
+      injection: {
+        type: 'choice', words: ['sensor', 'amplifier'],
+        description: 'sensor: moves the operating point (modulated by the carrier like the signal); amplifier: added after the modulation',
+      },
+    },
+    expected: 'a fluctuator {amplitude, rates, injection} or a list of them',
+    description: 'Random telegraph noise: one two-level fluctuator or a list',
+    maxEntries: MAX_FLUCTUATORS,
+    plural: 'fluctuators',
+  },
+
+  resolve(entry, p, i, c) {
+    const t = entry as {
+      name?: string; amplitude: KindedValue; rateUp?: number; rateDown?: number; dwellLow?: number; dwellHigh?: number; injection: NoiseInjection;
+    };
+    const inDetuning = c.signalOrDetuning(t.amplitude, [...p, 'amplitude']);
+    const rate = (r: number | undefined, dwell: number | undefined, rk: string, dk: string): number => {
+      if ((r === undefined) === (dwell === undefined)) c.fail(p, `either ${rk} or ${dk}`, r === undefined ? 'neither' : 'both');
+      return r ?? 1 / dwell!;
+    };
+    return {
+      kind: 'telegraph', name: c.uniqueName(t.name, 'telegraph', i, [...p, 'name']), amplitude: t.amplitude.value,
+      rateUp: rate(t.rateUp, t.dwellLow, 'rateUp', 'dwellLow'), rateDown: rate(t.rateDown, t.dwellHigh, 'rateDown', 'dwellHigh'),
+      injection: t.injection, inDetuning,
+    };
+  },
+
+  // the exact current step I(ε0 + δ) − I(ε0)
+  fromDetuning: (spec, sensor) => ({ ...spec, amplitude: sensor.step(spec.amplitude), inDetuning: false }),
+
+  exactBlocker: 'telegraph noise is not Gaussian',
+
+  // a few switches per record: negligible next to the record's own work
+  secondsPerSample: () => 0,
+
+  compile(specs, point) {
+    const fluctuators: Fluctuator[] = specs.map((t) => ({ amplitude: t.amplitude, rateUp: t.rateUp, rateDown: t.rateDown }));
+    const injections: NoiseInjection[] = specs.map((t) => t.injection);
+    const { sensorWeight, gain, timing } = point;
+    const sampleRate = point.grid.sampleRate;
+    const kind: CompiledNoiseKind = {
+      sources: specs.map((t) => ({
+        name: t.name, kind: 'telegraph', injection: t.injection, density: t.amplitude,
+        origin: `two-level fluctuator, up ${t.rateUp}/s, down ${t.rateDown}/s`,
+      })),
+      linear: false,
+      variance(s, x, lo, hi, fs) {
+        const f = fluctuators[s]!;
+        const p = stationaryOccupation(f.rateUp, f.rateDown);
+        const rho = Math.exp(-(f.rateUp + f.rateDown) / fs);
+        return f.amplitude * f.amplitude * p * (1 - p) * exponentialQuadraticForm(x, lo, hi, rho);
+      },
+      twoLevel(s, x, lo, hi) {
+        const f = fluctuators[s]!;
+        let seen = 0;
+        for (let k = lo; k < hi; k++) seen += x[k]!;
+        return { probability: stationaryOccupation(f.rateUp, f.rateDown), step: f.amplitude * seen, switchingRate: f.rateUp + f.rateDown };
+      },
+      spectrum(s, frequency) {
+        const f = fluctuators[s]!;
+        const lambda = f.rateUp + f.rateDown;
+        if (!(lambda > 0)) return 0;
+        const p = stationaryOccupation(f.rateUp, f.rateDown);
+        const w = 2 * Math.PI * frequency;
+        return (4 * f.amplitude * f.amplitude * p * (1 - p) * lambda) / (lambda * lambda + w * w);
+      },
+      withKernels: () => kind,
+      runtime(purpose, stream) {
+        const timeline = makeTelegraphTimeline(
+          fluctuators, { period: timing.shotPeriod, recordLength: timing.recordLength, shotsPerBlock: SEED_BLOCK },
+          (block) => stream(telegraphStreamIndex(purpose, block)),
+        );
+        const r = makeTelegraphRecord(fluctuators.length);
+        return {
+          shot(shot) {
+            timeline.record(shot, r);
+          },
+          addToRecord(record, lo, hi) {
+            let e = 0;
+            for (let fi = 0; fi < fluctuators.length; fi++) {
+              const a = fluctuators[fi]!.amplitude;
+              const sensor = injections[fi] === 'sensor';
+              let state = r.start[fi]!;
+              let k = lo;
+              for (;;) {
+                const switching = e < r.count && r.which[e] === fi;
+                const until = switching ? Math.min(hi, Math.max(lo, Math.ceil(r.times[e]! * sampleRate))) : hi;
+                if (state === 1 && until > k) {
+                  if (sensor) {
+                    for (let q = k; q < until; q++) record[q] += a * sensorWeight[q]!;
+                  } else {
+                    const v = a * gain;
+                    for (let q = k; q < until; q++) record[q] += v;
+                  }
+                }
+                if (until > k) k = until;
+                if (!switching) break;
+                state = 1 - state;
+                e++;
+              }
+            }
+          },
+        };
+      },
+    };
+    return kind;
+  },
+};
