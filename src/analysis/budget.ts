@@ -175,3 +175,17 @@ export function analyticBudget(input: BudgetInput): Budget {
   const separation = Math.abs(groupMean(1) - groupMean(0));
   return { means, sigma, separation, snr: sigma > 0 ? separation / sigma : Infinity, perState, mean };
 }
+
+/**
+ * The budget of a pipeline that has no analytic model (a classifier without one): every value
+ * NaN, which the summary shows as "—" and never counts as a disagreement.
+ */
+export function unavailableBudget(states: number): Budget {
+  const state = () => ({
+    causes: new Float64Array(CAUSES.length).fill(NaN), alone: new Float64Array(CAUSES.length).fill(NaN), total: NaN, linearSum: NaN,
+  });
+  return {
+    means: new Float64Array(states).fill(NaN), sigma: NaN, separation: NaN, snr: NaN,
+    perState: Array.from({ length: states }, state), mean: state(),
+  };
+}

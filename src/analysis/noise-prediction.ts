@@ -37,6 +37,8 @@ export interface NoiseSourceBudget {
    * 1 Hz; telegraph: the amplitude; quantisation: the white density with the same variance.
    */
   density: number;
+  /** Its unit, with {unit} for the signal unit. */
+  densityUnit: string;
   /** How the density was obtained. */
   origin: string;
   /** Its variance of the integrated value, its σ, and its share of the total variance. */
@@ -58,7 +60,7 @@ export function predictNoise(plan: NoisePlan, kernel: Float64Array, lo: number, 
   const sources: Omit<NoiseSourceBudget, 'sigma' | 'share'>[] = [];
   const k2 = squaredSum(kernel, lo, hi);
   for (const w of plan.white) {
-    sources.push({ name: w.name, kind: 'white', injection: 'amplifier', density: w.density, origin: w.origin, variance: w.perSampleVariance * k2 });
+    sources.push({ name: w.name, kind: 'white', injection: 'amplifier', density: w.density, densityUnit: '{unit}/√Hz', origin: w.origin, variance: w.perSampleVariance * k2 });
   }
   for (const { compiled } of plan.kinds) {
     compiled.sources.forEach((info, s) => {
@@ -71,7 +73,7 @@ export function predictNoise(plan: NoisePlan, kernel: Float64Array, lo: number, 
     const perSample = (step * step) / 12;
     sources.push({
       name: 'quantisation', kind: 'quantisation', injection: 'amplifier',
-      density: Math.sqrt(perSample / (sampleRate / 2)) / plan.gain,
+      density: Math.sqrt(perSample / (sampleRate / 2)) / plan.gain, densityUnit: '{unit}/√Hz',
       origin: `${Math.log2(plan.digitizer.codes)} bits over [${plan.digitizer.low}, ${plan.digitizer.high}]`,
       variance: perSample * k2,
     });
@@ -91,53 +93,4 @@ export function seenFrom(plan: Pick<NoisePlan, 'sensorWeight' | 'gain'>, injecti
   const x = new Float64Array(kernel.length);
   for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? plan.sensorWeight[k]! : plan.gain);
   return x;
-}
-
-/** The projected kernel cos·K_I + sin·K_Q of a pipeline on its support (zero elsewhere). */
-export function projectedKernel(k: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number }, axis: { cos: number; sin: number }): Float64Array {
-  const kernel = new Float64Array(k.inPhase.length);
-  for (let j = k.lo; j < k.hi; j++) kernel[j] = k.inPhase[j]! * axis.cos + (k.quadrature ? k.quadrature[j]! * axis.sin : 0);
-  return kernel;
-}
-
-/**
- * The noise prediction of every pipeline of a calibrated point (null for a pipeline whose
- * decision is not a threshold on a linear value, e.g. a likelihood classifier).
- */
-export function pointNoise(
-  c: { noise: NoisePlan; grid: { sampleRate: number }; pipelines: readonly { kernels: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number }; chain?: { classifier?: string } }[] },
-  calibrations: readonly { axis: { cos: number; sin: number } }[],
-): (NoisePrediction | null)[] {
-  return c.pipelines.map((p, i) => {
-    if (p.chain?.classifier === 'likelihood') return null;
-    const k = p.kernels;
-    return predictNoise(c.noise, projectedKernel(k, calibrations[i]!.axis), k.lo, k.hi, c.grid.sampleRate);
-  });
-}
-
-const cache = new WeakMap<object, (NoisePrediction | null)[]>();
-
-/** pointNoise of a run's point result, computed once per point. */
-export function pointNoiseOf(p: { compiled: Parameters<typeof pointNoise>[0]; calibrations: Parameters<typeof pointNoise>[1] }): (NoisePrediction | null)[] {
-  let v = cache.get(p);
-  if (!v) {
-    v = pointNoise(p.compiled, p.calibrations);
-    cache.set(p, v);
-  }
-  return v;
-}
-
-/** The `--json` fields of one pipeline's noise: predictedSigma by source and total, and the budget list. */
-export function noiseJson(prediction: NoisePrediction | null, unit: string): Record<string, unknown> {
-  if (!prediction) return {};
-  const u = unit || 'signal unit';
-  return {
-    predictedSigma: { ...Object.fromEntries(prediction.sources.map((s) => [s.name, s.sigma])), total: prediction.sigma },
-    noiseBudget: prediction.sources.map((s) => ({
-      source: s.name, kind: s.kind, injection: s.injection,
-      density: s.density,
-      densityUnit: s.kind === 'telegraph' ? u : s.kind === 'flicker' ? `${u}/√Hz at 1 Hz` : `${u}/√Hz`,
-      origin: s.origin, sigma: s.sigma, variance: s.variance, share: s.share,
-    })),
-  };
 }

@@ -17,7 +17,8 @@ import { tableToIPC, Bool, Float64, makeData, RecordBatch, Schema, Struct, Uint3
 import { InputError } from '../errors.ts';
 import { makeGrid } from '../signal/grid.ts';
 import { compileChain, type PipelineChain } from '../dsp/pipeline-chain.ts';
-import { integrateBins, makeProcessScratch, processRecord, projectRecords } from '../dsp/process-record.ts';
+import { integrateBins, makeProcessScratch, processRecord } from '../dsp/process-record.ts';
+import { projectRecords } from '../classify/project.ts';
 import { separationAxis, type Axis } from '../classify/project.ts';
 import { classifyByThreshold, midpointThreshold, optimalThreshold, type ThresholdRule } from '../classify/threshold.ts';
 import { weightsFromLabelled } from '../classify/labelled-weights.ts';
@@ -33,6 +34,7 @@ import { writeFileAtomic } from '../io/atomic-file.ts';
 import { writeManifest } from '../io/manifest.ts';
 import { META_PREFIX, tableMetadata, type RunProvenance } from '../io/metadata.ts';
 import { prepareOutputDir } from '../io/output-dir.ts';
+import { CLASSIFIERS } from '../classify/registry.ts';
 
 export interface AnalyzeOptions {
   tracesPath: string;
@@ -210,7 +212,10 @@ function storedFor(path: string, table: Table, name: string, named: boolean): St
   const list = point.pipelines;
   const found = list.find((p) => p.name === name) ?? (!named && list.length === 1 ? list[0] : undefined);
   if (!found) throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a calibration of pipeline "${name}" (stored: ${list.map((p) => `"${p.name}"`).join(', ')}); set name in the pipeline file`, 'none');
-  if (found.classifier !== 'threshold') throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a threshold pipeline ("${found.name}" uses the ${found.classifier} classifier)`, found.classifier);
+  const classifier = CLASSIFIERS.find((k) => k.name === found.classifier);
+  if (!classifier || classifier.readsBins) {
+    throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a pipeline that decides on its integrated value ("${found.name}" uses the ${found.classifier} classifier)`, found.classifier);
+  }
   return found;
 }
 

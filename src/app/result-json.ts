@@ -4,7 +4,7 @@
  */
 import type { RunResult } from '../run/run-points.ts';
 import type { RateInterval } from '../analysis/intervals.ts';
-import { noiseJson, pointNoiseOf } from '../analysis/noise-prediction.ts';
+import type { NoisePrediction } from '../analysis/noise-prediction.ts';
 
 const interval = (r: RateInterval) => ({ rate: r.rate, low: r.low, high: r.high });
 
@@ -22,7 +22,7 @@ export function resultToJson(result: RunResult, extra: Record<string, unknown> =
     snrConvention: 'separation / standard deviation of the integrated value (amplitude SNR)',
     sigma: s.sigma,
     analyticSigma: s.analyticSigma,
-    ...noiseJson(pointNoiseOf(p)[i] ?? null, p.compiled.scenario.signal.unit),
+    ...noiseJson(p.noise[i] ?? null, p.compiled.scenario.signal.unit),
     ...(p.clippedSamples !== undefined ? { clippedSamples: p.clippedSamples } : {}),
     threshold: s.threshold,
     discardFraction: s.discardFraction,
@@ -54,4 +54,19 @@ export function resultToJson(result: RunResult, extra: Record<string, unknown> =
   })));
   return JSON.parse(JSON.stringify({ engine: result.engine, engineReason: result.engineReason, ...extra, points, comparisons }, (_k, v) =>
     typeof v === 'number' && !Number.isFinite(v) ? null : v));
+}
+
+/** The `--json` fields of one pipeline's noise: predictedSigma by source and total, and the budget list. */
+function noiseJson(prediction: NoisePrediction | null, unit: string): Record<string, unknown> {
+  if (!prediction) return {};
+  const u = unit || 'signal unit';
+  return {
+    predictedSigma: { ...Object.fromEntries(prediction.sources.map((s) => [s.name, s.sigma])), total: prediction.sigma },
+    noiseBudget: prediction.sources.map((s) => ({
+      source: s.name, kind: s.kind, injection: s.injection,
+      density: s.density,
+      densityUnit: s.densityUnit.replace('{unit}', u),
+      origin: s.origin, sigma: s.sigma, variance: s.variance, share: s.share,
+    })),
+  };
 }

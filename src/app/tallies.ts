@@ -20,7 +20,7 @@ import { TOOL_VERSION } from '../io/metadata.ts';
 
 export const TALLIES = 'tallies.json';
 /** Layout version of tallies.json. */
-export const TALLIES_FORMAT = 1;
+export const TALLIES_FORMAT = 2;
 
 const TYPED = {
   Float64Array, Float32Array, Int32Array, Uint32Array, Int16Array, Uint16Array, Int8Array, Uint8Array,

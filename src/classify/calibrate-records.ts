@@ -1,6 +1,7 @@
 /**
- * Calibration from the decimated records of calibration shots (never scored shots): matched
- * and optimal linear integration weights, and the hidden-Markov likelihood classifier.
+ * Calibration from the decimated records of calibration shots (never scored shots): the records
+ * gathered and projected (for any classifier that reads bins), and matched and optimal linear
+ * integration weights.
  *
  * Matched weights (Gambetta, Braff, Wallraff, Girvin & Schoelkopf, Phys. Rev. A 76, 012325
  * (2007)): w ∝ Δμ, the mean projected record of the calibration shots prepared in outcome 1
@@ -11,21 +12,11 @@
  * end) about each state's own mean (the Fisher discriminant of the noise; Fisher, Ann. Eugen. 7,
  * 179 (1936)). For white noise and no filter C ∝ I and this is the matched filter up to
  * estimation noise; a filter that colours the noise between bins makes them differ.
- * Likelihood classifier (D'Anjou & Coish, Phys. Rev. A 89, 012313 (2014)): per-state bin means
- * from the model (each state's noise-free waveform through the same chain), σ per bin pooled
- * from the clean calibration shots' residuals, per-bin transition matrix exp(Q·D/fs) from the
- * scenario's rates, and the prior at the window start from the prepared mixture after
- * preparation and mapping errors, propagated from the record start.
  */
 import { matchedWeights, noiseCovariance, optimalLinearWeights } from '../dsp/weights.ts';
-import type { Axis } from './project.ts';
-import { makeHmmClassifier, type HmmClassifier } from './likelihood.ts';
-import { generatorMatrix, transitionMatrix } from './transition.ts';
-import { matrixExponential } from './matrix-exponential.ts';
-import type { Scenario } from '../scenario/types.ts';
-import type { ShotBatch } from '../engine/trace/batch.ts';
-import type { CompiledPipeline, CompiledPoint } from '../engine/compile-point.ts';
-import { makeProcessScratch, processRecord, projectRecords } from '../dsp/process-record.ts';
+import type { PipelineChain } from '../dsp/pipeline-chain.ts';
+import { projectRecords, type Axis } from './project.ts';
+import type { ShotColumns } from './shots.ts';
 
 /** The projected bins of one pipeline's calibration shots with their truth, row after row. */
 export interface CalibrationRecords {
@@ -39,11 +30,11 @@ export interface CalibrationRecords {
   cleanState: Uint8Array;
 }
 
-/** Gathers and projects pipeline p's kept bins from the calibration batches. */
-export function gatherRecords(point: CompiledPoint, p: number, batches: readonly ShotBatch[], axis: Axis): CalibrationRecords {
-  const pipeline = point.pipelines[p]!;
-  const bins = pipeline.chain.bins;
-  const outcomeOf = point.scenario.states.map((s) => s.outcome);
+/** Gathers and projects pipeline p's kept bins from the calibration batches; `outcomeOf` maps states to outcomes. */
+export function gatherRecords(
+  pipelineName: string, chain: Pick<PipelineChain, 'bins'>, p: number, outcomeOf: readonly number[], batches: readonly ShotColumns[], axis: Axis,
+): CalibrationRecords {
+  const bins = chain.bins;
   const count = batches.reduce((a, b) => a + b.count, 0);
   const projected = new Float64Array(count * bins);
   const outcome = new Uint8Array(count);
@@ -51,7 +42,7 @@ export function gatherRecords(point: CompiledPoint, p: number, batches: readonly
   let at = 0;
   for (const b of batches) {
     const kept = b.records?.[p];
-    if (!kept) throw new Error(`pipeline "${pipeline.spec.name}": calibration batches carry no decimated records (the trace engine keeps them)`);
+    if (!kept) throw new Error(`pipeline "${pipelineName}": calibration batches carry no decimated records (the trace engine keeps them)`);
     projectRecords(kept.inPhase, kept.quadrature, axis, projected.subarray(at * bins, (at + b.count) * bins));
     for (let i = 0; i < b.count; i++) {
       const s = b.intended[i]!;
@@ -109,10 +100,10 @@ export function pooledNoiseCovariance(r: CalibrationRecords, states: number, pip
 }
 
 /** Matched or optimal weights of a pipeline from its calibration records. */
-export function calibratedWeights(pipeline: CompiledPipeline, r: CalibrationRecords, states: number): Float64Array {
+export function calibratedWeights(pipelineName: string, kind: 'matched' | 'optimal', r: CalibrationRecords, states: number): Float64Array {
   const delta = meanDifference(r);
-  if (pipeline.chain.weights === 'matched') return matchedWeights(delta);
-  return optimalLinearWeights(delta, pooledNoiseCovariance(r, states, pipeline.spec.name));
+  if (kind === 'matched') return matchedWeights(delta);
+  return optimalLinearWeights(delta, pooledNoiseCovariance(r, states, pipelineName));
 }
 
 /** Values Σ_b w_b·r_b of every calibration record. */
@@ -124,81 +115,5 @@ export function weightedValues(r: CalibrationRecords, weights: Float64Array): Fl
     for (let b = 0; b < r.bins; b++) v += weights[b]! * r.projected[base + b]!;
     out[i] = v;
   }
-  return out;
-}
-
-/** Probability of each state at the record start: the prepared mixture after preparation and mapping errors. */
-export function initialMixture(scenario: Scenario): Float64Array {
-  const n = scenario.states.length;
-  const flip = (p: Float64Array, flips: Scenario['preparationError']): Float64Array => {
-    const out = new Float64Array(n);
-    for (let s = 0; s < n; s++) {
-      const f = flips[s];
-      if (f && f.into !== s) {
-        out[s]! += p[s]! * (1 - f.probability);
-        out[f.into]! += p[s]! * f.probability;
-      } else out[s]! += p[s]!;
-    }
-    return out;
-  };
-  return flip(flip(Float64Array.from(scenario.prepare), scenario.preparationError), scenario.mappingError);
-}
-
-/** The likelihood classifier of a pipeline and the σ per bin it uses. */
-export interface LikelihoodCalibration {
-  classifier: HmmClassifier;
-  sigma: number;
-  /** Model means per state and bin (projected). */
-  means: Float64Array[];
-}
-
-/** Builds the likelihood classifier of pipeline p (see the file comment). */
-export function calibrateLikelihood(point: CompiledPoint, p: number, r: CalibrationRecords, axis: Axis): LikelihoodCalibration {
-  const { scenario, grid } = point;
-  const pipeline = point.pipelines[p]!;
-  const chain = pipeline.chain;
-  const n = scenario.states.length;
-  const scratch = makeProcessScratch(chain, grid.samples);
-  const binsI = new Float64Array(chain.bins);
-  const binsQ = chain.reference ? new Float64Array(chain.bins) : null;
-  const means = point.waveforms.map((w) => {
-    processRecord(chain, w, scratch, binsI, binsQ, 0);
-    return projectRecords(binsI, binsQ, axis, new Float64Array(chain.bins));
-  });
-  let sum = 0, count = 0;
-  for (let i = 0; i < r.count; i++) {
-    const s = r.cleanState[i]!;
-    if (s === 255) continue;
-    const base = i * r.bins;
-    const m = means[s]!;
-    for (let b = 0; b < r.bins; b++) {
-      const d = r.projected[base + b]! - m[b]!;
-      sum += d * d;
-    }
-    count += r.bins;
-  }
-  if (count === 0) throw new Error(`pipeline "${pipeline.spec.name}": no clean calibration shot to estimate the noise per bin; raise calibrationShots`);
-  const sigma = Math.sqrt(sum / count);
-  const rates = scenario.transitions.map((t) => ({ from: t.from, to: t.to, rate: t.rate }));
-  const generator = generatorMatrix(n, rates);
-  const transition = transitionMatrix(generator, n, chain.binDuration);
-  // prior at the window start: π(0)·exp(Q·t_start)
-  const start = initialMixture(scenario);
-  const toWindow = new Float64Array(n * n);
-  const scaled = Float64Array.from(generator, (q) => q * (chain.windowLo / grid.sampleRate));
-  matrixExponential(scaled, n, toWindow);
-  const prior = new Float64Array(n);
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) prior[j]! += start[i]! * Math.max(0, toWindow[i * n + j]!);
-  const classifier = makeHmmClassifier({
-    means, sigma, transition, prior,
-    outcomeOfState: Uint8Array.from(scenario.states, (s) => s.outcome),
-  });
-  return { classifier, sigma, means };
-}
-
-/** Log-odds of every calibration record under a likelihood classifier. */
-export function logOddsOf(r: CalibrationRecords, classifier: HmmClassifier): Float64Array {
-  const out = new Float64Array(r.count);
-  for (let i = 0; i < r.count; i++) out[i] = classifier.logLikelihoodRatio(r.projected, i * r.bins, r.bins);
   return out;
 }

@@ -2,28 +2,26 @@
  * Calibration of each pipeline on its own shots (never the scored ones), as a lab does it
  * from shots of known preparation: the separation axis from the mean I/Q of each intended
  * outcome; for matched/optimal weights the weights from the calibration shots' decimated records
- * (calibrate-bins.ts); for the likelihood classifier the hidden-Markov model; then the decision
- * rule on the decision statistic (the weighted value, or the log-odds): threshold (midpoint of
- * the outcome means, count-minimising on the calibration histograms, or fixed; the likelihood
- * classifier decides at log-odds 0) and the ambiguous band around it.
+ * (calibrate-records.ts); for a classifier that reads bins its model (registry.ts); then the
+ * decision rule on the classifier's decision statistic (the weighted value, or e.g. the log-odds)
+ * and the ambiguous band around it.
  *
  * The calibration batches carry the decimated records only for pipelines that need them
- * (compile-pipeline.ts `needsCalibrationBins`); calibrationShots × bins values per pipeline.
+ * (registry.ts `needsCalibrationBins`); calibrationShots × bins values per pipeline.
  */
-import { midpointThreshold, optimalThreshold, type ThresholdRule } from './threshold.ts';
+import type { ThresholdRule } from './threshold.ts';
 import { project, separationAxis, type Axis } from './project.ts';
-import type { HmmClassifier } from './likelihood.ts';
-import { CAUSES } from '../analysis/causes.ts';
-import type { Budget } from '../analysis/budget.ts';
-import type { PipelineSpec, Scenario } from '../scenario/types.ts';
-import type { ShotBatch } from '../engine/trace/batch.ts';
+import type { PipelineSpec } from '../scenario/types.ts';
+import type { PipelineChain } from '../dsp/pipeline-chain.ts';
 import { InputError } from '../errors.ts';
-import type { CompiledPipeline, CompiledPoint } from '../engine/compile-point.ts';
-import { calibratedWeights, calibrateLikelihood, gatherRecords, logOddsOf, weightedValues } from './calibrate-records.ts';
+import type { DeviceView } from './contract.ts';
+import type { ShotColumns } from './shots.ts';
+import { classifierOf } from './registry.ts';
+import { calibratedWeights, gatherRecords, weightedValues } from './calibrate-records.ts';
 
 export interface PipelineCalibration {
   axis: Axis;
-  /** Decision rule on the decision statistic (the likelihood classifier: log-odds > 0 is outcome 1). */
+  /** Decision rule on the classifier's decision statistic (e.g. the likelihood classifier: log-odds > 0 is outcome 1). */
   rule: ThresholdRule;
   /** Mean decision statistic of the calibration shots of each intended outcome. */
   outcomeMeans: [number, number];
@@ -31,55 +29,78 @@ export interface PipelineCalibration {
   weights: Float64Array | null;
   /** Half-width of the ambiguous band around the threshold (0: no band). */
   bandHalfWidth: number;
-  /** The likelihood classifier, else null. */
-  likelihood: HmmClassifier | null;
-  /** σ of one projected bin used by the likelihood classifier (NaN otherwise). */
-  binSigma: number;
+  /** The classifier's fitted model (plain data: saved with the calibration), null for one that fits none. */
+  model: unknown;
+}
+
+/** What calibration reads of a compiled point (engine/compile-point.ts's CompiledPoint has it all). */
+export interface CalibrationView extends DeviceView {
+  pipelines: readonly { spec: PipelineSpec; chain: PipelineChain; kernels: { quadrature: Float64Array | null } }[];
 }
 
 /** Calibrates every pipeline of a point from its calibration batches. */
-export function calibrate(point: CompiledPoint, batches: readonly ShotBatch[]): PipelineCalibration[] {
+export function calibrate(point: CalibrationView, batches: readonly ShotColumns[]): PipelineCalibration[] {
   const outcomeOf = point.scenario.states.map((s) => s.outcome);
   return point.pipelines.map((pipeline, p) => {
     const axis = calibrationAxis(pipeline, p, batches, outcomeOf);
-    const chain = pipeline.chain;
-    let statistic: [number[], number[]];
+    const { chain, spec } = pipeline;
+    const classifier = classifierOf(spec);
+    let values: Float64Array;
+    let outcome: ArrayLike<number>;
     let weights: Float64Array | null = null;
-    let likelihood: HmmClassifier | null = null;
-    let binSigma = NaN;
-    if (chain.classifier === 'likelihood' || chain.weights !== 'boxcar') {
-      const records = gatherRecords(point, p, batches, axis);
-      let values: Float64Array;
-      if (chain.classifier === 'likelihood') {
-        const l = calibrateLikelihood(point, p, records, axis);
-        likelihood = l.classifier;
-        binSigma = l.sigma;
-        values = logOddsOf(records, l.classifier);
+    let model: unknown = null;
+    if (classifier.readsBins || chain.weights !== 'boxcar') {
+      const records = gatherRecords(spec.name, chain, p, outcomeOf, batches, axis);
+      if (classifier.readsBins) {
+        model = classifier.fit!(records, chain, axis, point);
+        const statistic = classifier.statistic!(model);
+        values = new Float64Array(records.count);
+        for (let i = 0; i < records.count; i++) values[i] = statistic(records.projected, i * records.bins, records.bins);
       } else {
-        weights = calibratedWeights(pipeline, records, point.scenario.states.length);
+        weights = calibratedWeights(spec.name, chain.weights as 'matched' | 'optimal', records, point.scenario.states.length);
         values = weightedValues(records, weights);
       }
-      statistic = [[], []];
-      for (let i = 0; i < records.count; i++) statistic[records.outcome[i]!]!.push(values[i]!);
+      outcome = records.outcome;
     } else {
-      statistic = [[], []];
+      const count = batches.reduce((n, b) => n + b.count, 0);
+      values = new Float64Array(count);
+      const intended = new Uint8Array(count);
+      let at = 0;
       for (const b of batches) {
         const v = b.values[p]!;
-        const projected = project(v.inPhase, v.quadrature, axis, new Float64Array(b.count));
-        for (let i = 0; i < b.count; i++) statistic[outcomeOf[b.intended[i]!]!]!.push(projected[i]!);
+        project(v.inPhase, v.quadrature, axis, values.subarray(at, at + b.count));
+        for (let i = 0; i < b.count; i++) intended[at + i] = outcomeOf[b.intended[i]!]!;
+        at += b.count;
       }
+      outcome = intended;
     }
+    const statistic = byOutcome(values, outcome);
     const m0 = statistic[0].reduce((a, x) => a + x, 0) / statistic[0].length;
     const m1 = statistic[1].reduce((a, x) => a + x, 0) / statistic[1].length;
-    const rule = decisionRule(pipeline.spec, likelihood !== null, statistic, m0, m1);
+    const rule = classifier.rule(spec.threshold, statistic, m0, m1);
     const band = chain.band;
     const bandHalfWidth = band === null ? 0 : band.kind === 'width' ? band.value / 2 : (band.value * Math.abs(m1 - m0)) / 2;
-    return { axis, rule, outcomeMeans: [m0, m1], weights, bandHalfWidth, likelihood, binSigma };
+    return { axis, rule, outcomeMeans: [m0, m1], weights, bandHalfWidth, model };
   });
 }
 
+/** The values of each outcome, in shot order. */
+function byOutcome(values: Float64Array, outcome: ArrayLike<number>): [Float64Array, Float64Array] {
+  let n1 = 0;
+  for (let i = 0; i < values.length; i++) n1 += outcome[i]!;
+  const out: [Float64Array, Float64Array] = [new Float64Array(values.length - n1), new Float64Array(n1)];
+  const at = [0, 0];
+  for (let i = 0; i < values.length; i++) {
+    const o = outcome[i]!;
+    out[o]![at[o]!++] = values[i]!;
+  }
+  return out;
+}
+
 /** The separation axis from the mean integrated I/Q of each intended outcome (the I axis at baseband or with a fixed referencePhase). */
-function calibrationAxis(pipeline: CompiledPipeline, p: number, batches: readonly ShotBatch[], outcomeOf: readonly number[]): Axis {
+function calibrationAxis(
+  pipeline: CalibrationView['pipelines'][number], p: number, batches: readonly ShotColumns[], outcomeOf: readonly number[],
+): Axis {
   const sums = [[0, 0, 0], [0, 0, 0]] as [number, number, number][];
   for (const b of batches) {
     const v = b.values[p]!;
@@ -97,43 +118,4 @@ function calibrationAxis(pipeline: CompiledPipeline, p: number, batches: readonl
   // baseband, or a fixed reference angle: the decision is on I of that reference (README, referencePhase)
   if (pipeline.kernels.quadrature === null || pipeline.spec.referencePhase !== 'auto') return { cos: 1, sin: 0 };
   return separationAxis(g0[0] / g0[2], g0[1] / g0[2], g1[0] / g1[2], g1[1] / g1[2]);
-}
-
-function decisionRule(spec: PipelineSpec, likelihood: boolean, statistic: [number[], number[]], m0: number, m1: number): ThresholdRule {
-  if (likelihood) return { threshold: 0, highIsOne: true };
-  const { threshold } = spec;
-  if (threshold.method === 'midpoint') return midpointThreshold(m0, m1);
-  if (threshold.method === 'fixed') return { threshold: threshold.value, highIsOne: m1 >= m0 };
-  const best = optimalThreshold(Float64Array.from(statistic[0]), Float64Array.from(statistic[1]));
-  return { threshold: best.threshold, highIsOne: best.highIsOne };
-}
-
-/**
- * The scenario the scored shots run with: pipelines with calibrated weights carry them
- * (`calibratedWeights`), so the kernels built from it (in any process) use them. Returns the
- * same object when nothing was calibrated into the kernels.
- */
-export function withCalibration(scenario: Scenario, calibrations: readonly PipelineCalibration[]): Scenario {
-  if (calibrations.every((c) => c.weights === null)) return scenario;
-  return {
-    ...scenario,
-    pipelines: scenario.pipelines.map((p, i) => {
-      const w = calibrations[i]!.weights;
-      return w === null ? p : { ...p, calibratedWeights: Array.from(w) };
-    }),
-  };
-}
-
-/**
- * The budget of a pipeline that has no analytic model (the likelihood classifier): every value
- * NaN, which the summary shows as "—" and never counts as a disagreement.
- */
-export function unavailableBudget(states: number): Budget {
-  const state = () => ({
-    causes: new Float64Array(CAUSES.length).fill(NaN), alone: new Float64Array(CAUSES.length).fill(NaN), total: NaN, linearSum: NaN,
-  });
-  return {
-    means: new Float64Array(states).fill(NaN), sigma: NaN, separation: NaN, snr: NaN,
-    perState: Array.from({ length: states }, state), mean: state(),
-  };
 }

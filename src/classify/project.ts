@@ -21,3 +21,27 @@ export function project(inPhase: Float64Array, quadrature: Float64Array, axis: A
   for (let i = 0; i < out.length; i++) out[i] = inPhase[i]! * axis.cos + quadrature[i]! * axis.sin;
   return out;
 }
+
+/**
+ * Projects `count` records of `bins` bins stored row after row: out[r·bins + b] =
+ * I·cos α + Q·sin α (Q = 0 when null). Returns out.
+ */
+export function projectRecords(
+  inPhase: Float64Array, quadrature: Float64Array | null, axis: Axis, out: Float64Array = new Float64Array(inPhase.length),
+): Float64Array {
+  if (quadrature === null || axis.sin === 0) {
+    for (let k = 0; k < inPhase.length; k++) out[k] = inPhase[k]! * axis.cos;
+    return out;
+  }
+  for (let k = 0; k < inPhase.length; k++) out[k] = inPhase[k]! * axis.cos + quadrature[k]! * axis.sin;
+  return out;
+}
+
+/** A pipeline's kernels projected onto the axis, cos·K_I + sin·K_Q, on their support (zero elsewhere). */
+export function projectKernel(
+  k: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number }, axis: Axis,
+): Float64Array {
+  const kernel = new Float64Array(k.inPhase.length);
+  for (let j = k.lo; j < k.hi; j++) kernel[j] = k.inPhase[j]! * axis.cos + (k.quadrature ? k.quadrature[j]! * axis.sin : 0);
+  return kernel;
+}

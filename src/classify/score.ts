@@ -1,6 +1,6 @@
 /**
- * Scoring a batch: project each pipeline's I/Q, decide (threshold on the projected value, or the
- * likelihood classifier's log-odds on the shot's decimated bins), compare with the intended
+ * Scoring a batch: project each pipeline's I/Q, decide (threshold on the projected value, or a
+ * classifier's own statistic of the shot's decimated bins, e.g. the log-odds), compare with the intended
  * state's outcome, and attribute every wrong shot to its cause. Shots inside a pipeline's
  * ambiguous band are flagged as discarded; their outcome and cause stay those of the plain
  * decision, so the error, the budget comparison and the paired comparisons are of the unbanded
@@ -13,10 +13,23 @@
 import { attributeCause, CAUSE_NONE } from '../analysis/causes.ts';
 import { classifyAllByThreshold } from './threshold.ts';
 import { project } from './project.ts';
-import type { ShotBatch } from '../engine/trace/batch.ts';
 import type { PipelineCalibration } from './calibrate.ts';
-import type { CompiledPoint } from '../engine/compile-point.ts';
-import { projectRecords } from '../dsp/process-record.ts';
+import { projectRecords } from './project.ts';
+import type { PipelineSpec, StateSpec } from '../scenario/types.ts';
+import type { PipelineChain } from '../dsp/pipeline-chain.ts';
+import type { BinStatistic } from './contract.ts';
+import type { ShotColumns } from './shots.ts';
+import { classifierOf } from './registry.ts';
+
+/** What scoring reads of a compiled point (engine/compile-point.ts's CompiledPoint has it). */
+export interface ScoringView {
+  scenario: { states: readonly Pick<StateSpec, 'outcome'>[] };
+  grid: { sampleRate: number; windowHi: number };
+  pipelines: readonly { spec: PipelineSpec; chain: PipelineChain }[];
+}
+
+/** The statistic of each fitted model, built once (the calibration keeps the model as plain data). */
+const statistics = new WeakMap<object, BinStatistic>();
 
 /** Per pipeline: projected value, reported outcome index and cause code of every shot. */
 export interface ScoredPipeline {
@@ -26,13 +39,13 @@ export interface ScoredPipeline {
   cause: Uint8Array;
   /** 1 where the shot fell inside the ambiguous band; null when the pipeline has no band. */
   discarded: Uint8Array | null;
-  /** The likelihood classifier's posterior log-odds per shot, else null. */
-  logOdds: Float64Array | null;
+  /** The classifier's own decision statistic per shot when it reads bins (e.g. the posterior log-odds), else null. */
+  statistic: Float64Array | null;
   /** Cause code of the first jump if it happened before this pipeline's window end (else 0). */
   jumpCause: Uint8Array;
 }
 
-export function scoreBatch(point: CompiledPoint, calibrations: readonly PipelineCalibration[], batch: ShotBatch): ScoredPipeline[] {
+export function scoreBatch(point: ScoringView, calibrations: readonly PipelineCalibration[], batch: ShotColumns): ScoredPipeline[] {
   const outcomeOf = point.scenario.states.map((s) => s.outcome);
   const fs = point.grid.sampleRate;
   const scenarioEnd = point.grid.windowHi;
@@ -41,14 +54,21 @@ export function scoreBatch(point: CompiledPoint, calibrations: readonly Pipeline
     const chain = point.pipelines[p]!.chain;
     const projected = project(v.inPhase, v.quadrature, cal.axis, new Float64Array(batch.count));
     let statistic = projected;
-    let logOdds: Float64Array | null = null;
-    if (cal.likelihood) {
+    let own: Float64Array | null = null;
+    const classifier = classifierOf(point.pipelines[p]!.spec);
+    if (classifier.readsBins) {
       const kept = batch.records?.[p];
-      if (!kept) throw new Error(`pipeline "${point.pipelines[p]!.spec.name}": scored batch carries no decimated records for the likelihood classifier`);
+      if (!kept) throw new Error(`pipeline "${point.pipelines[p]!.spec.name}": scored batch carries no decimated records for the ${classifier.name} classifier`);
       const bins = projectRecords(kept.inPhase, kept.quadrature, cal.axis);
-      logOdds = new Float64Array(batch.count);
-      for (let i = 0; i < batch.count; i++) logOdds[i] = cal.likelihood.logLikelihoodRatio(bins, i * kept.bins, kept.bins);
-      statistic = logOdds;
+      const model = cal.model as object;
+      let decide = statistics.get(model);
+      if (!decide) {
+        decide = classifier.statistic!(model);
+        statistics.set(model, decide);
+      }
+      own = new Float64Array(batch.count);
+      for (let i = 0; i < batch.count; i++) own[i] = decide(bins, i * kept.bins, kept.bins);
+      statistic = own;
     }
     const outcome = classifyAllByThreshold(statistic, cal.rule.threshold, cal.rule.highIsOne);
     let discarded: Uint8Array | null = null;
@@ -70,6 +90,6 @@ export function scoreBatch(point: CompiledPoint, calibrations: readonly Pipeline
         ? CAUSE_NONE
         : attributeCause(intended, batch.prepared[i]!, batch.initial[i]!, jumpCause[i]! !== 0, jumpCause[i]!);
     }
-    return { projected, outcome, cause, discarded, logOdds, jumpCause };
+    return { projected, outcome, cause, discarded, statistic: own, jumpCause };
   });
 }

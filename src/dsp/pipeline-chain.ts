@@ -25,7 +25,7 @@ import { applyFilterAdjoint, designFilter, type DesignedFilter, type FilterSpec 
 import { makeReference, type Reference } from './demodulate.ts';
 import { boxcarKernels, type LinearKernels } from './integrate.ts';
 import { firstSampleAtOrAfter, type Grid } from '../signal/grid.ts';
-import type { AmbiguousBand, ClassifierKind, PipelineSpec, WeightsKind } from '../scenario/types.ts';
+import type { AmbiguousBand, PipelineSpec, WeightsKind } from '../scenario/types.ts';
 
 /** Everything the per-record processing of one pipeline needs. */
 export interface PipelineChain {
@@ -48,7 +48,6 @@ export interface PipelineChain {
   /** Duration of one bin, D/fs (s). */
   binDuration: number;
   weights: WeightsKind;
-  classifier: ClassifierKind;
   band: AmbiguousBand | null;
   /** Weights per bin (boxcar until calibrated weights are given). */
   binWeights: Float64Array;
@@ -70,16 +69,6 @@ export function pipelineWindow(spec: PipelineSpec, grid: Grid): { lo: number; hi
   const lo = Math.min(grid.samples, firstSampleAtOrAfter(spec.window.start, fs));
   const hi = Math.min(grid.samples, firstSampleAtOrAfter(spec.window.start + spec.window.length, fs));
   return { lo, hi };
-}
-
-/** Whether calibration needs the decimated records of this pipeline's calibration shots. */
-export function needsCalibrationBins(spec: PipelineSpec): boolean {
-  return (spec.weights ?? 'boxcar') !== 'boxcar' || spec.classifier === 'likelihood';
-}
-
-/** Whether scoring needs the decimated record of every scored shot (the likelihood classifier). */
-export function needsScoreBins(spec: PipelineSpec): boolean {
-  return spec.classifier === 'likelihood';
 }
 
 /** Sample index that bin b of `chain` reads: the end of its block. */
@@ -121,7 +110,7 @@ export function compileChain(
     sampleRate: fs,
     reference: makeReference(grid.samples, fs, carrierFrequency, referencePhase),
     filter, factor, windowLo: lo, windowHi: hi, bins, processLo, processHi, binDuration: factor / fs,
-    weights: spec.weights ?? 'boxcar', classifier: spec.classifier ?? 'threshold', band: spec.ambiguousBand ?? null,
+    weights: spec.weights ?? 'boxcar', band: spec.ambiguousBand ?? null,
     binWeights, trained,
   };
 }

@@ -7,8 +7,15 @@
  */
 import { demodulate } from './demodulate.ts';
 import { decimate } from './decimate.ts';
-import type { Axis } from '../classify/project.ts';
 import type { PipelineChain } from './pipeline-chain.ts';
+
+/** Decimated bins of every shot of a batch, row after row (count × bins). */
+export interface KeptBins {
+  bins: number;
+  inPhase: Float64Array;
+  /** null at baseband. */
+  quadrature: Float64Array | null;
+}
 
 /** Work buffers of one chain (reused record after record; no per-record allocation). */
 export interface ProcessScratch {
@@ -94,19 +101,4 @@ export function integrateBins(bins: Float64Array, offset: number, weights: Float
   }
   if (b < n) s0 += weights[b]! * bins[offset + b]!;
   return s0 + s1;
-}
-
-/**
- * Projects `count` records of `bins` bins stored row after row: out[r·bins + b] =
- * I·cos α + Q·sin α (Q = 0 when null). Returns out.
- */
-export function projectRecords(
-  inPhase: Float64Array, quadrature: Float64Array | null, axis: Axis, out: Float64Array = new Float64Array(inPhase.length),
-): Float64Array {
-  if (quadrature === null || axis.sin === 0) {
-    for (let k = 0; k < inPhase.length; k++) out[k] = inPhase[k]! * axis.cos;
-    return out;
-  }
-  for (let k = 0; k < inPhase.length; k++) out[k] = inPhase[k]! * axis.cos + quadrature[k]! * axis.sin;
-  return out;
 }

@@ -12,7 +12,7 @@ import { InputError } from '../errors.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { applySensor } from '../physics/sensor-scenario.ts';
 import { sourcesByKind } from '../signal/noise/registry.ts';
-import { needsCalibrationBins, needsScoreBins } from '../dsp/pipeline-chain.ts';
+import { classifierOf, needsCalibrationBins } from '../classify/registry.ts';
 
 /** The engines. */
 export type EngineName = 'exact' | 'traces';
@@ -81,9 +81,9 @@ export function exactBlockers(input: Scenario, options: EngineOptions = {}): str
     for (const [k, v] of Object.entries(p)) {
       if (!EXACT_PIPELINE_KEYS.has(k) && !inactive(v)) block(`pipeline "${p.name}" ${k}`, 'not known to be a linear functional of the record');
     }
-    if (needsCalibrationBins(p) || needsScoreBins(p)) {
-      out.push(`pipeline "${p.name}": ${p.classifier === 'likelihood' ? 'the likelihood classifier is not linear in the record' : `${p.weights} weights are calibrated from recorded traces`}`);
-    }
+    const classifier = classifierOf(p);
+    if (classifier.exactBlocker !== null) out.push(`pipeline "${p.name}": ${classifier.exactBlocker}`);
+    else if (needsCalibrationBins(p)) out.push(`pipeline "${p.name}": ${p.weights} weights are calibrated from recorded traces`);
   }
   return out;
 }

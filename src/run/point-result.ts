@@ -3,8 +3,8 @@
  * scored batch by batch into the tally tree, then finished (folded tallies, summaries, pipeline
  * comparisons). `merge` rebuilds points the same way from the tallies shards saved.
  */
-import type { Budget } from '../analysis/budget.ts';
-import { budgetWithNoise } from '../analysis/noise-budget.ts';
+import { unavailableBudget, type Budget } from '../analysis/budget.ts';
+import { predictNoise, type NoisePrediction } from '../analysis/noise-prediction.ts';
 import { REPORT_CONFIDENCE, summarise, type PointSummary } from '../analysis/summary.ts';
 import { addPairs, comparePipelines, emptyPairTallies, type PairTally, type PipelineComparison } from '../analysis/compare.ts';
 import { addToTally, emptyTally, type Tally, type TallyInput } from '../analysis/tally.ts';
@@ -12,7 +12,9 @@ import { foldStack, pushNode, sliceTallyInput, type TallyNode } from '../analysi
 import type { Scenario } from '../scenario/types.ts';
 import type { ShotBatch } from '../engine/trace/batch.ts';
 import type { TalliedBatch } from '../engine/exact/fused.ts';
-import { unavailableBudget, type PipelineCalibration } from '../classify/calibrate.ts';
+import type { PipelineCalibration } from '../classify/calibrate.ts';
+import { classifierOf } from '../classify/registry.ts';
+import { projectKernel } from '../classify/project.ts';
 import { compilePoint, withWeights, type CompiledPoint } from '../engine/compile-point.ts';
 import type { ScoredPipeline } from '../classify/score.ts';
 import { SEED_BLOCK } from '../random/streams.ts';
@@ -32,6 +34,8 @@ export interface PointResult {
    */
   tallyStacks: TallyNode[][];
   budgets: Budget[];
+  /** Per pipeline: the predicted noise of its integrated value, source by source (null where its classifier does not decide on it). */
+  noise: (NoisePrediction | null)[];
   summaries: PointSummary[];
   /** Paired error counts of every pair of pipelines (a < b) on the same scored shots. */
   pairs: PairTally[];
@@ -41,23 +45,33 @@ export interface PointResult {
   clippedSamples?: number;
 }
 
-/** Budgets of every pipeline of a calibrated point. */
+/** Budgets of every pipeline of a calibrated point: its classifier's, where it has one. */
 export function pointBudgets(c: CompiledPoint, calibrations: readonly PipelineCalibration[]): Budget[] {
   const sc = c.scenario;
   return c.pipelines.map((p, i) => {
     const cal = calibrations[i]!;
-    if (p.chain.classifier === 'likelihood') return unavailableBudget(sc.states.length);
     const k = p.kernels;
-    const kernel = new Float64Array(k.inPhase.length);
-    for (let j = k.lo; j < k.hi; j++) kernel[j] = k.inPhase[j]! * cal.axis.cos + (k.quadrature ? k.quadrature[j]! * cal.axis.sin : 0);
-    // every noise source through the whole path, by the filter function (noise-budget.ts)
-    return budgetWithNoise({
-      kernel, lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms,
+    // every noise source through the whole path, by the filter function (analysis/noise-budget.ts)
+    const budget = classifierOf(p.spec).budget({
+      kernel: projectKernel(k, cal.axis), lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms,
       rate: c.chain.rate, jumpCause: c.jumpCause, prepare: sc.prepare,
       outcomeOf: sc.states.map((s) => s.outcome),
       preparation: sc.preparationError, mapping: sc.mappingError,
       threshold: cal.rule.threshold, highIsOne: cal.rule.highIsOne,
     }, c.noise);
+    return budget ?? unavailableBudget(sc.states.length);
+  });
+}
+
+/**
+ * The noise prediction of every pipeline of a calibrated point (null for a pipeline whose
+ * classifier does not decide on the integrated value, e.g. the likelihood classifier).
+ */
+export function pointNoise(c: CompiledPoint, calibrations: readonly PipelineCalibration[]): (NoisePrediction | null)[] {
+  return c.pipelines.map((p, i) => {
+    if (classifierOf(p.spec).readsBins) return null;
+    const k = p.kernels;
+    return predictNoise(c.noise, projectKernel(k, calibrations[i]!.axis), k.lo, k.hi, c.grid.sampleRate);
   });
 }
 
@@ -74,7 +88,7 @@ export function setUpPoint(
     index, parameters: p.parameters, scenario: p.scenario, compiled, calibrations,
     tallies: compiled.pipelines.map(() => emptyTally(p.scenario.states.length, p.scenario.outcomes.length)),
     tallyStacks: compiled.pipelines.map(() => []),
-    budgets: pointBudgets(compiled, calibrations), summaries: [],
+    budgets: pointBudgets(compiled, calibrations), noise: pointNoise(compiled, calibrations), summaries: [],
     pairs: emptyPairTallies(compiled.pipelines.length), comparisons: [],
   };
 }

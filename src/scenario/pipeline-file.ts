@@ -23,6 +23,7 @@ import { label, name, number, quantity, section, text } from './fields.ts';
 import { chainToPipeline, checkPipelines, MAIN_PIPELINE, pipelineChainShape } from './sections/processing.ts';
 import type { PipelineSpec, TimingSpec } from './types.ts';
 import { canonicalJson } from './canonical.ts';
+import { CLASSIFIERS, classifierNamed, DEFAULT_CLASSIFIER } from '../classify/registry.ts';
 
 const positive = { min: 0, minExclusive: true } as const;
 
@@ -61,8 +62,10 @@ export function readPipelineFile(text: string, file: string): AnalyzeFile {
   const raw = parseScenarioText(text, file);
   const parsed = analyzeSchema.safeParse(raw, { reportInput: true, error: fallbackMessage });
   if (!parsed.success) throw zodErrorToInputError(file, parsed.error);
-  if (parsed.data.classifier === 'likelihood') {
-    throw new InputError(file, 'classifier', '"threshold" (the likelihood classifier needs the device model, which recorded traces do not carry)', '"likelihood"');
+  const classifier = classifierNamed(parsed.data.classifier ?? DEFAULT_CLASSIFIER);
+  if (classifier.needsDevice !== null) {
+    const usable = CLASSIFIERS.filter((k) => k.needsDevice === null).map((k) => `"${k.name}"`).join(' or ');
+    throw new InputError(file, 'classifier', `${usable} (${classifier.needsDevice})`, `"${classifier.name}"`);
   }
   return { file, canonical: canonicalJson(raw), doc: parsed.data, raw };
 }

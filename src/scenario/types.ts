@@ -180,9 +180,6 @@ export interface ThresholdSpec {
 /** Integration weights over the decimated bins of a pipeline's window. */
 export type WeightsKind = 'boxcar' | 'matched' | 'optimal';
 
-/** How a pipeline turns its record into an outcome. */
-export type ClassifierKind = 'threshold' | 'likelihood';
-
 /**
  * Post-selection band around the decision threshold: shots inside it are discarded. 'fraction':
  * total width as a fraction of the calibrated separation of the decision statistic; 'width':
@@ -204,8 +201,8 @@ export interface PipelineSpec {
   decimate?: number;
   /** Default 'boxcar'. */
   weights?: WeightsKind;
-  /** Default 'threshold'. */
-  classifier?: ClassifierKind;
+  /** The name of a registered classifier (classify/registry.ts); default 'threshold'. */
+  classifier?: string;
   /** Default none. */
   ambiguousBand?: AmbiguousBand | null;
 }

@@ -37,7 +37,7 @@ describe('ambiguous band', () => {
       let wrongFlag = 0, otherDecision = 0;
       for (const scored of batches) {
         const s = scored[k]!, u = scored[k - 1]!;
-        const statistic = s.logOdds ?? s.projected;
+        const statistic = s.statistic ?? s.projected;
         for (let i = 0; i < s.outcome.length; i++) {
           if (s.discarded![i] !== (Math.abs(statistic[i]! - cal.rule.threshold) < cal.bandHalfWidth ? 1 : 0)) wrongFlag++;
           if (s.outcome[i] !== u.outcome[i]) otherDecision++;

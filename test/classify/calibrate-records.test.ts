@@ -4,7 +4,9 @@
  * σ per bin from clean calibration shots, prior at the window start.
  */
 import { describe, expect, it } from 'vitest';
-import { calibrateLikelihood, gatherRecords, initialMixture } from '../../src/classify/calibrate-records.ts';
+import { gatherRecords } from '../../src/classify/calibrate-records.ts';
+import { initialMixture, likelihoodClassifier } from '../../src/classify/likelihood-classifier.ts';
+import { makeHmmClassifier, type HmmClassifierSpec } from '../../src/classify/likelihood.ts';
 import { compilePoint } from '../../src/engine/compile-point.ts';
 import { calibrate } from '../../src/classify/calibrate.ts';
 import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';
@@ -33,12 +35,15 @@ describe('likelihood calibration (baseband, block average of D = 10)', () => {
     const batch = simulateBatch(point, 0, 'calibrate', 0, 4096, makeScratch(point));
     const cal = calibrate(point, [batch])[0]!;
     const sigma = 2 / Math.sqrt(10);
-    expect(Math.abs(cal.binSigma / sigma - 1), `σ per bin ${cal.binSigma} vs ${sigma}`).toBeLessThan(0.02);
-    const model = calibrateLikelihood(point, 0, gatherRecords(point, 0, [batch], cal.axis), cal.axis);
+    const stored = cal.model as HmmClassifierSpec;
+    expect(Math.abs(stored.sigma / sigma - 1), `σ per bin ${stored.sigma} vs ${sigma}`).toBeLessThan(0.02);
+    // the classifier's fit on the gathered records is the model the calibration keeps
+    const chain = point.pipelines[0]!.chain;
+    const model = likelihoodClassifier.fit!(gatherRecords('hmm', chain, 0, [0, 1], [batch], cal.axis), chain, cal.axis, point);
+    expect(model).toEqual(stored);
     expect(Array.from(model.means[0]!)).toEqual([0, 0, 0, 0, 0]);
     for (const m of model.means[1]!) expect(m).toBeCloseTo(1, 12); // level 1, a block average of 10 samples
-    expect(model.sigma).toBe(cal.binSigma);
-    const hmm = cal.likelihood!;
+    const hmm = makeHmmClassifier(stored);
     expect(hmm.maxLength).toBe(5);
     // log-likelihoods of a record at the ground level: the prior odds are e^(−t/T1)-weighted
     const atGround = new Float64Array(5);

@@ -7,7 +7,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { compilePoint } from '../../src/engine/compile-point.ts';
-import { chainKernels, needsCalibrationBins } from '../../src/dsp/pipeline-chain.ts';
+import { chainKernels } from '../../src/dsp/pipeline-chain.ts';
+import { needsCalibrationBins } from '../../src/classify/registry.ts';
 import { integrateBins, makeProcessScratch, processRecord } from '../../src/dsp/process-record.ts';
 import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';
 import { boxcarKernels } from '../../src/dsp/integrate.ts';

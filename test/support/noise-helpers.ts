@@ -1,7 +1,8 @@
 /** Engine runs for the noise tests: a two-state scenario with extra noise, its simulated σ and the prediction. */
 import { compilePoint, type CompiledPoint } from '../../src/engine/compile-point.ts';
 import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';
-import { predictNoise, projectedKernel, type NoisePrediction } from '../../src/analysis/noise-prediction.ts';
+import { predictNoise, type NoisePrediction } from '../../src/analysis/noise-prediction.ts';
+import { projectKernel } from '../../src/classify/project.ts';
 import { filterFunctionVariance } from '../../src/signal/filter-function.ts';
 import { responsePowerGain } from '../../src/signal/response.ts';
 import type { Scenario, SignalSpec } from '../../src/scenario/types.ts';
@@ -75,7 +76,7 @@ export function runNoise(sc: Scenario): NoiseRun {
     return m;
   });
   const k = point.pipelines[0]!.kernels;
-  const prediction = predictNoise(point.noise, projectedKernel(k, { cos: 1, sin: 0 }), k.lo, k.hi, point.grid.sampleRate);
+  const prediction = predictNoise(point.noise, projectKernel(k, { cos: 1, sin: 0 }), k.lo, k.hi, point.grid.sampleRate);
   return { point, sigma: Math.sqrt(m2 / dof), means, values, prediction };
 }
 

@@ -5,6 +5,7 @@
  */
 import type { CompiledPoint } from '../compile-point.ts';
 import type { PipelineCalibration } from '../../classify/calibrate.ts';
+import { classifierOf } from '../../classify/registry.ts';
 
 /** How one pipeline scores in the fused path (plain data: it crosses to worker threads). */
 export interface FusedPipeline {
@@ -25,10 +26,10 @@ export interface FusedScoring {
 
 /**
  * The fused scoring of a calibrated point, or null when a pipeline decides other than by a
- * threshold on its projected value (likelihood classifier, calibrated weights).
+ * threshold on its projected value (a classifier that reads bins, calibrated weights).
  */
 export function fusedScoring(point: CompiledPoint, calibrations: readonly PipelineCalibration[]): FusedScoring | null {
-  if (calibrations.some((c) => c.likelihood !== null || c.weights !== null)) return null;
+  if (point.pipelines.some((p) => classifierOf(p.spec).readsBins) || calibrations.some((c) => c.weights !== null)) return null;
   const fs = point.grid.sampleRate;
   return {
     pipelines: calibrations.map((c, p) => {

@@ -12,7 +12,8 @@ import { makeNoiseRuntime, type NoiseRuntime } from '../../signal/noise-runtime.
 import { makeRecordLoops, type RecordLoops } from '../wasm/record-loops.ts';
 import type { CompiledPoint } from '../compile-point.ts';
 import { historyTables, makePathStore, sampleHistories, type HistoryColumns, type HistoryTables, type PathStore } from '../../physics/history.ts';
-import { makeShotCollector, type KeptBins, type KeptTraces } from './collect.ts';
+import { makeShotCollector, type KeptTraces } from './collect.ts';
+import type { KeptBins } from '../../dsp/process-record.ts';
 
 /** The truth and the integrated values of a batch of shots. */
 export interface ShotBatch extends HistoryColumns {

@@ -16,20 +16,13 @@ import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../../random/strea
 import type { RandomStream } from '../../random/stream.ts';
 import { addWhiteNoise, writeSignal } from '../../signal/trace.ts';
 import { demodulate } from '../../dsp/demodulate.ts';
-import { needsCalibrationBins, needsScoreBins } from '../../dsp/pipeline-chain.ts';
-import { makeProcessScratch, processRecord, type ProcessScratch } from '../../dsp/process-record.ts';
+import { needsCalibrationBins, needsScoreBins } from '../../classify/registry.ts';
+import { makeProcessScratch, processRecord, type KeptBins, type ProcessScratch } from '../../dsp/process-record.ts';
 import type { CompiledPoint } from '../compile-point.ts';
 
 /** Block-index offset of the padding streams within purpose 'aux' (half of the 2^24 block range). */
 export const TRACE_PADDING_BLOCKS = 2 ** 23;
 
-/** Decimated bins of every shot of a batch, row after row (count × bins). */
-export interface KeptBins {
-  bins: number;
-  inPhase: Float64Array;
-  /** null at baseband. */
-  quadrature: Float64Array | null;
-}
 
 /** Records of every shot of a batch, row after row (count × samples), as Float32. */
 export interface KeptTraces {

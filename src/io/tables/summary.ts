@@ -5,11 +5,10 @@
 import type { Table } from 'apache-arrow';
 import type { PointResult } from '../../run/point-result.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
-import { pointNoiseOf } from '../../analysis/noise-prediction.ts';
 
 /** Plain rows, shared by the Arrow table and the JSON output. */
 export function summaryColumns(points: readonly PointResult[], unit: string, sweptUnits: Readonly<Record<string, string>> = {}): ColumnSpec[] {
-  const rows = points.flatMap((p) => p.summaries.map((s, i) => ({ p, s, cal: p.calibrations[i]!, noise: pointNoiseOf(p)[i] ?? null })));
+  const rows = points.flatMap((p) => p.summaries.map((s, i) => ({ p, s, cal: p.calibrations[i]!, noise: p.noise[i] ?? null })));
   // noise budget columns: one σ and one share per source (noise/sensor helper)
   const sources = [...new Set(rows.flatMap((r) => r.noise?.sources.map((x) => x.name) ?? []))];
   const source = (r: (typeof rows)[number], name: string) => r.noise?.sources.find((x) => x.name === name);

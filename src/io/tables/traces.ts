@@ -25,6 +25,7 @@ import { attributeCause, CAUSE_NOISE, CAUSE_NONE, CAUSES } from '../../analysis/
 import type { ShotBatch } from '../../engine/trace/batch.ts';
 import type { PointResult } from '../../run/point-result.ts';
 import type { Scenario } from '../../scenario/types.ts';
+import { DEFAULT_CLASSIFIER } from '../../classify/registry.ts';
 import {
   dictionaryData, makeDictionaryColumn, nullableFloat64Data, uint32Data, unitField, type DictionaryColumn,
 } from '../arrow-columns.ts';
@@ -66,7 +67,7 @@ export function storedCalibrations(points: readonly PointResult[]): StoredCalibr
       return {
         name: c.spec.name, referencePhase: c.referencePhase, axisAngle: Math.atan2(cal.axis.sin, cal.axis.cos),
         threshold: cal.rule.threshold, highIsOne: cal.rule.highIsOne,
-        weights: cal.weights ? Array.from(cal.weights) : null, bandHalfWidth: cal.bandHalfWidth, classifier: c.chain.classifier,
+        weights: cal.weights ? Array.from(cal.weights) : null, bandHalfWidth: cal.bandHalfWidth, classifier: c.spec.classifier ?? DEFAULT_CLASSIFIER,
       };
     }),
   }));

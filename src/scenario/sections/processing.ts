@@ -22,6 +22,8 @@ import type { ResolveContext } from '../context.ts';
 import type { KeyPath } from '../issues.ts';
 import type { SignalUse } from './states.ts';
 import { formatQuantity } from '../units.ts';
+import { CLASSIFIERS, classifierNamed, DEFAULT_CLASSIFIER } from '../../classify/registry.ts';
+import type { ClassifierKind } from '../../classify/contract.ts';
 
 /** Name of the pipeline made from `processing`, or the default one. */
 export const MAIN_PIPELINE = 'main';
@@ -85,7 +87,8 @@ export const pipelineChainShape = {
   filter: filterSchema,
   decimate: integer(1, 1_000_000).optional().meta({ description: 'Decimation factor after the filter (default 1)' }),
   weights: oneOf(['boxcar', 'matched', 'optimal']).optional().meta({ description: 'Integration weights over the decimated window (default boxcar)' }),
-  classifier: oneOf(['threshold', 'likelihood']).optional().meta({ description: 'threshold, or the likelihood ratio of the hidden-Markov model of the record (default threshold)' }),
+  classifier: oneOf(CLASSIFIERS.map((k) => k.name) as [string, ...string[]]).optional()
+    .meta({ description: `${CLASSIFIERS.map((k) => `${k.name}: ${k.description}`).join('; ')} (default ${DEFAULT_CLASSIFIER})` }),
   ambiguousBand: bandSchema,
 };
 
@@ -125,12 +128,13 @@ export function resolvePipelines(doc: ProcessingDoc, ctx: ResolveContext): { pip
 
 /** One pipeline from its validated keys; `at` is its key path (for messages). */
 export function chainToPipeline(pipelineName: string, c: ChainDoc, at: KeyPath, uses: SignalUse[], ctx: ResolveContext): PipelineSpec {
-  const classifier = c.classifier ?? 'threshold';
-  if (classifier === 'likelihood') {
-    if (c.threshold !== undefined) ctx.fail([...at, 'threshold'], 'no threshold with classifier likelihood (it decides by the sign of the log-odds)', ctx.found([...at, 'threshold']));
-    if (c.weights !== undefined && c.weights !== 'boxcar') {
-      ctx.fail([...at, 'weights'], 'no integration weights with classifier likelihood (it reads every bin)');
-    }
+  const classifier = classifierNamed(c.classifier ?? DEFAULT_CLASSIFIER);
+  const refused = classifier.refuses;
+  if (refused.threshold && c.threshold !== undefined) {
+    ctx.fail([...at, 'threshold'], `no threshold with classifier ${classifier.name} (${refused.threshold})`, ctx.found([...at, 'threshold']));
+  }
+  if (refused.weights && c.weights !== undefined && c.weights !== 'boxcar') {
+    ctx.fail([...at, 'weights'], `no integration weights with classifier ${classifier.name} (${refused.weights})`);
   }
   const t = c.threshold ?? 'midpoint';
   let threshold: PipelineSpec['threshold'];
@@ -167,14 +171,14 @@ function toFilter(f: ChainDoc['filter'], at: KeyPath, ctx: ResolveContext): Filt
 }
 
 function toBand(
-  b: ChainDoc['ambiguousBand'], at: KeyPath, classifier: string, uses: SignalUse[], ctx: ResolveContext,
+  b: ChainDoc['ambiguousBand'], at: KeyPath, classifier: ClassifierKind, uses: SignalUse[], ctx: ResolveContext,
 ): AmbiguousBand | null {
   if (b === undefined) return null;
   if ((b.fraction === undefined) === (b.width === undefined)) {
     ctx.fail(at, 'either fraction or width', b.fraction === undefined ? 'neither' : 'both');
   }
   if (b.fraction !== undefined) return { kind: 'fraction', value: b.fraction };
-  if (classifier === 'likelihood') ctx.fail([...at, 'width'], 'fraction (the likelihood classifier has no signal-unit statistic)', ctx.found([...at, 'width']));
+  if (classifier.refuses.bandWidth) ctx.fail([...at, 'width'], `fraction (${classifier.refuses.bandWidth})`, ctx.found([...at, 'width']));
   uses.push({ path: [...at, 'width'], unit: b.width!.unit });
   return { kind: 'width', value: b.width!.value };
 }

@@ -130,6 +130,8 @@ export interface NoiseSourceInfo {
   injection: NoiseInjection;
   /** The density shown (its meaning is the kind's: e.g. √A at 1 Hz for 1/f, the amplitude for a fluctuator). */
   density: number;
+  /** Its unit, with {unit} for the signal unit (e.g. '{unit}/√Hz at 1 Hz', '{unit}'). */
+  densityUnit: string;
   /** How the density was obtained. */
   origin: string;
 }

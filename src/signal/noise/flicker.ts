@@ -203,7 +203,7 @@ export const flickerKind: NoiseSourceKind<FlickerSourceSpec> = {
 
     const compiled = (carried: Carried): CompiledNoiseKind => ({
       sources: specs.map((s) => ({
-        name: s.name, kind: 'flicker', injection: s.injection, density: Math.sqrt(s.amplitude), origin: `1/f^${s.exponent} on [${s.low}, ${s.high}] Hz`,
+        name: s.name, kind: 'flicker', injection: s.injection, density: Math.sqrt(s.amplitude), densityUnit: '{unit}/√Hz at 1 Hz', origin: `1/f^${s.exponent} on [${s.low}, ${s.high}] Hz`,
       })),
       linear: true,
       variance: (s, x, lo, hi) => flickerFunctionalVariance(bands[s]!, carryKernel(tables, x, lo, hi), step, offset).total,

@@ -85,7 +85,7 @@ export const telegraphKind: NoiseSourceKind<TelegraphSourceSpec> = {
     const sampleRate = point.grid.sampleRate;
     const kind: CompiledNoiseKind = {
       sources: specs.map((t) => ({
-        name: t.name, kind: 'telegraph', injection: t.injection, density: t.amplitude,
+        name: t.name, kind: 'telegraph', injection: t.injection, density: t.amplitude, densityUnit: '{unit}',
         origin: `two-level fluctuator, up ${t.rateUp}/s, down ${t.rateDown}/s`,
       })),
       linear: false,
