@@ -1,6 +1,5 @@
 /** Why a shot ended where it did. The simulator knows the truth, so each wrong shot gets one. */
 export const CAUSES = ['none', 'noise', 'relaxation', 'excitation', 'leakage', 'preparation', 'mapping', 'discarded'] as const;
-export type Cause = (typeof CAUSES)[number];
 
 export const CAUSE_NONE = 0;
 export const CAUSE_NOISE = 1;

@@ -4,7 +4,6 @@
  */
 import { CAUSES, CAUSE_NONE } from './causes.ts';
 import { wilsonInterval, type RateInterval } from './intervals.ts';
-import { variance } from './moments.ts';
 import { shotsOf, type Tally } from './tally.ts';
 import type { Budget } from './budget.ts';
 

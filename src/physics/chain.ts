@@ -3,7 +3,6 @@
  * scenario's rates, sampled exactly (exponential holding times, jump chain; Norris, "Markov
  * Chains", Cambridge 1997, §2.6).
  */
-import type { RandomStream } from '../random/stream.ts';
 import type { TransitionSpec } from '../scenario/types.ts';
 
 /** Precomputed jump tables of the chain. */
@@ -49,32 +48,6 @@ export interface PathBuffer {
 /** A path buffer with room for `capacity` jumps (grown on demand). */
 export function makePathBuffer(capacity = 16): PathBuffer {
   return { times: new Float64Array(capacity), entered: new Uint8Array(capacity), jumps: 0 };
-}
-
-/**
- * Samples the jumps of the chain on [0, duration) starting in `start`, into `path`.
- * Returns the state at `duration`.
- */
-export function samplePath(chain: Chain, start: number, duration: number, stream: RandomStream, path: PathBuffer): number {
-  const n = chain.states;
-  let state = start;
-  let t = 0;
-  path.jumps = 0;
-  for (;;) {
-    const exit = chain.exitRate[state]!;
-    if (exit <= 0) return state;
-    t += stream.nextExponential(exit);
-    if (t >= duration) return state;
-    const u = stream.nextDouble();
-    let next = 0;
-    const row = state * n;
-    while (next < n - 1 && u > chain.cumulative[row + next]!) next++;
-    if (path.jumps === path.times.length) growJumpArrays(path);
-    path.times[path.jumps] = t;
-    path.entered[path.jumps] = next;
-    path.jumps++;
-    state = next;
-  }
 }
 
 /** Doubles the jump arrays of a path buffer or store, keeping their contents. */

@@ -6,8 +6,9 @@
  * shot by shot, and the engines differ only in how the integrated value is obtained.
  */
 import type { RandomStream } from '../random/stream.ts';
-import type { CompiledPoint } from '../engine/compile-point.ts';
-import { growJumpArrays } from './chain.ts';
+import type { Scenario } from '../scenario/types.ts';
+import type { Grid } from '../signal/grid.ts';
+import { growJumpArrays, type Chain } from './chain.ts';
 
 /** The truth columns of a batch (a subset of ShotBatch). */
 export interface HistoryColumns {
@@ -66,7 +67,18 @@ export interface HistoryTables {
 }
 
 /** The tables `sampleHistories` needs, for one compiled point. */
-export function historyTables(point: CompiledPoint): HistoryTables {
+/** What the history tables are made from: a compiled point has it all (engine/compile-point.ts). */
+export interface HistorySource {
+  scenario: Pick<Scenario, 'states' | 'preparationError' | 'mappingError'>;
+  grid: Pick<Grid, 'samples' | 'sampleRate' | 'windowLo' | 'windowHi'>;
+  chain: Pick<Chain, 'exitRate' | 'cumulative'>;
+  /** Cumulative prepared mixture. */
+  prepareCumulative: Float64Array;
+  /** Per state and destination: the cause code of a jump. */
+  jumpCause: Uint8Array;
+}
+
+export function historyTables(point: HistorySource): HistoryTables {
   const { scenario, grid, chain } = point;
   const n = scenario.states.length;
   const fs = grid.sampleRate;

@@ -2,7 +2,6 @@
  * The scenario file schema, composed from one shape per section. A new section adds its file
  * under `sections/` and one line here (and one call in `resolve.ts`).
  */
-import { z } from 'zod';
 import { section } from './fields.ts';
 import { runShape } from './sections/run.ts';
 import { timingShape } from './sections/timing.ts';
@@ -34,6 +33,3 @@ export const scenarioSchema = section(scenarioShape, 'a mapping of scenario keys
   title: 'singleshot scenario',
   description: 'A simulated single-shot readout: device states, errors, signal chain and processing',
 });
-
-/** A validated scenario document. */
-export type ScenarioDoc = z.output<typeof scenarioSchema>;

@@ -8,10 +8,7 @@
 import { ELEMENTARY_CHARGE } from '../physics/constants.ts';
 import { didYouMean } from './suggest.ts';
 
-/** Base dimensions, in this order: time, current, energy, temperature, angle. */
-export const BASE_DIMENSIONS = ['time', 'current', 'energy', 'temperature', 'angle'] as const;
-
-/** Exponents of the base dimensions (halves allowed, for 1/√Hz). */
+/** Exponents of the base dimensions time, current, energy, temperature, angle, in this order (halves allowed, for 1/√Hz). */
 export type Dimension = readonly [number, number, number, number, number];
 
 const NONE: Dimension = [0, 0, 0, 0, 0];
@@ -250,11 +247,6 @@ class UnitReader {
   }
 }
 
-/** Reads a unit expression ("meV/ns", "A/sqrt(Hz)") into its SI factor and dimension. */
-export function parseUnit(text: string): { factor: number; dim: Dimension } {
-  const f = new UnitReader(text.trim()).read();
-  return { factor: timesPow10(f.scale, f.pow10), dim: f.dim };
-}
 
 const NUMBER = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$/;
 

@@ -4,7 +4,7 @@
  * SNR = separation of the state means / pooled σ of the I output, both simulated.
  */
 import { describe, expect, it } from 'vitest';
-import { fitLine } from '../../src/analysis/fit.ts';
+import { fitLine } from '../support/fit.ts';
 import { flicker, noiseScenario, runNoise, type NoiseCase } from '../support/noise-helpers.ts';
 
 function snrCurve(base: NoiseCase, windows: number[]): { snr: number[]; predicted: number[] } {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { mixtureCdf, mixtureDensity, valueMixture, type MixtureInput } from '../../src/analysis/value-density.ts';
-import { kolmogorovTail } from '../../src/analysis/ks.ts';
+import { kolmogorovTail } from '../support/ks.ts';
 import { normalCdf } from '../../src/analysis/special.ts';
 import { compilePoint } from '../../src/engine/compile-point.ts';
 import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';

@@ -7,7 +7,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { runPoints } from '../../src/run/run-points.ts';
-import { fitExponentialDecay } from '../../src/analysis/fit.ts';
+import { fitExponentialDecay } from '../support/fit.ts';
 import type { PipelineSpec } from '../../src/scenario/types.ts';
 import { twoStateScenario } from '../support/scenarios.ts';
 

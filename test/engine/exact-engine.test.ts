@@ -11,14 +11,14 @@
  *   variance σ²; common practice, no source), across the two pipelines too.
  */
 import { describe, expect, it } from 'vitest';
-import { ksTwoSample } from '../../src/analysis/ks.ts';
+import { ksTwoSample } from '../support/ks.ts';
 import { zForConfidence } from '../../src/analysis/intervals.ts';
 import { compilePoint } from '../../src/engine/compile-point.ts';
 import { simulateBatch, type ShotBatch } from '../../src/engine/trace/batch.ts';
 import { simulateExactBatch, exactTables } from '../../src/engine/exact/batch.ts';
 import { whiteCovariance } from '../../src/analysis/linear-statistic.ts';
 import { runPoints } from '../../src/run/run-points.ts';
-import type { NoiseSourceSpec, Scenario } from '../../src/scenario/types.ts';
+import type { Scenario } from '../../src/scenario/types.ts';
 import type { FlickerSourceSpec } from '../../src/signal/noise/flicker.ts';
 import { twoStateScenario } from '../support/scenarios.ts';
 

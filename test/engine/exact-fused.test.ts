@@ -11,7 +11,7 @@ import { runPoints, type RunResult } from '../../src/run/run-points.ts';
 import { inProcessExecutor, type BatchExecutor } from '../../src/run/executor.ts';
 import { workerPoolExecutor } from '../../src/run/pool.ts';
 import type { Tally } from '../../src/analysis/tally.ts';
-import type { NoiseSourceSpec, Scenario } from '../../src/scenario/types.ts';
+import type { Scenario } from '../../src/scenario/types.ts';
 import type { FlickerSourceSpec } from '../../src/signal/noise/flicker.ts';
 import { twoStateScenario } from '../support/scenarios.ts';
 

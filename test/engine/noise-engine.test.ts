@@ -6,7 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { compilePoint } from '../../src/engine/compile-point.ts';
 import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';
 import { runPoints } from '../../src/run/run-points.ts';
-import { chiSquareTest } from '../../src/analysis/chi-square.ts';
+import { chiSquareTest } from '../support/chi-square.ts';
 import { wilsonInterval } from '../../src/analysis/intervals.ts';
 import { gaussianTail, normalCdf } from '../../src/analysis/special.ts';
 import { parseScenarioText } from '../../src/scenario/parse.ts';

@@ -10,9 +10,10 @@
  * Drawing a block in two calls gives the same histories as in one (the stream carries over).
  */
 import { describe, expect, it } from 'vitest';
-import { kolmogorovTail, ksTwoSample } from '../../src/analysis/ks.ts';
+import { kolmogorovTail, ksTwoSample } from '../support/ks.ts';
 import { wilsonInterval } from '../../src/analysis/intervals.ts';
-import { makePathBuffer, samplePath } from '../../src/physics/chain.ts';
+import { makePathBuffer } from '../../src/physics/chain.ts';
+import { samplePath } from '../support/sample-path.ts';
 import { makeStream } from '../../src/random/streams.ts';
 import { compilePoint } from '../../src/engine/compile-point.ts';
 import { makeShotBatch } from '../../src/engine/trace/batch.ts';

@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { makeStream } from '../../src/random/streams.ts';
 import { normalCdf } from '../../src/analysis/special.ts';
-import { kolmogorovTail } from '../../src/analysis/ks.ts';
+import { kolmogorovTail } from '../support/ks.ts';
 import { wilsonInterval } from '../../src/analysis/intervals.ts';
 
 const N = 2 ** 22;

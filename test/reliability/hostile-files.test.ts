@@ -14,7 +14,7 @@ import { tableFromArrays, tableToIPC } from 'apache-arrow';
 import { readArrowFile, singleshotMetadata } from '../../src/io/arrow-read.ts';
 import { InputError } from '../../src/errors.ts';
 import { runToDirectory } from '../../src/app/run-to-directory.ts';
-import { main, makeProgram } from '../../src/cli/main.ts';
+import { makeProgram } from '../../src/cli/main.ts';
 import { runMain } from '../support/cli.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');

@@ -5,7 +5,7 @@ import {
 } from '../../src/signal/flicker-timeline.ts';
 import { flickerVariance } from '../../src/signal/flicker.ts';
 import { welchDensity } from '../../src/analysis/welch.ts';
-import { fitLine } from '../../src/analysis/fit.ts';
+import { fitLine } from '../support/fit.ts';
 import { filterFunctionVariance } from '../../src/signal/filter-function.ts';
 import type { NoiseStream } from '../../src/signal/stream.ts';
 import { seededStream } from './seeded-stream.ts';

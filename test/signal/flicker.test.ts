@@ -1,11 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import {
-  FLICKER_MAX_BLOCK,
-  flickerVariance,
-  makeFlickerSource,
-  planFlickerBlocks,
-  type FlickerSpec,
-} from '../../src/signal/flicker.ts';
+import { FLICKER_MAX_BLOCK, flickerVariance } from '../../src/signal/flicker.ts';
+import { makeFlickerSource, planFlickerBlocks, type FlickerSpec } from '../support/flicker-source.ts';
 import { welchDensity } from '../../src/analysis/welch.ts';
 import type { NoiseStream } from '../../src/signal/stream.ts';
 import { seededStream } from './seeded-stream.ts';

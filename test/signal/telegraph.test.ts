@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { makeTelegraphSource, stationaryOccupation, type TelegraphSpec } from '../../src/signal/telegraph.ts';
+import { stationaryOccupation } from '../../src/signal/telegraph.ts';
+import { makeTelegraphSource, type TelegraphSpec } from '../support/telegraph-source.ts';
 import { normalCdf } from '../../src/analysis/special.ts';
 import { seededStream } from './seeded-stream.ts';
 

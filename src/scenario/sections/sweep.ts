@@ -17,7 +17,7 @@ import { z } from 'zod';
 import type { SweepAxis, SweepSpec } from '../types.ts';
 import { integer, oneOf, section } from '../fields.ts';
 import type { ResolveContext } from '../context.ts';
-import { formatPath, valueAt, type KeyPath } from '../issues.ts';
+import { formatPath, type KeyPath } from '../issues.ts';
 import { parseQuantity, sameDimension, UnitSyntaxError, type Dimension } from '../units.ts';
 
 /** Most sweep points a run may have (the seeding gives each point its own stream). */

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { fitExponentialDecay, fitLine } from '../../src/analysis/fit.ts';
-import { loadFixture, mismatch, relativeError } from './load-fixture.ts';
+import { fitExponentialDecay, fitLine } from './fit.ts';
+import { loadFixture, mismatch, relativeError } from '../analysis/load-fixture.ts';
 
 interface FitFixture {
   lines: { x: number[]; y: number[]; slope: number; intercept: number; r2: number }[];

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { chiSquareTest } from '../../src/analysis/chi-square.ts';
-import { loadFixture, mismatch, relativeError } from './load-fixture.ts';
+import { chiSquareTest } from './chi-square.ts';
+import { loadFixture, mismatch, relativeError } from '../analysis/load-fixture.ts';
 
 interface ChiCase {
   observed: number[];

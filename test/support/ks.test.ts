@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { kolmogorovTail, ksStatistic, ksTwoSample } from '../../src/analysis/ks.ts';
-import { loadFixture, mismatch, relativeError } from './load-fixture.ts';
+import { kolmogorovTail, ksStatistic, ksTwoSample } from './ks.ts';
+import { loadFixture, mismatch, relativeError } from '../analysis/load-fixture.ts';
 
 interface KsFixture {
   first: number[];
