@@ -13,7 +13,8 @@ import { writeFileAtomic } from '../io/atomic-file.ts';
 import { probability, short, showValue } from '../io/report/display.ts';
 import { noiseSpectrumView } from '../io/report/noise-view.ts';
 import { renderPage, type Card, type Figure, type SectionView } from '../io/report/page.ts';
-import { histogramView, resimulatedValues, traceViews, type PointReading } from '../io/report/point-views.ts';
+import { histogramView, traceViews, type PointReading } from '../io/report/point-views.ts';
+import { exampleShots, resimulatedValues } from '../engine/trace/examples.ts';
 import { readPointValues, readRunTables, type RunTables, type SummaryRow } from '../io/report/read-run.ts';
 import { renderPlot, type PlotSpec } from '../io/report/svg.ts';
 import { describeParameters, heatMapView, sweepLineViews } from '../io/report/sweep-views.ts';
@@ -74,7 +75,7 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   // integrated values
   const values = t.hasShots
     ? await readPointValues(dir, bestRow.point, op.pipeline, scenario.states.map((s) => s.name))
-    : resimulatedValues(compiled, bestRow.point, reading);
+    : resimulatedValues(compiled, bestRow.point, reading.pipeline, { cos: Math.cos(reading.axisAngle), sin: Math.sin(reading.axisAngle) });
   const histogram = histogramView(compiled, reading, values);
   const shotsSaid = t.hasShots
     ? `the ${values.reduce((a, v) => a + v.length, 0)} scored shots of point ${bestRow.point}${where}, pipeline "${op.pipeline}"`
@@ -93,7 +94,7 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   sections.push(valuesSection);
 
   // example records
-  const traces = traceViews(compiled, bestRow.point, reading);
+  const traces = traceViews(compiled, exampleShots(compiled, bestRow.point), reading);
   const recordsSection: SectionView = { id: 'records', title: 'Example records', intro: [], figures: [], tables: [] };
   if (traces) {
     recordsSection.intro.push('Shots re-simulated from the embedded scenario on the point\'s auxiliary random stream (never the scored shots; the same every time): one clean shot per prepared state and, where the model has transitions, one whose state changed inside the window. Shaded: the integration window.');

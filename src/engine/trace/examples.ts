@@ -9,6 +9,7 @@ import { CAUSE_RELAXATION } from '../../analysis/causes.ts';
 import { SEED_BLOCK } from '../../random/streams.ts';
 import { makeScratch, simulateBatch } from './batch.ts';
 import type { CompiledPoint } from '../compile-point.ts';
+import { project, type Axis } from '../../classify/project.ts';
 
 /** One example shot: its history and its raw record over the whole record. */
 export interface ExampleShot {
@@ -83,4 +84,22 @@ export function exampleShots(compiled: CompiledPoint, pointIndex: number): Examp
   }
   if (best) out.push(shotAt(oneBlock, pointIndex, best.block, best.i, 'jump'));
   return out;
+}
+
+/** Shots re-simulated for a histogram when the run wrote no shots table. */
+export const FALLBACK_BLOCKS = 16;
+
+/** Integrated values per intended state from re-simulated 'aux' shots (when no shots table exists). */
+export function resimulatedValues(c: CompiledPoint, pointIndex: number, pipeline: number, axis: Axis): Float64Array[] {
+  const parts: number[][] = c.scenario.states.map(() => []);
+  const oneBlock: CompiledPoint = { ...c, scenario: { ...c.scenario, batchSize: SEED_BLOCK } };
+  const scratch = makeScratch(oneBlock);
+  // blocks far from those the examples use, so the two never share shots
+  for (let b = 0; b < FALLBACK_BLOCKS; b++) {
+    const batch = simulateBatch(oneBlock, pointIndex, 'aux', 1024 + b, SEED_BLOCK, scratch);
+    const v = batch.values[pipeline]!;
+    const projected = project(v.inPhase, v.quadrature, axis, new Float64Array(batch.count));
+    for (let i = 0; i < batch.count; i++) parts[batch.intended[i]!]!.push(projected[i]!);
+  }
+  return parts.map((p) => Float64Array.from(p));
 }

@@ -1,18 +1,15 @@
 /**
  * Plots of one point: the histogram of integrated values per prepared state with the
- * threshold and the analytic mixture, and example records (raw and demodulated) re-simulated
- * on the point's 'aux' stream. Values come from shots.arrow when the run kept it; otherwise
- * the histogram is drawn from re-simulated shots, and the caption says so.
+ * threshold and the analytic mixture, and example records (raw and demodulated). The values and
+ * the example shots are given (app/report.ts reads them from shots.arrow or re-simulates them).
  */
 import { extent, envelope, histogramCounts, movingAverage } from '../../analysis/plot-data.ts';
 import { mixtureDensity, valueMixture } from '../../analysis/value-density.ts';
 import { CAUSES } from '../../analysis/causes.ts';
 import { makeReference } from '../../dsp/demodulate.ts';
-import { project } from '../../classify/project.ts';
-import { exampleShots } from '../../engine/trace/examples.ts';
-import { makeScratch, simulateBatch } from '../../engine/trace/batch.ts';
-import type { CompiledPoint } from '../../engine/compile-point.ts';
-import { SEED_BLOCK } from '../../random/streams.ts';
+import { projectKernel } from '../../classify/project.ts';
+import type { Scenario } from '../../scenario/types.ts';
+import type { Grid } from '../../signal/grid.ts';
 import { displayUnit, showValue, withUnit } from './display.ts';
 import { demodulatedSpec, histogramSpec, rawTracesSpec, type TracePlot } from './plots.ts';
 import type { PlotSpec } from './svg.ts';
@@ -20,8 +17,30 @@ import { causeColour, stateColour } from './theme.ts';
 
 /** Bins of the value histogram. */
 export const HISTOGRAM_BINS = 90;
-/** Shots re-simulated for the histogram when the run wrote no shots table. */
-export const FALLBACK_BLOCKS = 16;
+
+/** What the views read of the point's compiled model (engine/compile-point.ts's CompiledPoint has it). */
+export interface PointModel {
+  scenario: Pick<Scenario, 'states' | 'signal' | 'preparationError' | 'mappingError'>;
+  grid: Pick<Grid, 'samples' | 'sampleRate' | 'windowLo' | 'windowHi'>;
+  pipelines: readonly { referencePhase: number; kernels: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number } }[];
+  waveforms: readonly Float64Array[];
+  chain: { rate: Float64Array };
+}
+
+/** One example shot to draw: its history and its whole record. */
+export interface ExampleRecord {
+  /** What the shot shows: "clean" or "jump in window". */
+  kind: 'clean' | 'jump';
+  intended: number;
+  atWindowEnd: number;
+  /** Time of the first jump (s), NaN if none. */
+  firstJump: number;
+  /** Cause code of the first jump if it touched the window (0 otherwise). */
+  jumpCause: number;
+  /** Per pipeline: the integrated I and Q. */
+  values: readonly { inPhase: number; quadrature: number }[];
+  record: Float64Array;
+}
 
 /** The calibrated reading of one pipeline at the point, from the summary table. */
 export interface PointReading {
@@ -31,33 +50,8 @@ export interface PointReading {
   sigma: number;
 }
 
-/** The projected kernel of a pipeline along the calibrated axis. */
-export function projectedKernel(c: CompiledPoint, r: PointReading): Float64Array {
-  const k = c.pipelines[r.pipeline]!.kernels;
-  const cos = Math.cos(r.axisAngle), sin = Math.sin(r.axisAngle);
-  const out = new Float64Array(k.inPhase.length);
-  for (let j = k.lo; j < k.hi; j++) out[j] = k.inPhase[j]! * cos + (k.quadrature ? k.quadrature[j]! * sin : 0);
-  return out;
-}
-
-/** Integrated values per intended state from re-simulated 'aux' shots (when no shots table exists). */
-export function resimulatedValues(c: CompiledPoint, pointIndex: number, r: PointReading): Float64Array[] {
-  const parts: number[][] = c.scenario.states.map(() => []);
-  const oneBlock: CompiledPoint = { ...c, scenario: { ...c.scenario, batchSize: SEED_BLOCK } };
-  const scratch = makeScratch(oneBlock);
-  const axis = { cos: Math.cos(r.axisAngle), sin: Math.sin(r.axisAngle) };
-  // blocks far from those the examples use, so the two never share shots
-  for (let b = 0; b < FALLBACK_BLOCKS; b++) {
-    const batch = simulateBatch(oneBlock, pointIndex, 'aux', 1024 + b, SEED_BLOCK, scratch);
-    const v = batch.values[r.pipeline]!;
-    const projected = project(v.inPhase, v.quadrature, axis, new Float64Array(batch.count));
-    for (let i = 0; i < batch.count; i++) parts[batch.intended[i]!]!.push(projected[i]!);
-  }
-  return parts.map((p) => Float64Array.from(p));
-}
-
 /** The histogram plot of a point's values per intended state. */
-export function histogramView(c: CompiledPoint, r: PointReading, values: Float64Array[]): PlotSpec | null {
+export function histogramView(c: PointModel, r: PointReading, values: Float64Array[]): PlotSpec | null {
   const sc = c.scenario;
   const [lo0, hi0] = extent(values);
   if (!Number.isFinite(lo0) || !(hi0 > lo0)) return null;
@@ -65,8 +59,8 @@ export function histogramView(c: CompiledPoint, r: PointReading, values: Float64
   const lo = lo0 - pad, hi = hi0 + pad;
   const width = (hi - lo) / HISTOGRAM_BINS;
   const unit = displayUnit(sc.signal.unit, Math.max(Math.abs(lo), Math.abs(hi)));
-  const kernel = projectedKernel(c, r);
   const k = c.pipelines[r.pipeline]!.kernels;
+  const kernel = projectKernel(k, { cos: Math.cos(r.axisAngle), sin: Math.sin(r.axisAngle) });
   const input = {
     kernel, lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms, rate: c.chain.rate,
     preparation: sc.preparationError, mapping: sc.mappingError,
@@ -91,8 +85,7 @@ export function histogramView(c: CompiledPoint, r: PointReading, values: Float64
 }
 
 /** Example-record plots (raw and demodulated), or null when the point has no example shots. */
-export function traceViews(c: CompiledPoint, pointIndex: number, r: PointReading): { raw: PlotSpec; demodulated: PlotSpec; note: string } | null {
-  const shots = exampleShots(c, pointIndex);
+export function traceViews(c: PointModel, shots: readonly ExampleRecord[], r: PointReading): { raw: PlotSpec; demodulated: PlotSpec; note: string } | null {
   if (shots.length === 0) return null;
   const sc = c.scenario;
   const fs = c.grid.sampleRate, n = c.grid.samples;

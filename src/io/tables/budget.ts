@@ -5,18 +5,18 @@
  */
 import type { Table } from 'apache-arrow';
 import type { CauseComparison } from '../../analysis/summary.ts';
-import type { PointResult } from '../../run/point-result.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
+import type { PointRows } from './inputs.ts';
 
 interface BudgetRow {
-  point: PointResult;
+  point: PointRows;
   pipeline: string;
   state: string;
   shots: number;
   c: CauseComparison;
 }
 
-function rowsOf(points: readonly PointResult[]): BudgetRow[] {
+function rowsOf(points: readonly PointRows[]): BudgetRow[] {
   const rows: BudgetRow[] = [];
   for (const point of points) {
     for (const s of point.summaries) {
@@ -35,7 +35,7 @@ function totalOf(errors: number, shots: number, simulated: CauseComparison['simu
   return { cause: 'total', errors, analytic, alone: linear, simulated, wide: simulated, agrees };
 }
 
-export function budgetColumns(points: readonly PointResult[], sweptUnits: Readonly<Record<string, string>> = {}): ColumnSpec[] {
+export function budgetColumns(points: readonly PointRows[], sweptUnits: Readonly<Record<string, string>> = {}): ColumnSpec[] {
   const rows = rowsOf(points);
   const swept = Object.keys(points[0]!.parameters);
   const col = (name: string, kind: ColumnSpec['kind'], unit: string | null, f: (r: BudgetRow) => ColumnSpec['values'][number]): ColumnSpec =>
@@ -57,6 +57,6 @@ export function budgetColumns(points: readonly PointResult[], sweptUnits: Readon
   ];
 }
 
-export function budgetTable(points: readonly PointResult[], metadata: Map<string, string>, sweptUnits: Readonly<Record<string, string>> = {}): Table {
+export function budgetTable(points: readonly PointRows[], metadata: Map<string, string>, sweptUnits: Readonly<Record<string, string>> = {}): Table {
   return buildTable(budgetColumns(points, sweptUnits), metadata);
 }

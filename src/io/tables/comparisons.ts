@@ -5,11 +5,11 @@
  * Written only when a point has two or more pipelines.
  */
 import type { Table } from 'apache-arrow';
-import type { PointResult } from '../../run/point-result.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
+import type { PointRows } from './inputs.ts';
 
 /** Plain columns of the comparisons table. */
-export function comparisonColumns(points: readonly PointResult[]): ColumnSpec[] {
+export function comparisonColumns(points: readonly PointRows[]): ColumnSpec[] {
   const rows = points.flatMap((p) => p.comparisons.map((c) => ({ p, c })));
   const sweptNames = Object.keys(points[0]?.parameters ?? {});
   const col = (name: string, kind: ColumnSpec['kind'], unit: string | null, f: (r: (typeof rows)[number]) => ColumnSpec['values'][number]): ColumnSpec =>
@@ -34,6 +34,6 @@ export function comparisonColumns(points: readonly PointResult[]): ColumnSpec[] 
 }
 
 /** The comparisons table with `metadata` in its schema. */
-export function comparisonsTable(points: readonly PointResult[], metadata: Map<string, string>): Table {
+export function comparisonsTable(points: readonly PointRows[], metadata: Map<string, string>): Table {
   return buildTable(comparisonColumns(points), metadata);
 }

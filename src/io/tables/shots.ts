@@ -5,13 +5,13 @@
  */
 import { Float64, RecordBatch, Schema, Struct, Uint32, Bool, makeData } from 'apache-arrow';
 import { CAUSE_DISCARDED, CAUSES } from '../../analysis/causes.ts';
-import type { ShotBatch } from '../../engine/trace/batch.ts';
 import type { ScoredPipeline } from '../../classify/score.ts';
 import type { Scenario } from '../../scenario/types.ts';
 import {
   boolData, dictionaryData, float64Data, makeDictionaryColumn, nullableFloat64Data, uint32Data, unitField,
   type DictionaryColumn,
 } from '../arrow-columns.ts';
+import type { BatchRows } from './inputs.ts';
 
 /** Column layout of shots.arrow for one scenario (dictionaries fixed for the whole file). */
 export interface ShotsLayout {
@@ -48,7 +48,7 @@ export function shotsLayout(scenario: Scenario, metadata: Map<string, string>): 
 
 /** The record batches (one per pipeline) of one scored shot batch. */
 export function shotRecordBatches(
-  layout: ShotsLayout, b: ShotBatch, scored: readonly ScoredPipeline[], outcomeOf: readonly number[],
+  layout: ShotsLayout, b: BatchRows, scored: readonly ScoredPipeline[], outcomeOf: readonly number[],
 ): RecordBatch[] {
   const n = b.count;
   const point = new Uint32Array(n).fill(b.point);

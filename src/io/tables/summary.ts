@@ -3,11 +3,11 @@
  * intervals, assignment matrix, mean error, SNR (simulated and analytic), threshold.
  */
 import type { Table } from 'apache-arrow';
-import type { PointResult } from '../../run/point-result.ts';
 import { buildTable, type ColumnSpec } from './columns.ts';
+import type { PointRows } from './inputs.ts';
 
 /** Plain rows, shared by the Arrow table and the JSON output. */
-export function summaryColumns(points: readonly PointResult[], unit: string, sweptUnits: Readonly<Record<string, string>> = {}): ColumnSpec[] {
+export function summaryColumns(points: readonly PointRows[], unit: string, sweptUnits: Readonly<Record<string, string>> = {}): ColumnSpec[] {
   const rows = points.flatMap((p) => p.summaries.map((s, i) => ({ p, s, cal: p.calibrations[i]!, noise: p.noise[i] ?? null })));
   // noise budget columns: one σ and one share per source (noise/sensor helper)
   const sources = [...new Set(rows.flatMap((r) => r.noise?.sources.map((x) => x.name) ?? []))];
@@ -58,6 +58,6 @@ export function summaryColumns(points: readonly PointResult[], unit: string, swe
   ];
 }
 
-export function summaryTable(points: readonly PointResult[], unit: string, metadata: Map<string, string>, sweptUnits: Readonly<Record<string, string>> = {}): Table {
+export function summaryTable(points: readonly PointRows[], unit: string, metadata: Map<string, string>, sweptUnits: Readonly<Record<string, string>> = {}): Table {
   return buildTable(summaryColumns(points, unit, sweptUnits), metadata);
 }

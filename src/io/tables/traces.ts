@@ -22,14 +22,13 @@
  */
 import { Field, FixedSizeList, Float32, Float64, makeData, RecordBatch, Schema, Struct, Uint32 } from 'apache-arrow';
 import { attributeCause, CAUSE_NOISE, CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
-import type { ShotBatch } from '../../engine/trace/batch.ts';
-import type { PointResult } from '../../run/point-result.ts';
 import type { Scenario } from '../../scenario/types.ts';
 import { DEFAULT_CLASSIFIER } from '../../classify/registry.ts';
 import {
   dictionaryData, makeDictionaryColumn, nullableFloat64Data, uint32Data, unitField, type DictionaryColumn,
 } from '../arrow-columns.ts';
 import { META_PREFIX } from '../metadata.ts';
+import type { BatchRows, PointRows } from './inputs.ts';
 
 /** Column layout of traces.arrow (dictionaries fixed for the whole file). */
 export interface TracesLayout {
@@ -59,7 +58,7 @@ export interface StoredCalibration {
 }
 
 /** The stored calibrations of calibrated points. */
-export function storedCalibrations(points: readonly PointResult[]): StoredCalibration[] {
+export function storedCalibrations(points: readonly PointRows[]): StoredCalibration[] {
   return points.map((p) => ({
     point: p.index,
     pipelines: p.compiled.pipelines.map((c, i) => {
@@ -76,7 +75,7 @@ export function storedCalibrations(points: readonly PointResult[]): StoredCalibr
 /** The layout for `scenario` with the base metadata `metadata` and the points' calibrations. */
 export function tracesLayout(
   scenario: Scenario, kind: 'raw' | 'baseband', samples: number, metadata: Map<string, string>,
-  calibrated: readonly PointResult[],
+  calibrated: readonly PointRows[],
 ): TracesLayout {
   const unit = scenario.signal.unit;
   const states = makeDictionaryColumn(1, scenario.states.map((s) => s.name));
@@ -111,7 +110,7 @@ export function tracesLayout(
 }
 
 /** The record batch of one scored shot batch (which must carry `traces`). */
-export function traceRecordBatch(layout: TracesLayout, b: ShotBatch, outcomeOf: readonly number[]): RecordBatch {
+export function traceRecordBatch(layout: TracesLayout, b: BatchRows, outcomeOf: readonly number[]): RecordBatch {
   const traces = b.traces;
   if (!traces || traces.kind !== layout.kind || traces.samples !== layout.samples) {
     throw new Error(`batch ${b.batch} of point ${b.point} carries no ${layout.kind} traces of ${layout.samples} samples`);
