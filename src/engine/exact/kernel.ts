@@ -1,12 +1,14 @@
 /**
  * exact-fast.ts fastTallyBlock as WebAssembly, for the points it suits: those of fastTallyBlock
  * whose every jump ends the chain and whose signal has no analog response (the general chain
- * walk and the response's closed form stay in TypeScript). Two loops: one block (kernels.wat
- * tallyBlock), and four blocks side by side in SIMD lanes (tallyFour, through
- * tallyFourBlocks). Each block's tally is the same to the bit (test/plan/exact-fused.test.ts).
+ * walk and the response's closed form stay in TypeScript). Two loops: one block (tallyBlock,
+ * wasm/source/exact-one.ts), and four blocks side by side in SIMD lanes (tallyFour,
+ * wasm/source/four-lane.ts, through tallyFourBlocks). Each block's tally is the same to the bit
+ * (test/engine/exact-fused.test.ts).
  *
  * One instance per exact tables: their prefix sums are copied once into its memory; the
- * point's and pipeline's scalars are written once per batch (setScoring).
+ * point's and pipeline's scalars are written once per batch into their slots (setScoring,
+ * wasm/layout.ts).
  */
 import { CAUSES } from '../../analysis/causes.ts';
 import { momentsFromShiftedSums } from '../../analysis/moments.ts';
@@ -16,10 +18,8 @@ import { factorEntry, type ExactTables } from './batch.ts';
 import { finishTwoByTwo, singleJumpChain } from './fast.ts';
 import type { FusedPipeline } from './fused-scoring.ts';
 import type { HistoryTables } from '../../physics/history.ts';
-import { instantiateKernels, kernelsAvailable, LAYOUT, MAX_KERNEL_BYTES } from '../wasm/memory.ts';
-
-/** i32 results: sumState, sumOutcome, sumBoth, n0, n1, then causes[2·C], discarded[2], discardedWrong[2]. */
-const CAUSES_AT = 5, DISCARDED_AT = CAUSES_AT + 2 * CAUSES.length, DISCARDED_WRONG_AT = DISCARDED_AT + 2;
+import { f64Slot, i32Slot, LAYOUT, setSlot, type SlotName } from '../wasm/layout.ts';
+import { instantiateKernels, kernelsAvailable, MAX_KERNEL_BYTES } from '../wasm/memory.ts';
 
 /**
  * Whether the WebAssembly kernel handles a point fastTallyBlock handles (exact-fast.ts
@@ -65,23 +65,49 @@ export function uniformCut(holds: (u: number) => boolean, negate = false): Unifo
   return negate ? { cut: base.cut, flip: ~base.flip } : base;
 }
 
+/**
+ * A block's results as a kernel leaves them, one view per result slot: field i of lane k at
+ * [stride·i + k] — stride 1 and k = 0 for the one-block kernel, stride 4 and the block's lane k
+ * for the four-lane one (whose f64 slots hold a state's four lanes one after the other).
+ */
+interface Results {
+  sumState: Int32Array;
+  sumOutcome: Int32Array;
+  sumBoth: Int32Array;
+  cleanCount: Int32Array;
+  causes: Int32Array;
+  discarded: Int32Array;
+  discardedWrong: Int32Array;
+  cleanSum1: Float64Array;
+  cleanSum2: Float64Array;
+  cleanShift: Float64Array;
+}
+
+function resultViews(buffer: ArrayBuffer, four: boolean): Results {
+  const i = (one: SlotName, lanes: SlotName): Int32Array => i32Slot(buffer, four ? lanes : one);
+  const f = (one: SlotName, lanes: SlotName): Float64Array => f64Slot(buffer, four ? lanes : one);
+  return {
+    sumState: i('sumState', 'fourSumState'), sumOutcome: i('sumOutcome', 'fourSumOutcome'), sumBoth: i('sumBoth', 'fourSumBoth'),
+    cleanCount: i('cleanCount', 'fourCleanCount'), causes: i('causes', 'fourCauses'),
+    discarded: i('discarded', 'fourDiscarded'), discardedWrong: i('discardedWrong', 'fourDiscardedWrong'),
+    cleanSum1: f('cleanSum1', 'fourCleanSum1'), cleanSum2: f('cleanSum2', 'fourCleanSum2'), cleanShift: f('cleanShift', 'fourCleanShift'),
+  };
+}
+
 export class ExactKernel {
   /** The tables whose prefix sums the instance holds. */
   readonly tables: ExactTables;
   /** Streams for tallyFourBlocks' caller to position (one history stream and one normals lane per block). */
   readonly fourStreams: { streams: RandomStream[]; lanes: RandomStream[] };
+  private readonly buffer: ArrayBuffer;
   private readonly tallyBlockWasm: (len: number) => void;
   private readonly stream: Int32Array;
   private readonly lane: Int32Array;
-  private readonly f64: Float64Array;
-  private readonly i32: Int32Array;
-  private readonly f64Out: Float64Array;
-  private readonly i32Out: Int32Array;
+  private readonly one: Results;
   /** tallyFour's states (word-major: word j of block k at 4j + k) and results. */
-  private readonly quadStates: Int32Array;
-  private readonly quadI32: Int32Array;
-  private readonly quadF64: Float64Array;
-  private readonly quadParams: Int32Array;
+  private readonly quadStreams: Int32Array;
+  private readonly quadLanes: Int32Array;
+  private readonly four: Results;
   private readonly tallyFourWasm: (len: number) => void;
   /** The numbers tallyFour's parameters were last made from (NaN: never). */
   private readonly fourLaneKey = new Float64Array(13).fill(NaN);
@@ -91,55 +117,68 @@ export class ExactKernel {
     const placeholder = (): RandomStream => new RandomStream(Uint32Array.of(1, 0, 0, 0));
     this.fourStreams = { streams: [0, 1, 2, 3].map(placeholder), lanes: [0, 1, 2, 3].map(placeholder) };
     const { buffer, exports } = instantiateKernels(prefixBytes(t));
+    this.buffer = buffer;
     this.tallyBlockWasm = exports.tallyBlock as (len: number) => void;
-    this.stream = new Int32Array(buffer, LAYOUT.stream, 4);
-    this.lane = new Int32Array(buffer, LAYOUT.lane, 4);
-    this.f64 = new Float64Array(buffer, LAYOUT.f64Params, 24);
-    this.i32 = new Int32Array(buffer, LAYOUT.i32Params, 24);
-    this.f64Out = new Float64Array(buffer, LAYOUT.f64Results, 6);
-    this.i32Out = new Int32Array(buffer, LAYOUT.i32Results, DISCARDED_WRONG_AT + 2);
     this.tallyFourWasm = exports.tallyFour as (len: number) => void;
-    this.quadStates = new Int32Array(buffer, LAYOUT.quad, 32);
-    this.quadI32 = new Int32Array(buffer, LAYOUT.quad + 128, 4 * (DISCARDED_WRONG_AT + 2));
-    this.quadF64 = new Float64Array(buffer, LAYOUT.quad + 128 + 16 * (DISCARDED_WRONG_AT + 2), 4 * 6);
-    this.quadParams = new Int32Array(buffer, LAYOUT.quadParams, 4 * 20);
+    this.stream = i32Slot(buffer, 'stream');
+    this.lane = i32Slot(buffer, 'lane');
+    this.one = resultViews(buffer, false);
+    this.quadStreams = i32Slot(buffer, 'fourStreams');
+    this.quadLanes = i32Slot(buffer, 'fourLanes');
+    this.four = resultViews(buffer, true);
     let at: number = LAYOUT.arrays;
     // prefix[d·2 + s] for d = I (0) and Q (1), s = 0, 1, one after another (prefixBytes)
+    const offsets = [0, 0, 0, 0];
     for (let j = 0; j < 2 * t.outputs; j++) {
       const sums = t.prefix[j]!;
       new Float64Array(buffer, at, sums.length).set(sums);
-      this.i32[20 + j] = at;
+      offsets[j] = at;
       at += 8 * sums.length;
     }
+    setSlot(buffer, 'prefixI', offsets.slice(0, 2));
+    setSlot(buffer, 'prefixQ', offsets.slice(2, 4));
   }
 
   /**
-   * Writes the point's and pipeline's scalars into the instance's parameters (fastTallyBlock's
+   * Writes the point's and pipeline's scalars into the instance's slots (fastTallyBlock's
    * arguments less the streams); the blocks that follow use them.
    */
   setScoring(h: HistoryTables, s: FusedPipeline, outcomeOf: Uint8Array): void {
-    const t = this.tables, p = this.f64, q = this.i32;
+    const t = this.tables, b = this.buffer;
     const hasQ = t.outputs === 2;
-    p[0] = h.prepareCumulative[0]!;
-    p[1] = h.prepProbability[0]!; p[2] = h.prepProbability[1]!;
-    p[3] = h.mapProbability[0]!; p[4] = h.mapProbability[1]!;
-    p[5] = h.noJumpCut[0]!; p[6] = h.noJumpCut[1]!;
-    p[7] = h.exitRate[0]!; p[8] = h.exitRate[1]!;
-    p[9] = h.recordLength; p[10] = h.lastWindowSample;
+    const pair = (x: ArrayLike<number>): number[] => [x[0]!, x[1]!];
+    const factorQ1 = hasQ ? factorEntry(t, 1, 1) : 0;
+    setSlot(b, 'firstCut', [h.prepareCumulative[0]!]);
+    setSlot(b, 'prepProbability', pair(h.prepProbability));
+    setSlot(b, 'mapProbability', pair(h.mapProbability));
+    setSlot(b, 'noJumpCut', pair(h.noJumpCut));
+    setSlot(b, 'exitRate', pair(h.exitRate));
+    setSlot(b, 'recordLength', [h.recordLength]);
+    setSlot(b, 'lastWindowSample', [h.lastWindowSample]);
     // (lastSample null: the pipeline reads to the window's end, so no jump is after its last sample)
-    p[11] = s.lastSample ?? Infinity;
-    p[12] = t.sampleRate;
-    p[13] = t.full[0]!; p[14] = t.full[1]!;
-    p[15] = hasQ ? t.full[2]! : 0; p[16] = hasQ ? t.full[3]! : 0;
-    p[17] = factorEntry(t, 0, 0); p[18] = hasQ ? factorEntry(t, 1, 0) : 0; p[19] = hasQ ? factorEntry(t, 1, 1) : 0;
-    p[20] = s.cos; p[21] = s.sin; p[22] = s.threshold; p[23] = s.band;
-    q[0] = h.prepInto[0]!; q[1] = h.prepInto[1]!;
-    q[2] = h.mapInto[0]!; q[3] = h.mapInto[1]!;
-    for (let k = 0; k < 4; k++) q[4 + k] = h.jumpCause[k]!;
-    q[8] = outcomeOf[0]!; q[9] = outcomeOf[1]!;
-    q[10] = +h.anyPrep; q[11] = +h.anyMap; q[12] = +hasQ; q[13] = +(p[19] !== 0);
-    q[14] = t.columns.length; q[15] = s.highIsOne ? 0 : 1;
-    q[16] = t.lo[0]!; q[17] = t.hi[0]!; q[18] = hasQ ? t.lo[1]! : 0; q[19] = hasQ ? t.hi[1]! : 0;
+    setSlot(b, 'lastSample', [s.lastSample ?? Infinity]);
+    setSlot(b, 'sampleRate', [t.sampleRate]);
+    setSlot(b, 'fullI', [t.full[0]!, t.full[1]!]);
+    setSlot(b, 'fullQ', hasQ ? [t.full[2]!, t.full[3]!] : [0, 0]);
+    setSlot(b, 'factorI0', [factorEntry(t, 0, 0)]);
+    setSlot(b, 'factorQ0', [hasQ ? factorEntry(t, 1, 0) : 0]);
+    setSlot(b, 'factorQ1', [factorQ1]);
+    setSlot(b, 'cos', [s.cos]);
+    setSlot(b, 'sin', [s.sin]);
+    setSlot(b, 'threshold', [s.threshold]);
+    setSlot(b, 'band', [s.band]);
+    setSlot(b, 'prepInto', pair(h.prepInto));
+    setSlot(b, 'mapInto', pair(h.mapInto));
+    setSlot(b, 'jumpCause', Array.from(h.jumpCause.subarray(0, 4)));
+    setSlot(b, 'outcomeOf', pair(outcomeOf));
+    setSlot(b, 'anyPrep', [+h.anyPrep]);
+    setSlot(b, 'anyMap', [+h.anyMap]);
+    setSlot(b, 'hasQ', [+hasQ]);
+    setSlot(b, 'qTwoTerms', [+(factorQ1 !== 0)]);
+    setSlot(b, 'columns', [t.columns.length]);
+    setSlot(b, 'flip', [s.highIsOne ? 0 : 1]);
+    setSlot(b, 'windowI', [t.lo[0]!, t.hi[0]!]);
+    setSlot(b, 'windowQ', hasQ ? [t.lo[1]!, t.hi[1]!] : [0, 0]);
     this.setFourLaneParams(h, outcomeOf);
   }
 
@@ -154,21 +193,23 @@ export class ExactKernel {
       h.noJumpCut[0]!, h.noJumpCut[1]!, outcomeOf[0]!, outcomeOf[1]!, h.prepInto[0]!, h.prepInto[1]!, h.mapInto[0]!, h.mapInto[1]!];
     if (now.every((x, i) => Object.is(x, key[i]))) return;
     key.set(now);
-    const c = this.quadParams;
-    const put = (at: number, x: number): void => { c.fill(x, 4 * at, 4 * at + 4); };
-    const putCuts = (at: number, cuts: readonly UniformCut[]): void => {
-      for (let st = 0; st < cuts.length; st++) { put(at + st, cuts[st]!.cut); put(at + cuts.length + st, cuts[st]!.flip); }
+    // per state s, vector s of the slot with x in its four lanes
+    const put = (name: SlotName, perState: readonly number[]): void => {
+      const v = i32Slot(this.buffer, name);
+      perState.forEach((x, st) => v.fill(x, 4 * st, 4 * st + 4));
+    };
+    const putCuts = (cutName: SlotName, flipName: SlotName, cuts: readonly UniformCut[]): void => {
+      put(cutName, cuts.map((c) => c.cut));
+      put(flipName, cuts.map((c) => c.flip));
     };
     const [firstCut, prep0, prep1, map0, map1, jump0, jump1] = now as [number, number, number, number, number, number, number];
-    putCuts(0, [uniformCut((u) => u > firstCut)]);
-    putCuts(2, [prep0, prep1].map((p) => uniformCut((u) => !(u < p), true)));
-    putCuts(6, [map0, map1].map((p) => uniformCut((u) => !(u < p), true)));
-    putCuts(10, [jump0, jump1].map((cut) => uniformCut((u) => u >= cut)));
-    for (let st = 0; st < 2; st++) {
-      put(14 + st, -outcomeOf[st]!);
-      put(16 + st, -h.prepInto[st]!);
-      put(18 + st, -h.mapInto[st]!);
-    }
+    putCuts('fourFirstCut', 'fourFirstFlip', [uniformCut((u) => u > firstCut)]);
+    putCuts('fourPrepCut', 'fourPrepFlip', [prep0, prep1].map((p) => uniformCut((u) => !(u < p), true)));
+    putCuts('fourMapCut', 'fourMapFlip', [map0, map1].map((p) => uniformCut((u) => !(u < p), true)));
+    putCuts('fourJumpCut', 'fourJumpFlip', [jump0, jump1].map((cut) => uniformCut((u) => u >= cut)));
+    put('fourOutcomeMask', [-outcomeOf[0]!, -outcomeOf[1]!]);
+    put('fourPrepIntoMask', [-h.prepInto[0]!, -h.prepInto[1]!]);
+    put('fourMapIntoMask', [-h.mapInto[0]!, -h.mapInto[1]!]);
   }
 
   /**
@@ -176,13 +217,13 @@ export class ExactKernel {
    * the scalars of the last setScoring: histories from `stream`, normals from `lane`.
    */
   tallyBlock(stream: RandomStream, lane: RandomStream, len: number, leaf: Tally): void {
-    this.i32Out.fill(0);
+    clearCounts(this.one);
     this.stream.set(stream.s);
     this.lane.set(lane.s);
     this.tallyBlockWasm(len);
     stream.s.set(this.stream);
     lane.s.set(this.lane);
-    writeLeaf(leaf, len, this.i32Out, this.f64Out, 1, 0);
+    writeLeaf(leaf, len, this.one, 1, 0);
   }
 
   /**
@@ -191,39 +232,43 @@ export class ExactKernel {
    * `lanes[k]`, its tally into `leaves[k]` (every field is written, so they may be reused).
    */
   tallyFourBlocks(streams: readonly RandomStream[], lanes: readonly RandomStream[], len: number, leaves: readonly Tally[]): void {
-    const st = this.quadStates, r = this.quadI32, m = this.quadF64;
+    const st = this.quadStreams, ln = this.quadLanes;
     for (let k = 0; k < 4; k++) {
       for (let j = 0; j < 4; j++) {
         st[4 * j + k] = streams[k]!.s[j]!;
-        st[16 + 4 * j + k] = lanes[k]!.s[j]!;
+        ln[4 * j + k] = lanes[k]!.s[j]!;
       }
     }
-    r.fill(0);
+    clearCounts(this.four);
     this.tallyFourWasm(len);
     for (let k = 0; k < 4; k++) {
       for (let j = 0; j < 4; j++) {
         streams[k]!.s[j] = st[4 * j + k]!;
-        lanes[k]!.s[j] = st[16 + 4 * j + k]!;
+        lanes[k]!.s[j] = ln[4 * j + k]!;
       }
-      writeLeaf(leaves[k]!, len, r, m, 4, k);
+      writeLeaf(leaves[k]!, len, this.four, 4, k);
     }
   }
 }
 
-/**
- * A block's tally from the kernel's results: field f of the i32 results (sumState, sumOutcome,
- * sumBoth, n0, n1, causes, discarded, discardedWrong) at ints[stride·f + k], and of the f64
- * results (s10, s11, s20, s21, shift0, shift1) at floats[stride·f + k] — stride 1 for
- * tallyBlock's, 4 and the block's lane k for tallyFour's.
- */
-function writeLeaf(leaf: Tally, len: number, ints: Int32Array, floats: Float64Array, stride: number, k: number): void {
+/** Zeroes the counts a kernel adds to in memory (the others it writes at the end). */
+function clearCounts(r: Results): void {
+  r.causes.fill(0);
+  r.discarded.fill(0);
+  r.discardedWrong.fill(0);
+}
+
+/** A block's tally from the kernel's results (see Results: stride 1 or 4, lane k). */
+function writeLeaf(leaf: Tally, len: number, r: Results, stride: number, k: number): void {
   // (indexing inline: a closure per block costs a __name call under tsx, DEVELOPERS.md)
-  for (let c = 0; c < 2 * CAUSES.length; c++) leaf.causes[c] = ints[stride * (CAUSES_AT + c) + k]!;
+  for (let c = 0; c < 2 * CAUSES.length; c++) leaf.causes[c] = r.causes[stride * c + k]!;
   for (let st = 0; st < 2; st++) {
-    leaf.discarded[st] = ints[stride * (DISCARDED_AT + st) + k]!;
-    leaf.discardedWrong[st] = ints[stride * (DISCARDED_WRONG_AT + st) + k]!;
+    leaf.discarded[st] = r.discarded[stride * st + k]!;
+    leaf.discardedWrong[st] = r.discardedWrong[stride * st + k]!;
   }
-  finishTwoByTwo(leaf, len, ints[k]!, ints[stride + k]!, ints[2 * stride + k]!);
-  leaf.clean[0] = momentsFromShiftedSums(ints[3 * stride + k]!, floats[4 * stride + k]!, floats[k]!, floats[2 * stride + k]!);
-  leaf.clean[1] = momentsFromShiftedSums(ints[4 * stride + k]!, floats[5 * stride + k]!, floats[stride + k]!, floats[3 * stride + k]!);
+  finishTwoByTwo(leaf, len, r.sumState[k]!, r.sumOutcome[k]!, r.sumBoth[k]!);
+  for (let st = 0; st < 2; st++) {
+    const i = stride * st + k;
+    leaf.clean[st] = momentsFromShiftedSums(r.cleanCount[i]!, r.cleanShift[i]!, r.cleanSum1[i]!, r.cleanSum2[i]!);
+  }
 }

@@ -1,0 +1,35 @@
+/**
+ * The WebAssembly kernels' text, generated from the templates in this folder and the memory
+ * layout (layout.ts): `npm run build:wasm` compiles it into kernels-wasm.ts, and a test compiles
+ * it again to check that the committed binary is current.
+ *
+ * The module holds the simulator's two hot loops and the ziggurat they share:
+ *   - the trace engine's per-sample loops (record.ts; record-loops.ts RecordKernel);
+ *   - the exact engine's kernel for the common point whose every jump ends the chain and whose
+ *     signal has no analog response, on one block (exact-one.ts) and on four blocks at once in
+ *     SIMD lanes (four-lane.ts, four-lane-tally.ts, four-rare.ts; exact/kernel.ts).
+ * Each does the arithmetic of its TypeScript counterpart in the same order, with Math.exp and
+ * Math.log imported, so the numbers are the same to the bit.
+ */
+import { LAYOUT, type Layout } from '../layout.ts';
+import { sharedExactFunctions, tallyBlockFunction } from './exact-one.ts';
+import { rareLaneFunctions } from './four-rare.ts';
+import { tallyFourFunction } from './four-lane.ts';
+import { recordFunctions } from './record.ts';
+import { nextAndUniform } from './xoshiro.ts';
+import { zigguratFunctions } from './ziggurat.ts';
+
+/** The module's WebAssembly text for a memory layout (the kernels' own by default). */
+export function kernelsWat(layout: Layout = LAYOUT): string {
+  const slots = layout.slots.map((s) => `;;   ${String(s.offset).padStart(5)}  ${s.name}: ${s.type} × ${s.length}`).join('\n');
+  return `;; Generated from src/engine/wasm/source/*.ts (npm run build:wasm); the templates are the source.
+;; Memory (imported; offsets in bytes, from src/engine/wasm/layout.ts):
+${slots}
+;;   ${String(layout.arrays).padStart(5)}… arrays (waveforms, kernels and record; or prefix sums)
+(module
+  (import "env" "memory" (memory 1))
+  (import "env" "exp" (func $exp (param f64) (result f64)))
+  (import "env" "log" (func $log (param f64) (result f64)))
+${nextAndUniform()}${zigguratFunctions(layout)}${recordFunctions(layout)}${sharedExactFunctions()}${tallyBlockFunction(layout)}${rareLaneFunctions(layout)}${tallyFourFunction(layout)})
+`;
+}
