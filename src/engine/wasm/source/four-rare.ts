@@ -61,9 +61,9 @@ export function rareLaneFunctions(L: Layout): string {
     (local.set $initial (i32.and (i32.load offset=${a.fourInitial} (local.get $at)) (i32.const 1)))
     (local.set $jc (i32.load offset=${a.fourJumpCauses} (local.get $at)))
     (local.set $cause (call $causeOf (local.get $intended) (local.get $prepared) (local.get $initial) (local.get $jc)))
-    ;; vector (fourCauses − fourSumState)/16 + CAUSES.length·intended + cause from fourSumState
+    ;; lane k of vector CAUSES.length·intended + cause
     (local.set $at (i32.add (local.get $at)
-      (i32.shl (i32.add (i32.const ${(a.fourCauses - a.fourSumState) / 16}) (i32.add ${timesConst('(local.get $intended)', CAUSES.length)} (local.get $cause))) (i32.const 4))))
-    (i32.store offset=${a.fourSumState} (local.get $at) (i32.add (i32.load offset=${a.fourSumState} (local.get $at)) (i32.const 1))))
+      (i32.shl (i32.add ${timesConst('(local.get $intended)', CAUSES.length)} (local.get $cause)) (i32.const 4))))
+    (i32.store offset=${a.fourCauses} (local.get $at) (i32.add (i32.load offset=${a.fourCauses} (local.get $at)) (i32.const 1))))
 `;
 }

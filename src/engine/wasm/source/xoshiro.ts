@@ -66,8 +66,6 @@ export interface StepOptions {
   output?: string;
   /** A local for the output's rotate without a rotate instruction. */
   scratch?: string;
-  /** The order of the four writes (in locals, word 2 must be written before word 1 is). */
-  order?: readonly number[];
 }
 
 /** The xoshiro128** output of the state (computed from word 1 before the step). */
@@ -91,7 +89,8 @@ export function xoshiroStep(o: StepOptions): string {
     `(${isa.xor} ${get(n2)} (${isa.shl} ${s1} (i32.const 9)))`,
     rotate(isa, get(n3), 11),
   ];
-  for (const j of o.order ?? [2, 1, 0, 3]) {
+  // word 2 before word 1, whose old value it reads (the words may be the locals themselves)
+  for (const j of [2, 1, 0, 3]) {
     lines.push(o.store ? o.store(j, next[j]!) : `(local.set ${words[j]} ${next[j]})`);
   }
   if (o.output === 'value') {
@@ -117,7 +116,7 @@ export function nextAndUniform(): string {
   (func $next (param $st i32) (result i32)
     (local $s0 i32) (local $s1 i32) (local $s2 i32) (local $s3 i32) (local $n2 i32) (local $n3 i32)
     ${xoshiroStep({
-      isa: SCALAR, words: ['$s0', '$s1', '$s2', '$s3'], temps: ['$n2', '$n3'], output: 'value', order: [1, 0, 2, 3],
+      isa: SCALAR, words: ['$s0', '$s1', '$s2', '$s3'], temps: ['$n2', '$n3'], output: 'value',
       load: (j, into) => `(local.set ${into} (i32.load${at(j)} (local.get $st)))`,
       store: (j, value) => `(i32.store${at(j)} (local.get $st) ${value})`,
     })})
