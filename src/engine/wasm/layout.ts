@@ -3,7 +3,10 @@
  * its arrays is a named slot here, with its type and length. The WAT generator
  * (source/module.ts) and the TypeScript callers (memory.ts, record-loops.ts, exact/kernel.ts)
  * both take their offsets from this one definition, and the module exports each slot's offset
- * so that a stale binary is caught at load (memory.ts checkLayout).
+ * (slotExportName) so that a stale binary is caught at load (memory.ts checkLayout).
+ *
+ * To add a slot: add a line to SLOT_SPECS, use it by name on both sides (`L.at.name` in a
+ * template; i32Slot, f64Slot or setSlot in TypeScript), and run `npm run build:wasm`.
  *
  * Slots are placed one after the other in the order listed, each aligned to its element size
  * (i32: 4, f64: 8, v128: 16 bytes), unless `at` pins it. The arrays (waveforms, kernels and
@@ -185,6 +188,17 @@ export function makeLayout(specs: readonly SlotSpec[]): Layout {
 
 /** The kernels' layout. */
 export const LAYOUT: Layout = makeLayout(SLOT_SPECS);
+
+/**
+ * The name of the module's export that carries a slot's offset (an i32 global): its name, type
+ * and length, so that a slot that changed anything but its offset is missing from a stale module.
+ */
+export function slotExportName(s: SlotSpec): string {
+  return `slot:${s.name}:${s.type}:${s.length}`;
+}
+
+/** The prefix of every slot export. */
+export const SLOT_EXPORT_PREFIX = 'slot:';
 
 function slotOf(layout: Layout, name: SlotName): Slot {
   return layout.slots.find((s) => s.name === name)!;

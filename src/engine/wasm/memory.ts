@@ -5,7 +5,7 @@
  */
 import { ZIGGURAT } from '../../random/ziggurat.ts';
 import { WASM_BYTES } from './kernels-wasm.ts';
-import { f64Slot, i32Slot, LAYOUT } from './layout.ts';
+import { f64Slot, i32Slot, LAYOUT, SLOT_EXPORT_PREFIX, slotExportName, type Layout } from './layout.ts';
 
 const PAGE = 65536;
 /**
@@ -27,6 +27,31 @@ export function kernelsAvailable(): boolean {
 }
 let compiled: WebAssembly.Module | null = null;
 
+/**
+ * Checks a module instance's slot offsets (its `slot:…` global exports, source/module.ts)
+ * against a layout: every slot of the layout, with the same name, type and length, at the same
+ * offset, and no other. A mismatch means that kernels-wasm.ts was built from another layout
+ * than layout.ts — an internal error, fixed by `npm run build:wasm`.
+ */
+export function checkLayout(exports: Record<string, unknown>, layout: Layout = LAYOUT): void {
+  const problems: string[] = [];
+  const unseen = new Set(Object.keys(exports).filter((k) => k.startsWith(SLOT_EXPORT_PREFIX)));
+  for (const s of layout.slots) {
+    const name = slotExportName(s);
+    const offset = (exports[name] as WebAssembly.Global | undefined)?.value;
+    unseen.delete(name);
+    if (offset === undefined) problems.push(`it has no slot ${s.name} of ${s.type} × ${s.length}`);
+    else if (offset !== s.offset) problems.push(`its slot ${s.name} is at byte ${offset}, the layout's at ${s.offset}`);
+  }
+  for (const name of unseen) problems.push(`it has a slot the layout lacks (${name.slice(SLOT_EXPORT_PREFIX.length)})`);
+  if (problems.length > 0) {
+    throw new Error(`internal error: the compiled WebAssembly kernels (src/engine/wasm/kernels-wasm.ts) do not match the memory `
+      + `layout (src/engine/wasm/layout.ts): ${problems.slice(0, 3).join('; ')}${problems.length > 3 ? `; and ${problems.length - 3} more` : ''}. `
+      + 'Run `npm run build:wasm`.');
+  }
+}
+let checked = false;
+
 export interface KernelInstance {
   buffer: ArrayBuffer;
   exports: Record<string, unknown>;
@@ -45,5 +70,9 @@ export function instantiateKernels(arrayBytes: number): KernelInstance {
   compiled ??= new WebAssembly.Module(WASM_BYTES);
   // Math.exp and Math.log themselves, so that the rejection branch's numbers are the TypeScript ones
   const instance = new WebAssembly.Instance(compiled, { env: { memory, exp: Math.exp, log: Math.log } });
+  if (!checked) {
+    checkLayout(instance.exports);
+    checked = true;
+  }
   return { buffer, exports: instance.exports };
 }

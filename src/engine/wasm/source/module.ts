@@ -11,7 +11,7 @@
  * Each does the arithmetic of its TypeScript counterpart in the same order, with Math.exp and
  * Math.log imported, so the numbers are the same to the bit.
  */
-import { LAYOUT, type Layout } from '../layout.ts';
+import { LAYOUT, slotExportName, type Layout } from '../layout.ts';
 import { sharedExactFunctions, tallyBlockFunction } from './exact-one.ts';
 import { rareLaneFunctions } from './four-rare.ts';
 import { tallyFourFunction } from './four-lane.ts';
@@ -30,6 +30,17 @@ ${slots}
   (import "env" "memory" (memory 1))
   (import "env" "exp" (func $exp (param f64) (result f64)))
   (import "env" "log" (func $log (param f64) (result f64)))
+${slotGlobals(layout)}
 ${nextAndUniform()}${zigguratFunctions(layout)}${recordFunctions(layout)}${sharedExactFunctions()}${tallyBlockFunction(layout)}${rareLaneFunctions(layout)}${tallyFourFunction(layout)})
 `;
+}
+
+/**
+ * Each slot's offset as an exported i32 global named after the slot, its type and its length
+ * (layout.ts slotExportName), which memory.ts checkLayout compares with the layout at load.
+ * One global per slot rather than one checksum of the layout: a stale module then says which
+ * slot moved or changed, not only that something did.
+ */
+function slotGlobals(layout: Layout): string {
+  return layout.slots.map((s) => `  (global (export "${slotExportName(s)}") i32 (i32.const ${s.offset}))`).join('\n');
 }
