@@ -16,16 +16,51 @@ export function transitionCause(kind: 'relaxation' | 'excitation' | 'leakage'): 
   return kind === 'relaxation' ? CAUSE_RELAXATION : kind === 'excitation' ? CAUSE_EXCITATION : CAUSE_LEAKAGE;
 }
 
+/** A shot's state along its history, in the order the history is drawn. */
+export type HistoryStage = 'intended' | 'prepared' | 'initial';
+
+/** A rule's cause that is not a fixed code: the first jump's own cause. */
+export const FIRST_JUMP_CAUSE = -1;
+
+/** One rule of the precedence: when it holds, the shot's cause. */
+export interface CauseRule {
+  /** 'differs': the shot's `stage` state is not its `from` state; 'jumped': the chain jumped before the window ended. */
+  readonly when: 'differs' | 'jumped';
+  readonly stage?: HistoryStage;
+  readonly from?: HistoryStage;
+  /** A cause code, or FIRST_JUMP_CAUSE. */
+  readonly cause: number;
+}
+
 /**
- * The cause of a wrong shot, by precedence along the shot's history: a preparation error comes
- * first, then a mapping error, then the first jump of the chain before the window ends, and
- * otherwise noise alone.
+ * The precedence of causes for a wrong shot, along the shot's history: the first rule that
+ * holds names the cause — a preparation error first, then a mapping error, then the first jump
+ * of the chain before the window ends — and otherwise noise alone. The one statement of it:
+ * `attributeCause` reads it, and the WebAssembly kernels' cause function is generated from it
+ * (engine/wasm/source/causes.ts).
  */
+export const CAUSE_PRECEDENCE: { readonly rules: readonly CauseRule[]; readonly otherwise: number } = {
+  rules: [
+    { when: 'differs', stage: 'prepared', from: 'intended', cause: CAUSE_PREPARATION },
+    { when: 'differs', stage: 'initial', from: 'prepared', cause: CAUSE_MAPPING },
+    { when: 'jumped', cause: FIRST_JUMP_CAUSE },
+  ],
+  otherwise: CAUSE_NOISE,
+};
+
+function stateAt(stage: HistoryStage | undefined, intended: number, prepared: number, initial: number): number {
+  return stage === 'intended' ? intended : stage === 'prepared' ? prepared : initial;
+}
+
+/** The cause of a wrong shot, by CAUSE_PRECEDENCE. */
 export function attributeCause(
   intended: number, prepared: number, initial: number, jumpedBeforeWindowEnd: boolean, firstJumpCause: number,
 ): number {
-  if (prepared !== intended) return CAUSE_PREPARATION;
-  if (initial !== prepared) return CAUSE_MAPPING;
-  if (jumpedBeforeWindowEnd) return firstJumpCause;
-  return CAUSE_NOISE;
+  for (const rule of CAUSE_PRECEDENCE.rules) {
+    const holds = rule.when === 'jumped'
+      ? jumpedBeforeWindowEnd
+      : stateAt(rule.stage, intended, prepared, initial) !== stateAt(rule.from, intended, prepared, initial);
+    if (holds) return rule.cause === FIRST_JUMP_CAUSE ? firstJumpCause : rule.cause;
+  }
+  return CAUSE_PRECEDENCE.otherwise;
 }

@@ -10,7 +10,7 @@
  * the bit (test/plan/exact-fused.test.ts); only the order of work between the two streams
  * differs, which no number depends on.
  */
-import { CAUSE_MAPPING, CAUSE_NOISE, CAUSE_NONE, CAUSE_PREPARATION, CAUSES } from '../../analysis/causes.ts';
+import { attributeCause, CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
 import { momentsFromShiftedSums } from '../../analysis/moments.ts';
 import type { Tally } from '../../analysis/tally.ts';
 import { normalSlowPath, type RandomStream } from '../../random/stream.ts';
@@ -165,7 +165,7 @@ export function fastTallyBlock(
     sumState += intended; sumOutcome += outcome; sumBoth += intended & outcome;
     let cause = CAUSE_NONE;
     if (outcome !== outcomeOf[intended]) {
-      cause = prepared !== intended ? CAUSE_PREPARATION : initial !== prepared ? CAUSE_MAPPING : jc !== 0 ? jc : CAUSE_NOISE;
+      cause = attributeCause(intended, prepared, initial, jc !== 0, jc);
       causes[intended * nCauses + cause]!++;
     }
     if (band >= 0 && Math.abs(v - threshold) < band) {

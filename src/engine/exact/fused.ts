@@ -9,7 +9,7 @@
  * and the run's tables do not change (test/plan/exact-fused.test.ts); only the per-shot arrays
  * are never made, and a worker sends back a few hundred bytes per batch instead of ~60 per shot.
  */
-import { CAUSE_MAPPING, CAUSE_NOISE, CAUSE_NONE, CAUSE_PREPARATION, CAUSES } from '../../analysis/causes.ts';
+import { attributeCause, CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
 import { emptyTally, type Tally } from '../../analysis/tally.ts';
 import { pushNode, type TallyNode } from '../../analysis/tally-tree.ts';
 import { addDisagreements } from '../../analysis/compare.ts';
@@ -217,7 +217,7 @@ function tallyBlock(
     }
     let cause = CAUSE_NONE;
     if (outcome !== outcomeOf[intended]) {
-      cause = prepared !== intended ? CAUSE_PREPARATION : initial !== prepared ? CAUSE_MAPPING : jc !== 0 ? jc : CAUSE_NOISE;
+      cause = attributeCause(intended, prepared, initial, jc !== 0, jc);
       causes[intended * nCauses + cause]!++;
     }
     wrong[i] = cause;

@@ -1,10 +1,10 @@
 /**
  * The exact engine's one-loop kernel on one seeding block as WebAssembly text (exact/fast.ts
  * fastTallyBlock, for points whose every jump ends the chain and whose signal has no analog
- * response), and the helpers the four-lane kernel shares with it: the cause of a wrong shot
- * ($causeOf) and the path's value for one jump ($oneJump).
+ * response), and the helpers the four-lane kernel shares with it: the path's value for one jump
+ * ($oneJump) and the first jump's cause.
  */
-import { CAUSE_MAPPING, CAUSE_NOISE, CAUSE_PREPARATION, CAUSES } from '../../../analysis/causes.ts';
+import { CAUSES } from '../../../analysis/causes.ts';
 import type { Layout } from '../layout.ts';
 import { loadWords, storeWords } from './record.ts';
 import { stepLocals, uniformOf } from './xoshiro.ts';
@@ -18,15 +18,6 @@ export function timesConst(x: string, c: number): string {
 
 export function sharedExactFunctions(): string {
   return `
-  ;; the cause of a wrong shot (analysis/causes.ts's precedence): preparation, mapping, else its
-  ;; first jump's cause if any, else noise
-  (func $causeOf (param $intended i32) (param $prepared i32) (param $initial i32) (param $jc i32) (result i32)
-    (if (result i32) (i32.ne (local.get $prepared) (local.get $intended))
-      (then (i32.const ${CAUSE_PREPARATION}))
-      (else (if (result i32) (i32.ne (local.get $initial) (local.get $prepared))
-        (then (i32.const ${CAUSE_MAPPING}))
-        (else (select (local.get $jc) (i32.const ${CAUSE_NOISE}) (local.get $jc)))))))
-
   ;; the path's value for one jump switching at sample \`switchAt\` from the state with prefix
   ;; sums at \`from\` to the one with \`to\` (exact/batch.ts pathValue, in the same operations)
   (func $oneJump (param $from i32) (param $to i32) (param $lo i32) (param $hi i32) (param $switchAt f64) (result f64)

@@ -12,6 +12,7 @@
  * Math.log imported, so the numbers are the same to the bit.
  */
 import { LAYOUT, slotExportName, type Layout } from '../layout.ts';
+import { causeFunction } from './causes.ts';
 import { sharedExactFunctions, tallyBlockFunction } from './exact-one.ts';
 import { rareLaneFunctions } from './four-rare.ts';
 import { tallyFourFunction } from './four-lane.ts';
@@ -31,7 +32,7 @@ ${slots}
   (import "env" "exp" (func $exp (param f64) (result f64)))
   (import "env" "log" (func $log (param f64) (result f64)))
 ${slotGlobals(layout)}
-${nextAndUniform()}${zigguratFunctions(layout)}${recordFunctions(layout)}${sharedExactFunctions()}${tallyBlockFunction(layout)}${rareLaneFunctions(layout)}${tallyFourFunction(layout)})
+${nextAndUniform()}${zigguratFunctions(layout)}${recordFunctions(layout)}${causeFunction()}${sharedExactFunctions()}${tallyBlockFunction(layout)}${rareLaneFunctions(layout)}${tallyFourFunction(layout)})
 `;
 }
 
