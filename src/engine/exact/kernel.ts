@@ -1,33 +1,52 @@
 /**
- * exact-fast.ts fastTallyBlock as WebAssembly, for the points it suits: those of fastTallyBlock
- * whose every jump ends the chain and whose signal has no analog response (the general chain
- * walk and the response's closed form stay in TypeScript). Two loops: one block (tallyBlock,
- * wasm/source/exact-one.ts), and four blocks side by side in SIMD lanes (tallyFour,
- * wasm/source/four-lane.ts, through tallyFourBlocks). Each block's tally is the same to the bit
+ * The exact engine's WebAssembly kernel (wasm/source/four-lane.ts tallyFour, through
+ * tallyFourBlocks): simulation, scoring and tallying of four seeding blocks side by side in SIMD
+ * lanes, for the common point — two states, two outcomes, one pipeline (I, or I and Q), at most
+ * two nonzero Cholesky columns, no 1/f noise, no analog response, and every jump the last of
+ * its chain. Each block's tally is, to the bit, the one the TypeScript path of fused.ts
+ * (sampleHistories, blockValues, tallyBlock) makes, which stays the reference
  * (test/engine/exact-fused.test.ts).
  *
  * One instance per exact tables: their prefix sums are copied once into its memory; the
  * point's and pipeline's scalars are written once per batch into their slots (setScoring,
  * wasm/layout.ts).
  */
-import { CAUSES } from '../../analysis/causes.ts';
+import { CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
 import { momentsFromShiftedSums } from '../../analysis/moments.ts';
 import type { Tally } from '../../analysis/tally.ts';
 import { RandomStream } from '../../random/stream.ts';
 import { factorEntry, type ExactTables } from './batch.ts';
-import { finishTwoByTwo, singleJumpChain } from './fast.ts';
+import type { CompiledPoint } from '../compile-point.ts';
 import type { FusedPipeline } from './fused-scoring.ts';
 import type { HistoryTables } from '../../physics/history.ts';
 import { f64Slot, i32Slot, LAYOUT, setSlot, type SlotName } from '../wasm/layout.ts';
 import { instantiateKernels, kernelsAvailable, MAX_KERNEL_BYTES } from '../wasm/memory.ts';
 
 /**
- * Whether the WebAssembly kernel handles a point fastTallyBlock handles (exact-fast.ts
- * fastKernelApplies): no analog response, every jump the last, prefix sums that fit, and
- * WebAssembly available.
+ * Whether the WebAssembly kernel handles a point (see the file comment): its shape, every jump
+ * the last (singleJumpChain), no analog response, prefix sums that fit in a WebAssembly memory,
+ * and WebAssembly with SIMD available on this thread.
  */
-export function exactKernelApplies(t: ExactTables, h: HistoryTables): boolean {
-  return kernelsAvailable() && t.response === null && singleJumpChain(h) && prefixBytes(t) <= MAX_KERNEL_BYTES;
+export function exactKernelApplies(point: CompiledPoint, t: ExactTables, h: HistoryTables, pipelines: number, outcomes: number): boolean {
+  return point.noise.flicker === null && h.states === 2 && outcomes === 2 && pipelines === 1
+    && t.outputs >= 1 && t.outputs <= 2 && t.columns.length <= 2
+    && t.response === null && singleJumpChain(h) && prefixBytes(t) <= MAX_KERNEL_BYTES && kernelsAvailable();
+}
+
+/**
+ * Whether, in a two-state chain, every jump is the last: each state that can leave goes to the
+ * other with certainty (the row's cumulative probabilities), and that one cannot leave.
+ */
+export function singleJumpChain(h: HistoryTables): boolean {
+  for (let s = 0; s < 2; s++) {
+    if (!(h.exitRate[s]! > 0)) continue;
+    const other = 1 - s;
+    if (h.exitRate[other]! > 0) return false;
+    // walkChain's destination search: next = 0 when the uniform ≤ cumulative[row], else 1
+    const toFirst = h.cumulative[s * 2]!;
+    if (other === 0 ? toFirst < 1 : toFirst !== 0) return false;
+  }
+  return true;
 }
 
 /** Bytes of the prefix sums the kernel holds: prefix[d·2 + s] for I and Q (d < outputs), s = 0, 1. */
@@ -35,11 +54,26 @@ function prefixBytes(t: ExactTables): number {
   return t.prefix.slice(0, 2 * t.outputs).reduce((n, p) => n + 8 * p.length, 0);
 }
 
+/**
+ * The assignments of a two-state, two-outcome block from three sums (intended = 1, outcome = 1,
+ * both), and the correct shots per state (all shots less the wrong ones by cause).
+ */
+export function finishTwoByTwo(leaf: Tally, len: number, sumState: number, sumOutcome: number, sumBoth: number): void {
+  const a = leaf.assignments, causes = leaf.causes, nCauses = CAUSES.length;
+  a[3] = sumBoth; a[2] = sumState - sumBoth; a[1] = sumOutcome - sumBoth;
+  a[0] = len - sumState - sumOutcome + sumBoth;
+  for (let st = 0; st < 2; st++) {
+    let wrong = 0;
+    for (let k = 1; k < nCauses; k++) wrong += causes[st * nCauses + k]!;
+    causes[st * nCauses + CAUSE_NONE] = a[st * 2]! + a[st * 2 + 1]! - wrong;
+  }
+}
+
 /** 2^-32: the scale of RandomStream.nextDouble's uniform (r + 0.5)·2^-32. */
 const INV_TWO_POW_32 = 1 / 4294967296;
 
 /**
- * A decision on a uniform u = (r + 0.5)·2^-32 of a 32-bit output r, as tallyFour makes it on r
+ * A decision on a uniform u = (r + 0.5)·2^-32 of a 32-bit output r, as the kernel makes it on r
  * itself: the decision holds exactly when (r ≥ cut, unsigned) XOR flip (flip 0 or −1).
  */
 export interface UniformCut {
@@ -66,9 +100,8 @@ export function uniformCut(holds: (u: number) => boolean, negate = false): Unifo
 }
 
 /**
- * A block's results as a kernel leaves them, one view per result slot: field i of lane k at
- * [stride·i + k] — stride 1 and k = 0 for the one-block kernel, stride 4 and the block's lane k
- * for the four-lane one (whose f64 slots hold a state's four lanes one after the other).
+ * The four blocks' results as the kernel leaves them, one view per result slot: field i of
+ * block k at [4i + k] (the f64 slots hold a state's four lanes one after the other).
  */
 interface Results {
   sumState: Int32Array;
@@ -83,33 +116,18 @@ interface Results {
   cleanShift: Float64Array;
 }
 
-function resultViews(buffer: ArrayBuffer, four: boolean): Results {
-  const i = (one: SlotName, lanes: SlotName): Int32Array => i32Slot(buffer, four ? lanes : one);
-  const f = (one: SlotName, lanes: SlotName): Float64Array => f64Slot(buffer, four ? lanes : one);
-  return {
-    sumState: i('sumState', 'fourSumState'), sumOutcome: i('sumOutcome', 'fourSumOutcome'), sumBoth: i('sumBoth', 'fourSumBoth'),
-    cleanCount: i('cleanCount', 'fourCleanCount'), causes: i('causes', 'fourCauses'),
-    discarded: i('discarded', 'fourDiscarded'), discardedWrong: i('discardedWrong', 'fourDiscardedWrong'),
-    cleanSum1: f('cleanSum1', 'fourCleanSum1'), cleanSum2: f('cleanSum2', 'fourCleanSum2'), cleanShift: f('cleanShift', 'fourCleanShift'),
-  };
-}
-
 export class ExactKernel {
   /** The tables whose prefix sums the instance holds. */
   readonly tables: ExactTables;
   /** Streams for tallyFourBlocks' caller to position (one history stream and one normals lane per block). */
   readonly fourStreams: { streams: RandomStream[]; lanes: RandomStream[] };
   private readonly buffer: ArrayBuffer;
-  private readonly tallyBlockWasm: (len: number) => void;
-  private readonly stream: Int32Array;
-  private readonly lane: Int32Array;
-  private readonly one: Results;
-  /** tallyFour's states (word-major: word j of block k at 4j + k) and results. */
+  private readonly tallyFourWasm: (len: number) => void;
+  /** The four blocks' states (word-major: word j of block k at 4j + k) and results. */
   private readonly quadStreams: Int32Array;
   private readonly quadLanes: Int32Array;
-  private readonly four: Results;
-  private readonly tallyFourWasm: (len: number) => void;
-  /** The numbers tallyFour's parameters were last made from (NaN: never). */
+  private readonly results: Results;
+  /** The numbers the four-lane decisions were last made from (NaN: never). */
   private readonly fourLaneKey = new Float64Array(13).fill(NaN);
 
   constructor(t: ExactTables) {
@@ -118,14 +136,15 @@ export class ExactKernel {
     this.fourStreams = { streams: [0, 1, 2, 3].map(placeholder), lanes: [0, 1, 2, 3].map(placeholder) };
     const { buffer, exports } = instantiateKernels(prefixBytes(t));
     this.buffer = buffer;
-    this.tallyBlockWasm = exports.tallyBlock as (len: number) => void;
     this.tallyFourWasm = exports.tallyFour as (len: number) => void;
-    this.stream = i32Slot(buffer, 'stream');
-    this.lane = i32Slot(buffer, 'lane');
-    this.one = resultViews(buffer, false);
     this.quadStreams = i32Slot(buffer, 'fourStreams');
     this.quadLanes = i32Slot(buffer, 'fourLanes');
-    this.four = resultViews(buffer, true);
+    this.results = {
+      sumState: i32Slot(buffer, 'fourSumState'), sumOutcome: i32Slot(buffer, 'fourSumOutcome'), sumBoth: i32Slot(buffer, 'fourSumBoth'),
+      cleanCount: i32Slot(buffer, 'fourCleanCount'), causes: i32Slot(buffer, 'fourCauses'),
+      discarded: i32Slot(buffer, 'fourDiscarded'), discardedWrong: i32Slot(buffer, 'fourDiscardedWrong'),
+      cleanSum1: f64Slot(buffer, 'fourCleanSum1'), cleanSum2: f64Slot(buffer, 'fourCleanSum2'), cleanShift: f64Slot(buffer, 'fourCleanShift'),
+    };
     let at: number = LAYOUT.arrays;
     // prefix[d·2 + s] for d = I (0) and Q (1), s = 0, 1, one after another (prefixBytes)
     const offsets = [0, 0, 0, 0];
@@ -139,20 +158,12 @@ export class ExactKernel {
     setSlot(buffer, 'prefixQ', offsets.slice(2, 4));
   }
 
-  /**
-   * Writes the point's and pipeline's scalars into the instance's slots (fastTallyBlock's
-   * arguments less the streams); the blocks that follow use them.
-   */
+  /** Writes the point's and pipeline's scalars into their slots; the blocks that follow use them. */
   setScoring(h: HistoryTables, s: FusedPipeline, outcomeOf: Uint8Array): void {
     const t = this.tables, b = this.buffer;
     const hasQ = t.outputs === 2;
-    const pair = (x: ArrayLike<number>): number[] => [x[0]!, x[1]!];
     const factorQ1 = hasQ ? factorEntry(t, 1, 1) : 0;
-    setSlot(b, 'firstCut', [h.prepareCumulative[0]!]);
-    setSlot(b, 'prepProbability', pair(h.prepProbability));
-    setSlot(b, 'mapProbability', pair(h.mapProbability));
-    setSlot(b, 'noJumpCut', pair(h.noJumpCut));
-    setSlot(b, 'exitRate', pair(h.exitRate));
+    setSlot(b, 'exitRate', [h.exitRate[0]!, h.exitRate[1]!]);
     setSlot(b, 'recordLength', [h.recordLength]);
     setSlot(b, 'lastWindowSample', [h.lastWindowSample]);
     // (lastSample null: the pipeline reads to the window's end, so no jump is after its last sample)
@@ -167,10 +178,7 @@ export class ExactKernel {
     setSlot(b, 'sin', [s.sin]);
     setSlot(b, 'threshold', [s.threshold]);
     setSlot(b, 'band', [s.band]);
-    setSlot(b, 'prepInto', pair(h.prepInto));
-    setSlot(b, 'mapInto', pair(h.mapInto));
     setSlot(b, 'jumpCause', Array.from(h.jumpCause.subarray(0, 4)));
-    setSlot(b, 'outcomeOf', pair(outcomeOf));
     setSlot(b, 'anyPrep', [+h.anyPrep]);
     setSlot(b, 'anyMap', [+h.anyMap]);
     setSlot(b, 'hasQ', [+hasQ]);
@@ -183,9 +191,9 @@ export class ExactKernel {
   }
 
   /**
-   * tallyFour's parameters: the integer cuts of the history's decisions (uniformCut), the
-   * expected outcomes and the destinations as masks, each in all four lanes. Made again only
-   * when the probabilities change (the bisections cost more than a batch's other set-up).
+   * The history's decisions: the integer cuts of its uniforms (uniformCut), the expected
+   * outcomes and the destinations as masks, each in all four lanes. Made again only when the
+   * probabilities change (the bisections cost more than a batch's other set-up).
    */
   private setFourLaneParams(h: HistoryTables, outcomeOf: Uint8Array): void {
     const key = this.fourLaneKey;
@@ -213,62 +221,45 @@ export class ExactKernel {
   }
 
   /**
-   * fastTallyBlock's work on one seeding block of `len` shots into `leaf` (a fresh tally), with
-   * the scalars of the last setScoring: histories from `stream`, normals from `lane`.
-   */
-  tallyBlock(stream: RandomStream, lane: RandomStream, len: number, leaf: Tally): void {
-    clearCounts(this.one);
-    this.stream.set(stream.s);
-    this.lane.set(lane.s);
-    this.tallyBlockWasm(len);
-    stream.s.set(this.stream);
-    lane.s.set(this.lane);
-    writeLeaf(leaf, len, this.one, 1, 0);
-  }
-
-  /**
-   * tallyBlock on four blocks of `len` shots each at once (their tallies are those of four
-   * tallyBlock calls, to the bit): block k's histories from `streams[k]`, its normals from
-   * `lanes[k]`, its tally into `leaves[k]` (every field is written, so they may be reused).
+   * Four seeding blocks of `len` shots each, with the scalars of the last setScoring: block k's
+   * histories from `streams[k]` (at its start), its normals from `lanes[k]` (at its second lane),
+   * its tally into `leaves[k]` (every field is written, so they may be reused). Each tally is the
+   * one the TypeScript path makes of that block alone.
    */
   tallyFourBlocks(streams: readonly RandomStream[], lanes: readonly RandomStream[], len: number, leaves: readonly Tally[]): void {
-    const st = this.quadStreams, ln = this.quadLanes;
+    const st = this.quadStreams, ln = this.quadLanes, r = this.results;
     for (let k = 0; k < 4; k++) {
       for (let j = 0; j < 4; j++) {
         st[4 * j + k] = streams[k]!.s[j]!;
         ln[4 * j + k] = lanes[k]!.s[j]!;
       }
     }
-    clearCounts(this.four);
+    // the counts the kernel adds to in memory (it writes the others at the end)
+    r.causes.fill(0);
+    r.discarded.fill(0);
+    r.discardedWrong.fill(0);
     this.tallyFourWasm(len);
     for (let k = 0; k < 4; k++) {
       for (let j = 0; j < 4; j++) {
         streams[k]!.s[j] = st[4 * j + k]!;
         lanes[k]!.s[j] = ln[4 * j + k]!;
       }
-      writeLeaf(leaves[k]!, len, this.four, 4, k);
+      writeLeaf(leaves[k]!, len, r, k);
     }
   }
 }
 
-/** Zeroes the counts a kernel adds to in memory (the others it writes at the end). */
-function clearCounts(r: Results): void {
-  r.causes.fill(0);
-  r.discarded.fill(0);
-  r.discardedWrong.fill(0);
-}
-
-/** A block's tally from the kernel's results (see Results: stride 1 or 4, lane k). */
-function writeLeaf(leaf: Tally, len: number, r: Results, stride: number, k: number): void {
+/** Block k's tally from the kernel's results (see Results). */
+function writeLeaf(leaf: Tally, len: number, r: Results, k: number): void {
   // (indexing inline: a closure per block costs a __name call under tsx, DEVELOPERS.md)
-  for (let c = 0; c < 2 * CAUSES.length; c++) leaf.causes[c] = r.causes[stride * c + k]!;
+  for (let c = 0; c < 2 * CAUSES.length; c++) leaf.causes[c] = r.causes[4 * c + k]!;
   for (let st = 0; st < 2; st++) {
-    leaf.discarded[st] = r.discarded[stride * st + k]!;
-    leaf.discardedWrong[st] = r.discardedWrong[stride * st + k]!;
+    leaf.discarded[st] = r.discarded[4 * st + k]!;
+    leaf.discardedWrong[st] = r.discardedWrong[4 * st + k]!;
   }
   finishTwoByTwo(leaf, len, r.sumState[k]!, r.sumOutcome[k]!, r.sumBoth[k]!);
   for (let st = 0; st < 2; st++) {
-    const i = stride * st + k;
+    const i = 4 * st + k;
     leaf.clean[st] = momentsFromShiftedSums(r.cleanCount[i]!, r.cleanShift[i]!, r.cleanSum1[i]!, r.cleanSum2[i]!);
   }
 }

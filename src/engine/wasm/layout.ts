@@ -37,6 +37,8 @@ const ELEMENT_BYTES: Record<SlotType, number> = { i32: 4, f64: 8, v128: 16 };
 
 /** Shots per chunk of the four-lane exact kernel (its passes' buffers hold one chunk). */
 export const CHUNK = 128;
+/** Entries of the ziggurat's wedge test table exp(−j/16) (memory.ts fills it). */
+export const EXP_TABLE_LENGTH = 96;
 
 /** A record of named fields (bytes each) laid out one after the other: its field offsets and size. */
 function record<const F extends Record<string, number>>(fields: F): { [K in keyof F]: number } & { size: number } {
@@ -62,19 +64,16 @@ export const VALUE_RECORD = record({ value: 32, clean0: 16, clean1: 16 });
  * (f64, two vectors: lanes 0–1, then 2–3); a per-state pair of them is state 0's, then state 1's.
  */
 export const SLOT_SPECS = [
-  // the trace engine's record loops (and the one-block exact kernel's streams)
-  { name: 'stream', type: 'i32', length: 4 }, // a stream's xoshiro128** state: the record's noise, or the exact block's histories
-  { name: 'lane', type: 'i32', length: 4 }, // the one-block exact kernel's normals lane
+  // the trace engine's record loops
+  { name: 'stream', type: 'i32', length: 4 }, // the record's noise stream: xoshiro128** state
   { name: 'dotResults', type: 'f64', length: 2 }, // dot's and dotPair's results
   // the ziggurat (random/ziggurat.ts): acceptance bounds, position-to-x factors, densities at the edges
-  { name: 'layerBounds', type: 'i32', length: 128, at: 64 },
-  { name: 'layerFactors', type: 'f64', length: 128, at: 1024 },
+  { name: 'layerBounds', type: 'i32', length: 128 },
+  { name: 'layerFactors', type: 'f64', length: 128 },
   { name: 'layerDensities', type: 'f64', length: 128 },
+  // exp(−j/16), j = 0 … 95: the wedge test's table (source/ziggurat.ts $below)
+  { name: 'expTable', type: 'f64', length: EXP_TABLE_LENGTH },
   // the exact kernel's point and pipeline (exact/kernel.ts setScoring); [s]: per state
-  { name: 'firstCut', type: 'f64', length: 1 }, // prepareCumulative[0]
-  { name: 'prepProbability', type: 'f64', length: 2 },
-  { name: 'mapProbability', type: 'f64', length: 2 },
-  { name: 'noJumpCut', type: 'f64', length: 2 },
   { name: 'exitRate', type: 'f64', length: 2 },
   { name: 'recordLength', type: 'f64', length: 1 },
   { name: 'lastWindowSample', type: 'f64', length: 1 },
@@ -89,10 +88,7 @@ export const SLOT_SPECS = [
   { name: 'sin', type: 'f64', length: 1 },
   { name: 'threshold', type: 'f64', length: 1 },
   { name: 'band', type: 'f64', length: 1 }, // the ambiguous band's half-width (negative: none)
-  { name: 'prepInto', type: 'i32', length: 2, at: 3328 },
-  { name: 'mapInto', type: 'i32', length: 2 },
   { name: 'jumpCause', type: 'i32', length: 4 }, // [2·from + to]
-  { name: 'outcomeOf', type: 'i32', length: 2 },
   { name: 'anyPrep', type: 'i32', length: 1 },
   { name: 'anyMap', type: 'i32', length: 1 },
   { name: 'hasQ', type: 'i32', length: 1 },
@@ -103,41 +99,7 @@ export const SLOT_SPECS = [
   { name: 'windowQ', type: 'i32', length: 2 },
   { name: 'prefixI', type: 'i32', length: 2 }, // byte offsets of I's prefix sums per state
   { name: 'prefixQ', type: 'i32', length: 2 },
-  // the one-block exact kernel's results
-  { name: 'cleanSum1', type: 'f64', length: 2, at: 3456 }, // per state: Σ(x − shift) of the clean shots
-  { name: 'cleanSum2', type: 'f64', length: 2 }, // Σ(x − shift)²
-  { name: 'cleanShift', type: 'f64', length: 2 },
-  { name: 'sumState', type: 'i32', length: 1, at: 3520 }, // shots intended 1
-  { name: 'sumOutcome', type: 'i32', length: 1 }, // shots with outcome 1
-  { name: 'sumBoth', type: 'i32', length: 1 },
-  { name: 'cleanCount', type: 'i32', length: 2 },
-  { name: 'causes', type: 'i32', length: 2 * CAUSES.length }, // [CAUSES.length·intended + cause]
-  { name: 'discarded', type: 'i32', length: 2 },
-  { name: 'discardedWrong', type: 'i32', length: 2 },
-  // the four-lane exact kernel: its streams (word j of the four lanes in vector j), results, scratch
-  { name: 'fourStreams', type: 'v128', length: 4, at: 4096 },
-  { name: 'fourLanes', type: 'v128', length: 4 },
-  { name: 'fourSumState', type: 'v128', length: 1 },
-  { name: 'fourSumOutcome', type: 'v128', length: 1 },
-  { name: 'fourSumBoth', type: 'v128', length: 1 },
-  { name: 'fourCleanCount', type: 'v128', length: 2 },
-  { name: 'fourCauses', type: 'v128', length: 2 * CAUSES.length }, // [CAUSES.length·intended + cause]
-  { name: 'fourDiscarded', type: 'v128', length: 2 },
-  { name: 'fourDiscardedWrong', type: 'v128', length: 2 },
-  { name: 'fourCleanSum1', type: 'v128', length: 4 }, // f64 × 4 lanes per state
-  { name: 'fourCleanSum2', type: 'v128', length: 4 },
-  { name: 'fourCleanShift', type: 'v128', length: 4 },
-  // scratch of the rare lanes' scalar functions
-  { name: 'fourJumpCauses', type: 'v128', length: 1 },
-  { name: 'fourJumpDraws', type: 'v128', length: 1 },
-  { name: 'fourInitial', type: 'v128', length: 1 },
-  { name: 'fourIntended', type: 'v128', length: 1 },
-  { name: 'fourPrepared', type: 'v128', length: 1 },
-  { name: 'fourNormals', type: 'v128', length: 2, at: 4960 }, // f64 × 4
-  { name: 'fourPositions', type: 'v128', length: 1 },
-  { name: 'fourLayers', type: 'v128', length: 1 },
-  { name: 'oneState', type: 'i32', length: 4, at: 5040 }, // one lane's state, transposed
-  // the four-lane kernel's decisions (exact/kernel.ts setFourLaneParams), each in all four lanes
+  // the history's decisions as integer cuts on the outputs (exact/kernel.ts setFourLaneParams), in all four lanes
   { name: 'fourFirstCut', type: 'v128', length: 1 },
   { name: 'fourFirstFlip', type: 'v128', length: 1 },
   { name: 'fourPrepCut', type: 'v128', length: 2 },
@@ -147,12 +109,33 @@ export const SLOT_SPECS = [
   { name: 'fourJumpCut', type: 'v128', length: 2 },
   { name: 'fourJumpFlip', type: 'v128', length: 2 },
   { name: 'fourOutcomeMask', type: 'v128', length: 2 }, // −outcomeOf[s]
-  { name: 'fourPrepIntoMask', type: 'v128', length: 2 },
+  { name: 'fourPrepIntoMask', type: 'v128', length: 2 }, // −prepInto[s]
   { name: 'fourMapIntoMask', type: 'v128', length: 2 },
-  // exp(−j/16), j = 0 … 95: the ziggurat's wedge test (source/ziggurat.ts $below)
-  { name: 'expTable', type: 'f64', length: 96 },
+  // the four blocks' streams (word j of the four lanes in vector j) and results
+  { name: 'fourStreams', type: 'v128', length: 4 },
+  { name: 'fourLanes', type: 'v128', length: 4 },
+  { name: 'fourSumState', type: 'v128', length: 1 }, // shots intended 1
+  { name: 'fourSumOutcome', type: 'v128', length: 1 }, // shots with outcome 1
+  { name: 'fourSumBoth', type: 'v128', length: 1 },
+  { name: 'fourCleanCount', type: 'v128', length: 2 },
+  { name: 'fourCauses', type: 'v128', length: 2 * CAUSES.length }, // [CAUSES.length·intended + cause]
+  { name: 'fourDiscarded', type: 'v128', length: 2 },
+  { name: 'fourDiscardedWrong', type: 'v128', length: 2 },
+  { name: 'fourCleanSum1', type: 'v128', length: 4 }, // f64 × 4 lanes per state: Σ(x − shift) of the clean shots
+  { name: 'fourCleanSum2', type: 'v128', length: 4 }, // Σ(x − shift)²
+  { name: 'fourCleanShift', type: 'v128', length: 4 },
+  // scratch of the rare lanes' scalar functions (source/four-rare.ts)
+  { name: 'fourJumpCauses', type: 'v128', length: 1 },
+  { name: 'fourJumpDraws', type: 'v128', length: 1 },
+  { name: 'fourInitial', type: 'v128', length: 1 },
+  { name: 'fourIntended', type: 'v128', length: 1 },
+  { name: 'fourPrepared', type: 'v128', length: 1 },
+  { name: 'fourNormals', type: 'v128', length: 2 }, // f64 × 4
+  { name: 'fourPositions', type: 'v128', length: 1 },
+  { name: 'fourLayers', type: 'v128', length: 1 },
+  { name: 'oneState', type: 'i32', length: 4 }, // one lane's state, transposed
   // the four-lane kernel's buffers between its passes, one chunk each
-  { name: 'fourHistories', type: 'v128', length: (CHUNK * HISTORY_RECORD.size) / 16, at: 8192 },
+  { name: 'fourHistories', type: 'v128', length: (CHUNK * HISTORY_RECORD.size) / 16 },
   { name: 'fourNormalsBuffer', type: 'v128', length: (2 * CHUNK * NORMAL_RECORD.size) / 16 },
   { name: 'fourValues', type: 'v128', length: (CHUNK * VALUE_RECORD.size) / 16 },
 ] as const satisfies readonly SlotSpec[];

@@ -1,17 +1,65 @@
 /**
  * The four-lane exact kernel's rare lanes as scalar WebAssembly text: a lane that drew a jump
  * ($quadJump), a ziggurat rejection ($quadSlowNormal) or a wrong shot ($quadCause) leaves the
- * vectors for these functions, which work on memory and step only that lane's stream.
+ * vectors for these functions, which work on memory and step only that lane's stream. A jump's
+ * path value is exact/batch.ts pathValue for one jump ($oneJump).
  */
 import { CAUSES } from '../../../analysis/causes.ts';
 import { HISTORY_RECORD, type Layout } from '../layout.ts';
-import { jumpCauseOf, pathValue, timesConst } from './exact-one.ts';
 import { SCALAR, uniformOf, xoshiroStep } from './xoshiro.ts';
+
+/** x·c for a constant c ≥ 1 (a shift when c is a power of two). */
+function timesConst(x: string, c: number): string {
+  const k = Math.log2(c);
+  return Number.isInteger(k) ? `(i32.shl ${x} (i32.const ${k}))` : `(i32.mul ${x} (i32.const ${c}))`;
+}
+
+/** $oneJump. */
+function oneJumpFunction(): string {
+  return `
+  ;; the path's value for one jump switching at sample \`switchAt\` from the state with prefix
+  ;; sums at \`from\` to the one with \`to\` (exact/batch.ts pathValue, in the same operations)
+  (func $oneJump (param $from i32) (param $to i32) (param $lo i32) (param $hi i32) (param $switchAt f64) (result f64)
+    (local $u i32) (local $k i32) (local $v f64)
+    (local.set $u (i32.trunc_f64_s (f64.min (f64.convert_i32_s (local.get $hi))
+                                            (f64.max (f64.convert_i32_s (local.get $lo)) (local.get $switchAt)))))
+    (local.set $k (local.get $lo))
+    (if (i32.gt_s (local.get $u) (local.get $k))
+      (then
+        (local.set $v (f64.add (local.get $v)
+          (f64.sub (f64.load (i32.add (local.get $from) (i32.shl (i32.sub (local.get $u) (local.get $lo)) (i32.const 3))))
+                   (f64.load (i32.add (local.get $from) (i32.shl (i32.sub (local.get $k) (local.get $lo)) (i32.const 3)))))))
+        (local.set $k (local.get $u))))
+    (f64.add (local.get $v)
+      (f64.sub (f64.load (i32.add (local.get $to) (i32.shl (i32.sub (local.get $hi) (local.get $lo)) (i32.const 3))))
+               (f64.load (i32.add (local.get $to) (i32.shl (i32.sub (local.get $k) (local.get $lo)) (i32.const 3)))))))
+`;
+}
+
+/** Element s of an i32 slot: its byte index s·4. */
+const i32At = (s: string): string => `(i32.shl (local.get ${s}) (i32.const 2))`;
+
+/** The path's value for the shot's jump, of I or Q (prefix sums and window from the slots). */
+function pathValue(prefix: number, window: number, initial: string, next: string): string {
+  return `(call $oneJump
+                  (i32.load offset=${prefix} ${i32At(initial)})
+                  (i32.load offset=${prefix} ${i32At(next)})
+                  (i32.load (i32.const ${window})) (i32.load (i32.const ${window + 4})) (local.get $switchAt))`;
+}
+
+/** The first jump's cause as the pipeline sees it: by the window's last sample and the pipeline's. */
+function jumpCauseOf(L: Layout, initial: string, next: string): string {
+  return `(if (f64.le (local.get $time) (f64.load (i32.const ${L.at.lastWindowSample})))
+                  (then (local.set $jc (i32.load offset=${L.at.jumpCause}
+                    (i32.shl (i32.add (i32.shl (local.get ${initial}) (i32.const 1)) (local.get ${next})) (i32.const 2))))))
+                (if (i32.eqz (f64.le (local.get $time) (f64.load (i32.const ${L.at.lastSample}))))
+                  (then (local.set $jc (i32.const 0))))`;
+}
 
 export function rareLaneFunctions(L: Layout): string {
   const a = L.at, R = HISTORY_RECORD;
   const laneWord = (slot: number, j: number): number => slot + 16 * j;
-  return `
+  return `${oneJumpFunction()}
   ;; the jump of lane k (u ≥ noJumpCut[initial]) into the shot's history record \`rec\`: its
   ;; cause, that it jumped, and its values' corrections (path − no-jump value)
   (func $quadJump (param $k i32) (param $rec i32)

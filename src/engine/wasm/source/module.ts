@@ -6,14 +6,14 @@
  * The module holds the simulator's two hot loops and the ziggurat they share:
  *   - the trace engine's per-sample loops (record.ts; record-loops.ts RecordKernel);
  *   - the exact engine's kernel for the common point whose every jump ends the chain and whose
- *     signal has no analog response, on one block (exact-one.ts) and on four blocks at once in
- *     SIMD lanes (four-lane.ts, four-lane-tally.ts, four-rare.ts; exact/kernel.ts).
+ *     signal has no analog response, on four seeding blocks at once in SIMD lanes (four-lane.ts,
+ *     four-lane-tally.ts, four-rare.ts; exact/kernel.ts), with the cause of a wrong shot
+ *     (causes.ts).
  * Each does the arithmetic of its TypeScript counterpart in the same order, with Math.exp and
  * Math.log imported, so the numbers are the same to the bit.
  */
 import { LAYOUT, slotExportName, type Layout } from '../layout.ts';
 import { causeFunction } from './causes.ts';
-import { sharedExactFunctions, tallyBlockFunction } from './exact-one.ts';
 import { rareLaneFunctions } from './four-rare.ts';
 import { tallyFourFunction } from './four-lane.ts';
 import { recordFunctions } from './record.ts';
@@ -32,7 +32,7 @@ ${slots}
   (import "env" "exp" (func $exp (param f64) (result f64)))
   (import "env" "log" (func $log (param f64) (result f64)))
 ${slotGlobals(layout)}
-${nextAndUniform()}${zigguratFunctions(layout)}${recordFunctions(layout)}${causeFunction()}${sharedExactFunctions()}${tallyBlockFunction(layout)}${rareLaneFunctions(layout)}${tallyFourFunction(layout)})
+${nextAndUniform()}${zigguratFunctions(layout)}${recordFunctions(layout)}${causeFunction()}${rareLaneFunctions(layout)}${tallyFourFunction(layout)})
 `;
 }
 

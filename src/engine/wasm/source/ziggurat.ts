@@ -4,10 +4,7 @@
  * test $below.
  */
 import { ZIGGURAT_R } from '../../../random/ziggurat.ts';
-import type { Layout } from '../layout.ts';
-
-/** Entries of the wedge test's table exp(−j/16) (memory.ts fills it). */
-export const EXP_TABLE_LENGTH = 96;
+import { EXP_TABLE_LENGTH, type Layout } from '../layout.ts';
 
 /** |pos| < the layer's bound: the draw is in the layer's fast region. */
 export function inFastRegion(L: Layout, pos: string, layer: string): string {
