@@ -61,7 +61,7 @@ interface FusedScratch {
   sum2: Float64Array;
   /** The WebAssembly kernel of the scratch's current exact tables (made on first use). */
   kernel?: ExactKernel;
-  /** Tallies the kernel may fill again: its unused lanes', and blocks merged into a left sibling. */
+  /** Tallies the kernel may fill again: those of blocks merged into a left sibling. */
   spareLeaves: Tally[];
 }
 
@@ -148,7 +148,7 @@ export function simulateTalliedBatch(
 /**
  * Every block of the batch through the kernel (one pipeline, so no paired counts): the whole
  * blocks in groups of four (the last group may hold fewer), then a short last block in a call
- * of its own. A group's unused lanes run copies of its first block's streams, and their tallies
+ * of its own. A group's unused lanes run copies of its first block's streams, and their results
  * are dropped. `first` is at the batch's first block.
  */
 function tallyThroughKernel(
@@ -171,11 +171,11 @@ function tallyThroughKernel(
     }
     // (loops, not closures: a closure per call costs a __name call under tsx, DEVELOPERS.md)
     const leaves: Tally[] = [];
-    for (let k = 0; k < 4; k++) leaves.push(spare.pop() ?? emptyTally(2, 2));
-    kernel.tallyFourBlocks(streams, lanes, len, leaves);
+    for (let k = 0; k < used; k++) leaves.push(spare.pop() ?? emptyTally(2, 2));
+    kernel.tallyFourBlocks(streams, lanes, len, leaves, used);
     for (let k = 0; k < used; k++) pushNode(stack, { level: 0, index: firstBlock + b + k, tally: leaves[k]! });
-    // a tally merged into its left sibling, or an unused lane's, is free again
-    for (let k = 0; k < 4; k++) if (!holds(stack, leaves[k]!)) spare.push(leaves[k]!);
+    // a tally merged into its left sibling is free again
+    for (let k = 0; k < used; k++) if (!holds(stack, leaves[k]!)) spare.push(leaves[k]!);
     b += used;
   }
 }

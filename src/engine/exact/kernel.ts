@@ -19,7 +19,7 @@ import { factorEntry, type ExactTables } from './batch.ts';
 import type { CompiledPoint } from '../compile-point.ts';
 import type { FusedPipeline } from './fused-scoring.ts';
 import type { HistoryTables } from '../../physics/history.ts';
-import { f64Slot, i32Slot, LAYOUT, setSlot, type SlotName } from '../wasm/layout.ts';
+import { f64Slot, i32Slot, LAYOUT, SlotWriter, type SlotName } from '../wasm/layout.ts';
 import { instantiateKernels, kernelsAvailable, MAX_KERNEL_BYTES } from '../wasm/memory.ts';
 
 /**
@@ -122,6 +122,7 @@ export class ExactKernel {
   /** Streams for tallyFourBlocks' caller to position (one history stream and one normals lane per block). */
   readonly fourStreams: { streams: RandomStream[]; lanes: RandomStream[] };
   private readonly buffer: ArrayBuffer;
+  private readonly slots: SlotWriter;
   private readonly tallyFourWasm: (len: number) => void;
   /** The four blocks' states (word-major: word j of block k at 4j + k) and results. */
   private readonly quadStreams: Int32Array;
@@ -136,6 +137,7 @@ export class ExactKernel {
     this.fourStreams = { streams: [0, 1, 2, 3].map(placeholder), lanes: [0, 1, 2, 3].map(placeholder) };
     const { buffer, exports } = instantiateKernels(prefixBytes(t));
     this.buffer = buffer;
+    this.slots = new SlotWriter(buffer);
     this.tallyFourWasm = exports.tallyFour as (len: number) => void;
     this.quadStreams = i32Slot(buffer, 'fourStreams');
     this.quadLanes = i32Slot(buffer, 'fourLanes');
@@ -154,39 +156,39 @@ export class ExactKernel {
       offsets[j] = at;
       at += 8 * sums.length;
     }
-    setSlot(buffer, 'prefixI', offsets.slice(0, 2));
-    setSlot(buffer, 'prefixQ', offsets.slice(2, 4));
+    this.slots.set('prefixI', offsets[0]!, offsets[1]!);
+    this.slots.set('prefixQ', offsets[2]!, offsets[3]!);
   }
 
   /** Writes the point's and pipeline's scalars into their slots; the blocks that follow use them. */
   setScoring(h: HistoryTables, s: FusedPipeline, outcomeOf: Uint8Array): void {
-    const t = this.tables, b = this.buffer;
+    const t = this.tables, b = this.slots;
     const hasQ = t.outputs === 2;
     const factorQ1 = hasQ ? factorEntry(t, 1, 1) : 0;
-    setSlot(b, 'exitRate', [h.exitRate[0]!, h.exitRate[1]!]);
-    setSlot(b, 'recordLength', [h.recordLength]);
-    setSlot(b, 'lastWindowSample', [h.lastWindowSample]);
+    b.set('exitRate', h.exitRate[0]!, h.exitRate[1]!);
+    b.set('recordLength', h.recordLength);
+    b.set('lastWindowSample', h.lastWindowSample);
     // (lastSample null: the pipeline reads to the window's end, so no jump is after its last sample)
-    setSlot(b, 'lastSample', [s.lastSample ?? Infinity]);
-    setSlot(b, 'sampleRate', [t.sampleRate]);
-    setSlot(b, 'fullI', [t.full[0]!, t.full[1]!]);
-    setSlot(b, 'fullQ', hasQ ? [t.full[2]!, t.full[3]!] : [0, 0]);
-    setSlot(b, 'factorI0', [factorEntry(t, 0, 0)]);
-    setSlot(b, 'factorQ0', [hasQ ? factorEntry(t, 1, 0) : 0]);
-    setSlot(b, 'factorQ1', [factorQ1]);
-    setSlot(b, 'cos', [s.cos]);
-    setSlot(b, 'sin', [s.sin]);
-    setSlot(b, 'threshold', [s.threshold]);
-    setSlot(b, 'band', [s.band]);
-    setSlot(b, 'jumpCause', Array.from(h.jumpCause.subarray(0, 4)));
-    setSlot(b, 'anyPrep', [+h.anyPrep]);
-    setSlot(b, 'anyMap', [+h.anyMap]);
-    setSlot(b, 'hasQ', [+hasQ]);
-    setSlot(b, 'qTwoTerms', [+(factorQ1 !== 0)]);
-    setSlot(b, 'columns', [t.columns.length]);
-    setSlot(b, 'flip', [s.highIsOne ? 0 : 1]);
-    setSlot(b, 'windowI', [t.lo[0]!, t.hi[0]!]);
-    setSlot(b, 'windowQ', hasQ ? [t.lo[1]!, t.hi[1]!] : [0, 0]);
+    b.set('lastSample', s.lastSample ?? Infinity);
+    b.set('sampleRate', t.sampleRate);
+    b.set('fullI', t.full[0]!, t.full[1]!);
+    b.set('fullQ', hasQ ? t.full[2]! : 0, hasQ ? t.full[3]! : 0);
+    b.set('factorI0', factorEntry(t, 0, 0));
+    b.set('factorQ0', hasQ ? factorEntry(t, 1, 0) : 0);
+    b.set('factorQ1', factorQ1);
+    b.set('cos', s.cos);
+    b.set('sin', s.sin);
+    b.set('threshold', s.threshold);
+    b.set('band', s.band);
+    b.set('jumpCause', h.jumpCause[0]!, h.jumpCause[1]!, h.jumpCause[2]!, h.jumpCause[3]!);
+    b.set('anyPrep', +h.anyPrep);
+    b.set('anyMap', +h.anyMap);
+    b.set('hasQ', +hasQ);
+    b.set('qTwoTerms', +(factorQ1 !== 0));
+    b.set('columns', t.columns.length);
+    b.set('flip', s.highIsOne ? 0 : 1);
+    b.set('windowI', t.lo[0]!, t.hi[0]!);
+    b.set('windowQ', hasQ ? t.lo[1]! : 0, hasQ ? t.hi[1]! : 0);
     this.setFourLaneParams(h, outcomeOf);
   }
 
@@ -222,11 +224,12 @@ export class ExactKernel {
 
   /**
    * Four seeding blocks of `len` shots each, with the scalars of the last setScoring: block k's
-   * histories from `streams[k]` (at its start), its normals from `lanes[k]` (at its second lane),
-   * its tally into `leaves[k]` (every field is written, so they may be reused). Each tally is the
-   * one the TypeScript path makes of that block alone.
+   * histories from `streams[k]` (at its start), its normals from `lanes[k]` (at its second
+   * lane), its tally into `leaves[k]` (every field is written, so they may be reused). Each
+   * tally is the one the TypeScript path makes of that block alone. Only the first `used`
+   * lanes' streams are written back and tallied: the others (any valid states) are dummies.
    */
-  tallyFourBlocks(streams: readonly RandomStream[], lanes: readonly RandomStream[], len: number, leaves: readonly Tally[]): void {
+  tallyFourBlocks(streams: readonly RandomStream[], lanes: readonly RandomStream[], len: number, leaves: readonly Tally[], used = 4): void {
     const st = this.quadStreams, ln = this.quadLanes, r = this.results;
     for (let k = 0; k < 4; k++) {
       for (let j = 0; j < 4; j++) {
@@ -239,7 +242,7 @@ export class ExactKernel {
     r.discarded.fill(0);
     r.discardedWrong.fill(0);
     this.tallyFourWasm(len);
-    for (let k = 0; k < 4; k++) {
+    for (let k = 0; k < used; k++) {
       for (let j = 0; j < 4; j++) {
         streams[k]!.s[j] = st[4 * j + k]!;
         lanes[k]!.s[j] = ln[4 * j + k]!;

@@ -6,7 +6,7 @@
  * (slotExportName) so that a stale binary is caught at load (memory.ts checkLayout).
  *
  * To add a slot: add a line to SLOT_SPECS, use it by name on both sides (`L.at.name` in a
- * template; i32Slot, f64Slot or setSlot in TypeScript), and run `npm run build:wasm`.
+ * template; i32Slot, f64Slot or SlotWriter in TypeScript), and run `npm run build:wasm`.
  *
  * Slots are placed one after the other in the order listed, each aligned to its element size
  * (i32: 4, f64: 8, v128: 16 bytes), unless `at` pins it. The arrays (waveforms, kernels and
@@ -144,6 +144,8 @@ export type SlotName = (typeof SLOT_SPECS)[number]['name'];
 
 export interface Layout {
   readonly slots: readonly Slot[];
+  /** The slots by name. */
+  readonly byName: ReadonlyMap<string, Slot>;
   /** Byte offset of each slot. */
   readonly at: Readonly<Record<SlotName, number>>;
   /** Where the arrays start: the first page boundary after the slots. */
@@ -166,7 +168,7 @@ export function makeLayout(specs: readonly SlotSpec[]): Layout {
     at[s.name] = offset;
     next = offset + slot.bytes;
   }
-  return { slots, at: at as Record<SlotName, number>, arrays: Math.ceil(next / PAGE) * PAGE };
+  return { slots, byName: new Map(slots.map((x) => [x.name, x])), at: at as Record<SlotName, number>, arrays: Math.ceil(next / PAGE) * PAGE };
 }
 
 /** The kernels' layout. */
@@ -184,7 +186,9 @@ export function slotExportName(s: SlotSpec): string {
 export const SLOT_EXPORT_PREFIX = 'slot:';
 
 function slotOf(layout: Layout, name: SlotName): Slot {
-  return layout.slots.find((s) => s.name === name)!;
+  const s = layout.byName.get(name);
+  if (!s) throw new Error(`memory layout: no slot ${name}`);
+  return s;
 }
 
 /** An i32 view of a slot (a v128 slot as its i32 lanes). */
@@ -201,9 +205,21 @@ export function f64Slot(buffer: ArrayBuffer, name: SlotName, layout: Layout = LA
   return new Float64Array(buffer, s.offset, s.bytes / 8);
 }
 
-/** Writes a scalar slot's elements (all of them: `values` has the slot's length). */
-export function setSlot(buffer: ArrayBuffer, name: SlotName, values: readonly number[], layout: Layout = LAYOUT): void {
-  const s = slotOf(layout, name);
-  if (s.type === 'v128' || values.length !== s.length) throw new Error(`memory layout: slot ${name} is ${s.type} × ${s.length}, not ${values.length} numbers`);
-  (s.type === 'f64' ? f64Slot : i32Slot)(buffer, name, layout).set(values);
+/** Writes scalar slots by name into one instance's memory (its views made once). */
+export class SlotWriter {
+  private readonly f64: Float64Array;
+  private readonly i32: Int32Array;
+
+  constructor(buffer: ArrayBuffer, private readonly layout: Layout = LAYOUT) {
+    this.f64 = new Float64Array(buffer, 0, layout.arrays / 8);
+    this.i32 = new Int32Array(buffer, 0, layout.arrays / 4);
+  }
+
+  /** Writes all of a scalar slot's elements (as many values as its length). */
+  set(name: SlotName, ...values: number[]): void {
+    const s = slotOf(this.layout, name);
+    if (s.type === 'v128' || values.length !== s.length) throw new Error(`memory layout: slot ${name} is ${s.type} × ${s.length}, not ${values.length} numbers`);
+    const view = s.type === 'f64' ? this.f64 : this.i32, first = s.offset / (s.type === 'f64' ? 8 : 4);
+    for (let j = 0; j < values.length; j++) view[first + j] = values[j]!;
+  }
 }
