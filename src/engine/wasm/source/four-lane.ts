@@ -2,7 +2,7 @@
  * The exact engine's kernel on four seeding blocks at once, as WebAssembly text (exact/kernel.ts
  * tallyFourBlocks): lane k of every vector is block k, with its own history stream and normals
  * lane, so each block draws exactly the numbers, and sums exactly the terms in the order, of the
- * one-block kernel on it alone. The uniforms' comparisons are made on the 32-bit outputs against
+ * TypeScript path (exact/fused.ts) on it alone. The uniforms' comparisons are made on the 32-bit outputs against
  * integer cuts (exact/kernel.ts uniformCut: the same decisions); the rare lanes — a jump, a
  * ziggurat rejection, a wrong shot — leave the vectors for scalar code on memory (four-rare.ts).
  *
