@@ -1,27 +1,32 @@
 /**
- * `npm run build:wasm`: compiles the WebAssembly text source of the hot loops
- * (src/plan/kernels.wat) with wabt and writes its binary beside it as a TypeScript module
- * (kernels-wasm.ts), so that the simulator loads it with no file access and no build step at
- * run time. test/plan/kernels.test.ts compiles the source again and fails when the written
- * module is stale.
+ * `npm run build:wasm`: generates the WebAssembly text of the hot loops from its templates
+ * (src/engine/wasm/source/*.ts, with the memory layout of src/engine/wasm/layout.ts), compiles
+ * it with wabt and writes the binary as a TypeScript module (src/engine/wasm/kernels-wasm.ts),
+ * so that the simulator loads it with no file access and no build step at run time.
+ * test/engine/kernels.test.ts generates and compiles the text again and fails when the written
+ * module is stale. `npm run build:wasm -- --print` prints the generated text instead.
  */
-import { readFileSync, renameSync, writeFileSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
+import { renameSync, writeFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { kernelsWat } from '../src/engine/wasm/source/module.ts';
 import { compileWat, wasmModuleSource } from './wasm-source.ts';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-const source = 'src/engine/wasm/kernels.wat';
+const text = kernelsWat();
+if (process.argv.includes('--print')) {
+  process.stdout.write(text);
+  process.exit(0);
+}
 let bytes: Uint8Array;
 try {
-  // (the base name: wabt garbles some longer names in its messages)
-  bytes = await compileWat(basename(source), readFileSync(join(root, source), 'utf8'));
+  bytes = await compileWat('kernels.wat', text);
 } catch (e) {
-  // wabt's message names the line and column; its stack is the minified compiler
+  // wabt's message names the line and column of the generated text (see --print); its stack is the minified compiler
   console.error(String(e instanceof Error ? e.message : e).trim());
   process.exit(1);
 }
-const target = join(root, source.replace(/\.wat$/, '-wasm.ts'));
-writeFileSync(`${target}.tmp`, wasmModuleSource(source, bytes));
+const target = join(root, 'src/engine/wasm/kernels-wasm.ts');
+writeFileSync(`${target}.tmp`, wasmModuleSource('src/engine/wasm/source', bytes));
 renameSync(`${target}.tmp`, target);
-console.log(`${source}: ${bytes.length} bytes → ${target.slice(root.length + 1)}`);
+console.log(`src/engine/wasm/source: ${bytes.length} bytes → ${target.slice(root.length + 1)}`);

@@ -1,17 +1,14 @@
 /**
- * The WebAssembly kernels (src/plan/kernels.wat) against the TypeScript loops they stand in
- * for, on the benchmark workload: the same numbers (test/plan/kernels.test.ts), so only the
- * time differs. Measured side by side — one round of each in turn, the ratio of the medians —
- * because this machine's speed drifts.
+ * The WebAssembly kernels (src/engine/wasm) against the TypeScript code they stand in for, on
+ * the benchmark workload: the same numbers (test/engine/kernels.test.ts, exact-fused.test.ts),
+ * so only the time differs. Measured side by side — one round of each in turn, the ratio of the
+ * medians — because this machine's speed drifts.
  */
 import { compilePoint } from '../../src/engine/compile-point.ts';
 import { makeExactScratch } from '../../src/engine/exact/batch.ts';
-import { scratchHistory } from '../../src/engine/trace/batch.ts';
-import { fastTallyBlock } from '../../src/engine/exact/fast.ts';
-import { ExactKernel } from '../../src/engine/exact/kernel.ts';
-import type { FusedPipeline } from '../../src/engine/exact/fused-scoring.ts';
+import { simulateTalliedBatch } from '../../src/engine/exact/fused.ts';
+import type { FusedScoring } from '../../src/engine/exact/fused-scoring.ts';
 import { RecordKernel } from '../../src/engine/wasm/record-loops.ts';
-import { emptyTally } from '../../src/analysis/tally.ts';
 import { dotRangePair } from '../../src/dsp/integrate.ts';
 import { BlockStreams } from '../../src/random/streams.ts';
 import { benchWorkload } from '../workload.ts';
@@ -35,16 +32,8 @@ function sideBySide(a: () => number, b: () => number, rounds = 15, perRound = 64
 
 const point = compilePoint(benchWorkload());
 
-/** The exact kernel on the workload, scored as the benchmark's calibration would (axis I, midpoint 0.5), and block streams. */
-function exactSetUp() {
-  const scratch = makeExactScratch(point);
-  const h = scratchHistory(point, scratch);
-  const s: FusedPipeline = { cos: 1, sin: 0, threshold: 0.5, highIsOne: true, band: -1, lastSample: null };
-  const outcomeOf = Uint8Array.of(0, 1);
-  const kernel = new ExactKernel(scratch.exact);
-  kernel.setScoring(h, s, outcomeOf);
-  return { scratch, h, s, outcomeOf, kernel, blocks: new BlockStreams(1, 0, 'score', 0) };
-}
+/** The workload scored as the benchmark's calibration would (axis I, midpoint 0.5). */
+const scoring: FusedScoring = { pipelines: [{ cos: 1, sin: 0, threshold: 0.5, highIsOne: true, band: -1, lastSample: null }] };
 
 const fmt = (x: number) => `${(x / 1e6).toFixed(1)} M`;
 
@@ -67,41 +56,18 @@ export const cases: BenchCase[] = [
     },
   },
   {
-    name: 'exact engine one-loop kernel (a 1024-shot block), WebAssembly against TypeScript',
+    name: 'exact engine fused path (batches of four 1024-shot blocks), WebAssembly four-lane kernel against the TypeScript reference path',
     unit: 'shots/s',
     async run() {
-      const { scratch, h, s, outcomeOf, kernel, blocks } = exactSetUp();
-      const stream = blocks.current(), lane = blocks.current();
-      const columns = { intended: new Uint8Array(1024), prepared: new Uint8Array(1024), initial: new Uint8Array(1024), atWindowStart: new Uint8Array(1024), atWindowEnd: new Uint8Array(1024), firstJump: new Float64Array(1024), jumpCause: new Uint8Array(1024) };
+      const wasmScratch = makeExactScratch(point), tsScratch = makeExactScratch(point);
+      const batches = point.scenario.shots / point.scenario.batchSize, count = point.scenario.batchSize;
+      let b = 0;
       const [wasm, ts] = sideBySide(
-        () => { blocks.advanceInto(stream); blocks.laneInto(lane); kernel.tallyBlock(stream, lane, 1024, emptyTally(2, 2)); return 1024; },
-        () => { blocks.advanceInto(stream); blocks.laneInto(lane); fastTallyBlock(h, scratch.exact, s, outcomeOf, stream, lane, 1024, emptyTally(2, 2), columns, scratch.store); return 1024; },
-        15, 256,
+        () => { simulateTalliedBatch(point, 0, 'score', b++ % batches, count, scoring, wasmScratch); return count; },
+        () => { simulateTalliedBatch(point, 0, 'score', b++ % batches, count, scoring, tsScratch, false); return count; },
+        15, 16,
       );
-      return { rate: wasm, detail: `${(wasm / ts).toFixed(2)}× the TypeScript kernel's ${fmt(ts)} shots/s` };
-    },
-  },
-  {
-    name: 'exact engine four-lane kernel (four 1024-shot blocks side by side, SIMD) against the one-block WebAssembly kernel',
-    unit: 'shots/s',
-    async run() {
-      const { kernel, blocks } = exactSetUp();
-      const { streams, lanes } = kernel.fourStreams;
-      const stream = blocks.current(), lane = blocks.current();
-      const leaves = () => [emptyTally(2, 2), emptyTally(2, 2), emptyTally(2, 2), emptyTally(2, 2)];
-      const [four, one] = sideBySide(
-        () => {
-          for (let k = 0; k < 4; k++) { blocks.advanceInto(streams[k]!); blocks.laneInto(lanes[k]!); }
-          kernel.tallyFourBlocks(streams, lanes, 1024, leaves());
-          return 4096;
-        },
-        () => {
-          for (let k = 0; k < 4; k++) { blocks.advanceInto(stream); blocks.laneInto(lane); kernel.tallyBlock(stream, lane, 1024, emptyTally(2, 2)); }
-          return 4096;
-        },
-        15, 64,
-      );
-      return { rate: four, detail: `${(four / one).toFixed(2)}× the one-block kernel's ${fmt(one)} shots/s` };
+      return { rate: wasm, detail: `${(wasm / ts).toFixed(2)}× the TypeScript path's ${fmt(ts)} shots/s` };
     },
   },
 ];

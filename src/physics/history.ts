@@ -119,7 +119,9 @@ const INV_TWO_POW_32 = 1 / 4294967296;
  * continuous-time Markov chain: Norris, "Markov Chains", Cambridge 1997, §2.6).
  *
  * Written for speed, since the exact engine spends most of its time here: the generator runs
- * inline on local variables, and the common path has no data-dependent branches (a random
+ * inline on local variables (each two-line `m = …` step below is random/xoshiro.ts nextInt32Of,
+ * copied: calling it measured 6–8 % slower; test/random/step-copies.test.ts checks the copies
+ * against it), and the common path has no data-dependent branches (a random
  * 50/50 branch costs more than a whole draw); the logarithm is taken only when u is large
  * enough for the holding time to end inside the record (u ≥ e^(−rate·record) with a margin).
  */
@@ -139,7 +141,7 @@ export function sampleHistories(
   const firstCut = prepareCumulative[0] ?? 2;
   for (let i = from; i < to; i++) {
     offset[i - from] = nj;
-    // xoshiro128** step (as random/stream.ts nextInt32), inline
+    // xoshiro128** step (random/xoshiro.ts nextInt32Of), inline
     m = Math.imul(s1, 5); r = Math.imul((m << 7) | (m >>> 25), 9);
     x = s1 << 9; n2 = s2 ^ s0; n3 = s3 ^ s1; s1 ^= n2; s0 ^= n3; s2 = n2 ^ x; s3 = (n3 << 11) | (n3 >>> 21);
     let u = ((r >>> 0) + 0.5) * INV_TWO_POW_32;

@@ -2,6 +2,7 @@
  * A seeded random stream: xoshiro128** for the bits, the ziggurat for normals. Every random
  * number in the simulator comes from one of these, made by `streams.ts` for one batch.
  */
+import { nextInt32Of } from './xoshiro.ts';
 import { ZIGGURAT, ZIGGURAT_R } from './ziggurat.ts';
 
 const INV_TWO_POW_32 = 1 / 4294967296;
@@ -84,20 +85,6 @@ export class RandomStream {
   }
 }
 
-/** One xoshiro128** step on the state words; returns the output as a signed int32. */
-export function nextInt32Of(st: Int32Array): number {
-  const s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
-  const m = Math.imul(s1, 5);
-  const result = Math.imul((m << 7) | (m >>> 25), 9);
-  const n2 = s2 ^ s0;
-  const n3 = s3 ^ s1;
-  st[1] = s1 ^ n2;
-  st[0] = s0 ^ n3;
-  st[2] = n2 ^ (s1 << 9);
-  st[3] = (n3 << 11) | (n3 >>> 21);
-  return result;
-}
-
 /**
  * The ziggurat's rejection branch for a draw that missed its layer's fast region: the base
  * strip's tail or a wedge (Marsaglia & Tsang 2000), drawing further from the state words. Hot
@@ -132,6 +119,7 @@ function addNormalsFast(st: Int32Array, out: Float64Array, base: Float64Array, s
   let s0 = st[0]!, s1 = st[1]!, s2 = st[2]!, s3 = st[3]!;
   const end = start + count;
   for (let i = start; i < end; i++) {
+    // xoshiro128** (xoshiro.ts nextInt32Of), inline on the locals: calling it measured slower
     const m = Math.imul(s1, 5);
     const u = Math.imul((m << 7) | (m >>> 25), 9);
     const t = s1 << 9;

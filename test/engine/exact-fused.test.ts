@@ -1,9 +1,11 @@
 /**
- * The fused exact path (plan/exact-fused.ts: simulate, score and tally per seeding block, for
+ * The fused exact path (engine/exact/fused.ts: simulate, score and tally per seeding block, for
  * runs without a shots table) against the per-shot path (simulateExactBatch → scoreBatch →
  * tallyBatch): the tally-tree nodes, the folded tallies and the paired counts must be equal to
- * the bit, for several scenarios and on 2 worker threads. Exactness, not statistics: no source
- * needed beyond the per-shot path itself (common practice, no source).
+ * the bit, for several scenarios and on 2 worker threads — through the TypeScript path, and
+ * through the WebAssembly four-lane kernel on full groups of four blocks, on partial groups
+ * (1–3 blocks) and on a short last block. Exactness, not statistics: no source needed beyond
+ * the per-shot path itself (common practice, no source).
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { loadScenarioFile } from '../../src/scenario/load.ts';
@@ -14,6 +16,11 @@ import type { Tally } from '../../src/analysis/tally.ts';
 import type { Scenario } from '../../src/scenario/types.ts';
 import type { FlickerSourceSpec } from '../../src/signal/noise/flicker.ts';
 import { twoStateScenario } from '../support/scenarios.ts';
+import { compilePoint } from '../../src/engine/compile-point.ts';
+import { makeExactScratch } from '../../src/engine/exact/batch.ts';
+import { exactKernelApplies } from '../../src/engine/exact/kernel.ts';
+import { simulateTalliedBatch } from '../../src/engine/exact/fused.ts';
+import { scratchHistory } from '../../src/engine/trace/batch.ts';
 
 const pools: { close(): Promise<void> }[] = [];
 afterAll(async () => { await Promise.all(pools.map((p) => p.close())); });
@@ -65,8 +72,8 @@ const shortWindow = async () => {
 };
 /**
  * The two-state fixture with no analog response and relaxation only: every jump ends the
- * chain, so the one-loop kernel runs as WebAssembly (plan/exact-kernel.ts) — with preparation
- * and mapping errors and the band, and optionally a pipeline window that ends early.
+ * chain, so the WebAssembly kernel runs (engine/exact/kernel.ts) — with preparation and
+ * mapping errors and the band, and optionally a pipeline window that ends early.
  */
 const oneJump = async (window?: { start: number; length: number }) => {
   const s = await twoState();
@@ -74,25 +81,21 @@ const oneJump = async (window?: { start: number; length: number }) => {
   return { ...s, transitions: s.transitions.filter((t) => t.from === 1), signal: { ...s.signal, response: null }, pipelines: [pipeline] } as Scenario;
 };
 
+/** Whether the fused path runs the scenario's (first) point through the WebAssembly kernel. */
+function kernelRuns(scenario: Scenario): boolean {
+  const point = compilePoint(scenario);
+  const scratch = makeExactScratch(point);
+  return exactKernelApplies(point, scratch.exact, scratchHistory(point, scratch), scenario.pipelines.length, scenario.outcomes.length);
+}
+
+const K = 1024;
+type Make = () => Promise<Scenario> | Scenario;
+
 describe('fused exact path', () => {
   it.each([
     ['three states, flips, response, band, fixed threshold, short window', mix],
-    ['two states, sine carrier, relaxation (the benchmark workload, 3000 shots)', async () => twoStateScenario({ t1: 200e-6, shots: 3000, batchSize: 2048 })],
-    ['outcome 1 below the threshold (highIsOne false), preparation error', async () => twoStateScenario({ t1: 5e-6, levels: [1, 0], recordLength: 2e-6, sampleRate: 20e6, shots: 4100, preparationError: 0.05 })],
-    ['baseband (no Q), relaxation', async () => twoStateScenario({ t1: 3e-6, carrier: 'none', recordLength: 2e-6, sampleRate: 20e6, shots: 2500 })],
-    ['two states (one-loop kernel): flips both ways, both transitions, response, band', twoState],
-    ['two states (one-loop kernel): a pipeline window shorter than the timing window', shortWindow],
-    ['two states (WebAssembly kernel): flips both ways, relaxation only, no response, band', () => oneJump()],
-    ['two states (WebAssembly kernel): the same with a pipeline window ending early', () => oneJump({ start: 0.5e-6, length: 1e-6 })],
-    // batches of ≥ 4 whole seeding blocks: the kernel's four-lane loop (tallyFour), then single blocks
-    ['four-lane kernel: the benchmark workload, batches of 8 blocks and a short last one', async () => twoStateScenario({ t1: 200e-6, shots: 9000, batchSize: 8192 })],
-    ['four-lane kernel: baseband (no Q, one normal), many jumps', async () => twoStateScenario({ t1: 2e-6, carrier: 'none', recordLength: 2e-6, sampleRate: 20e6, shots: 8192, batchSize: 4096 })],
-    ['four-lane kernel: outcome 1 below the threshold, preparation error, many wrong shots', async () => twoStateScenario({ t1: 1e-6, levels: [1, 0], recordLength: 2e-6, sampleRate: 20e6, sigmaPerSample: 12, shots: 8192, batchSize: 4096, preparationError: 0.1 })],
-    ['four-lane kernel: flips both ways, band, pipeline window ending early', async () => {
-      const s = await oneJump({ start: 0.5e-6, length: 1e-6 });
-      return { ...s, shots: 12288, batchSize: 4096 };
-    }],
-    ['four-lane kernel: flips both ways, band', async () => ({ ...(await oneJump()), shots: 8192, batchSize: 8192 })],
+    ['two states: flips both ways, both transitions, response, band', twoState],
+    ['two states: a pipeline window shorter than the timing window', shortWindow],
     ['1/f noise on both sides of the sensor (per-shot timeline draws)', async () => {
       const s = twoStateScenario({ t1: 5e-6, recordLength: 2e-6, sampleRate: 20e6, shots: 4100, batchSize: 2048 });
       const flickers: FlickerSourceSpec[] = [
@@ -102,10 +105,48 @@ describe('fused exact path', () => {
       s.signal.sources = flickers;
       return s;
     }],
-  ])('%s: the same tally tree and paired counts to the bit', async (_name, make) => {
-    const [fused, perShot] = await both(await make());
+  ] as [string, Make][])('TypeScript path, %s: the same tally tree and paired counts to the bit', async (_name, make) => {
+    const scenario = await make();
+    expect(kernelRuns(scenario), 'the kernel does not take this point').toBe(false);
+    const [fused, perShot] = await both(scenario);
     expect(fused.points[0]!.tallyStacks[0]!.length).toBeGreaterThan(0);
     expectSameBits(fingerprint(fused), fingerprint(perShot));
+  });
+
+  it.each([
+    // batches of 2 blocks, then a short last block of 952 shots
+    ['the benchmark workload, 3000 shots in batches of 2 blocks', async () => twoStateScenario({ t1: 200e-6, shots: 3000, batchSize: 2 * K })],
+    ['outcome 1 below the threshold (highIsOne false), preparation error, batches of one block and a short one', async () => twoStateScenario({ t1: 5e-6, levels: [1, 0], recordLength: 2e-6, sampleRate: 20e6, shots: 4100, preparationError: 0.05 })],
+    ['baseband (no Q), relaxation, one block and a short one', async () => twoStateScenario({ t1: 3e-6, carrier: 'none', recordLength: 2e-6, sampleRate: 20e6, shots: K + 500, batchSize: 2 * K })],
+    ['flips both ways, relaxation only, no response, band: batches of 2 blocks and a short one', () => oneJump()],
+    ['the same with a pipeline window ending early', () => oneJump({ start: 0.5e-6, length: 1e-6 })],
+    ['full groups: batches of 8 blocks, then 4 blocks and a short one', async () => twoStateScenario({ t1: 200e-6, shots: 12 * K + 808, batchSize: 8 * K })],
+    ['a full group, a group of 2 and a short block', async () => twoStateScenario({ t1: 20e-6, shots: 6 * K + 300, batchSize: 8 * K })],
+    ['groups of 3 blocks, batches starting at blocks 3 and 6, a short last block', async () => twoStateScenario({ t1: 20e-6, shots: 9 * K + 5, batchSize: 3 * K })],
+    ['baseband (no Q, one normal), many jumps, full groups', async () => twoStateScenario({ t1: 2e-6, carrier: 'none', recordLength: 2e-6, sampleRate: 20e6, shots: 8 * K, batchSize: 4 * K })],
+    ['outcome 1 below the threshold, preparation error, many wrong shots, a group of 1 and a short block', async () => twoStateScenario({ t1: 1e-6, levels: [1, 0], recordLength: 2e-6, sampleRate: 20e6, sigmaPerSample: 12, shots: 9 * K + 700, batchSize: 4 * K, preparationError: 0.1 })],
+    ['flips both ways, band, pipeline window ending early, full groups', async () => ({ ...(await oneJump({ start: 0.5e-6, length: 1e-6 })), shots: 12 * K, batchSize: 4 * K })],
+    ['flips both ways, band, 2 full groups in a batch', async () => ({ ...(await oneJump()), shots: 8 * K, batchSize: 8 * K })],
+  ] as [string, Make][])('WebAssembly kernel, %s: the same tally tree and paired counts to the bit', async (_name, make) => {
+    const scenario = await make();
+    expect(kernelRuns(scenario), 'the kernel takes this point').toBe(true);
+    const [fused, perShot] = await both(scenario);
+    expect(fused.points[0]!.tallyStacks[0]!.length).toBeGreaterThan(0);
+    expectSameBits(fingerprint(fused), fingerprint(perShot));
+  });
+
+  it('WebAssembly kernel against the TypeScript path, batch by batch: 1 shot to 9 blocks, node by node', () => {
+    const scenario = { ...twoStateScenario({ t1: 1e-6, recordLength: 2e-6, sampleRate: 20e6, sigmaPerSample: 12, preparationError: 0.1 }), batchSize: 16 * K };
+    const point = compilePoint(scenario);
+    const scoring = { pipelines: [{ cos: 1, sin: 0, threshold: 0.5, highIsOne: true, band: 0.3, lastSample: null }] };
+    const wasm = makeExactScratch(point), ts = makeExactScratch(point);
+    for (const [batch, count] of [[0, 1], [1, 1023], [2, K], [3, K + 1], [1, 2 * K], [2, 3 * K + 17], [5, 4 * K], [7, 5 * K], [3, 9 * K - 1]] as const) {
+      const a = simulateTalliedBatch(point, 0, 'score', batch, count, scoring, wasm);
+      const b = simulateTalliedBatch(point, 0, 'score', batch, count, scoring, ts, false);
+      const nodes = (x: typeof a) => x.nodes[0]!.map((n) => ({ level: n.level, index: n.index, values: numbers(n.tally) }));
+      expect(nodes(a).length, `batch ${batch}, ${count} shots`).toBeGreaterThan(0);
+      expectSameBits(nodes(a), nodes(b), `batch ${batch}, ${count} shots`);
+    }
   });
 
   it('on 2 worker threads: the same bits as the per-shot path on this thread', async () => {

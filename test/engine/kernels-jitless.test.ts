@@ -1,6 +1,6 @@
 /**
  * End to end, the WebAssembly kernels change no number: the same run in a child process under
- * `node --jitless` (no WebAssembly, so the TypeScript loops run: kernel-memory.ts
+ * `node --jitless` (no WebAssembly, so the TypeScript loops run: engine/wasm/memory.ts
  * kernelsAvailable) writes byte-identical tables — the trace engine with its shots table, and
  * the exact engine's fused path (--no-shots-table), whose point here (relaxation only, no
  * response) runs the WebAssembly exact kernel normally. Exactness: common practice, no source.

@@ -1,12 +1,11 @@
 /**
- * The WebAssembly record kernel (plan/record-kernel.ts) gives the numbers of the TypeScript
+ * The WebAssembly record kernel (engine/wasm/record-loops.ts) gives the numbers of the TypeScript
  * loops it replaces in the trace engine, to the bit: white noise onto a waveform or onto the
  * record (RandomStream.addNormalsOnto / addNormals, ziggurat rejections included, the same
  * stream state after), and the dot products with a pipeline's kernels (dotRange, dotRangePair),
- * over even and odd ranges. And the compiled module in the repository is that of the .wat
- * source (wabt compiles it again here). Exactness: common practice, no source.
+ * over even and odd ranges. And the compiled module in the repository is that of its
+ * templates (engine/wasm/source: generated and compiled again here with wabt). Exactness: common practice, no source.
  */
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { makeStream } from '../../src/random/streams.ts';
 import { dotRange, dotRangePair } from '../../src/dsp/integrate.ts';
@@ -14,6 +13,7 @@ import { makeRecordLoops, RecordKernel, TypeScriptRecordLoops } from '../../src/
 import { WASM_BYTES } from '../../src/engine/wasm/kernels-wasm.ts';
 import { compileWat } from '../../scripts/wasm-source.ts';
 import { instantiateKernels } from '../../src/engine/wasm/memory.ts';
+import { kernelsWat } from '../../src/engine/wasm/source/module.ts';
 
 function wave(n: number, seed: number): Float64Array {
   const s = makeStream(seed, 0, 'calibrate', 0), w = new Float64Array(n);
@@ -28,9 +28,8 @@ function sameBits(a: Float64Array, b: Float64Array, what: string): void {
 }
 
 describe('record kernel (WebAssembly)', () => {
-  it('the module in the repository is the compiled kernels.wat (run `npm run build:wasm` after editing it)', async () => {
-    const text = readFileSync(new URL('../../src/engine/wasm/kernels.wat', import.meta.url), 'utf8');
-    const bytes = await compileWat('kernels.wat', text);
+  it('the module in the repository is the compiled text of the templates (run `npm run build:wasm` after editing them)', async () => {
+    const bytes = await compileWat('kernels.wat', kernelsWat());
     expect(Buffer.from(bytes).equals(Buffer.from(WASM_BYTES))).toBe(true);
   });
 
@@ -50,7 +49,7 @@ describe('record kernel (WebAssembly)', () => {
   });
 
   it("the ziggurat's wedge test decides y < Math.exp(t) as Math.exp would, at the edge and away from it (2.2 M cases)", () => {
-    // kernels.wat $below decides most cases from an estimate of exp within 1e-10; cases within
+    // source/ziggurat.ts $below decides most cases from an estimate of exp within 1e-10; cases within
     // 1e-9 of it must call exp. y at exp(t) itself, one ulp either side, 1e-12, 5e-10 and 2e-9
     // away, and at random around it
     const below = instantiateKernels(0).exports.below as (y: number, t: number) => number;

@@ -56,7 +56,7 @@ describe('telegraph noise through the engine (two-level fluctuator; Machlup, J. 
   });
 });
 
-describe('the analytic budget with a slow fluctuator is a mixture, not a Gaussian (plan/noise-budget.ts)', () => {
+describe('the analytic budget with a slow fluctuator is a mixture, not a Gaussian (analysis/noise-budget.ts)', () => {
   it('per-state errors agree with the mixture budget and not with a Gaussian of the same σ', async () => {
     // levels 0 and 1, σ 0.2 from white noise, a fluctuator of 0.5 at π = 0.3 that never switches in a window
     const sc = noiseScenario({

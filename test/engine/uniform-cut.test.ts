@@ -1,5 +1,5 @@
 /**
- * The integer cuts of the four-lane exact kernel (plan/exact-kernel.ts uniformCut): a decision
+ * The integer cuts of the four-lane exact kernel (engine/exact/kernel.ts uniformCut): a decision
  * on u = (r + 0.5)·2^-32 made as (r ≥ cut) XOR flip must agree with the decision on u itself,
  * for every kind the kernel uses (u > c, u ≥ c, u < p), at the cut's edge, at the ends of the
  * range and for random outputs. Exactness: common practice, no source.

@@ -2,7 +2,7 @@
  * fillNormals writes the same numbers from the same draws as zeroing and adding with σ = 1
  * (addNormals), including the ziggurat's rejected draws, and leaves the stream in the same
  * state; and both equal a sequence of nextNormal() calls, rejections included, which the exact
- * engine's one-loop kernel relies on (plan/exact-fast.ts draws its normals that way inline).
+ * engine relies on (its WebAssembly kernel draws its normals that way, one after another).
  * Exactness: common practice, no source.
  */
 import { describe, expect, it } from 'vitest';

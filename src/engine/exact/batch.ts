@@ -9,7 +9,7 @@
  *   the Cholesky factor of that matrix, which keeps paired comparisons between pipelines valid.
  * Histories come from the same code and the same block streams as the trace engine
  * (history.ts), so both engines see identical histories; the distributions of the values agree
- * exactly (tests: test/plan/exact-engine.test.ts).
+ * exactly (tests: test/engine/exact-engine.test.ts).
  *
  * - 1/f noise (correlated across samples and shots): its part of each value is Σ_j G_j·w_j, w the
  *   shot's stretch of the point's 1/f timeline (signal/flicker-timeline.ts, drawn from the point's

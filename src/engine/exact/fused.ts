@@ -3,20 +3,22 @@
  * seeding block, for runs that keep no per-shot table (`run --no-shots-table`). Per block it
  * draws the histories (history.ts) and the values (exact-batch.ts `blockValues`) exactly as
  * `simulateExactBatch` does, then projects, thresholds, attributes the cause and adds the shot
- * to the block's tally leaf, in the same arithmetic order as score.ts and analysis/tally.ts;
- * the common point (two states, one pipeline) runs all of it in one loop (exact-fast.ts).
- * The leaves are therefore bit for bit those that `tallyBatch` builds from a scored ShotBatch,
- * and the run's tables do not change (test/plan/exact-fused.test.ts); only the per-shot arrays
- * are never made, and a worker sends back a few hundred bytes per batch instead of ~60 per shot.
+ * to the block's tally leaf, in the same arithmetic order as score.ts and analysis/tally.ts.
+ * That TypeScript path is the reference; the common point (two states, one pipeline, every jump
+ * the last, no analog response) runs instead through the WebAssembly kernel, four blocks at a
+ * time (kernel.ts), with the same numbers. The leaves are therefore bit for bit those that
+ * `tallyBatch` builds from a scored ShotBatch, and the run's tables do not change
+ * (test/engine/exact-fused.test.ts); only the per-shot arrays are never made, and a worker sends
+ * back a few hundred bytes per batch instead of ~60 per shot.
  */
-import { CAUSE_MAPPING, CAUSE_NOISE, CAUSE_NONE, CAUSE_PREPARATION, CAUSES } from '../../analysis/causes.ts';
+import { attributeCause, CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
 import { emptyTally, type Tally } from '../../analysis/tally.ts';
 import { pushNode, type TallyNode } from '../../analysis/tally-tree.ts';
 import { addDisagreements } from '../../analysis/compare.ts';
 import { momentsFromShiftedSums } from '../../analysis/moments.ts';
-import { fastKernelApplies, fastTallyBlock, finishTwoByTwo } from './fast.ts';
-import { ExactKernel, exactKernelApplies } from './kernel.ts';
+import { ExactKernel, exactKernelApplies, finishTwoByTwo } from './kernel.ts';
 import { SEED_BLOCK, BlockStreams, type StreamPurpose } from '../../random/streams.ts';
+import type { RandomStream } from '../../random/stream.ts';
 import type { CompiledPoint } from '../compile-point.ts';
 import type { FusedPipeline, FusedScoring } from './fused-scoring.ts';
 import { addLinearNoiseValues, blockValues, makeExactScratch, refreshExactScratch, type ExactScratch } from './batch.ts';
@@ -59,8 +61,8 @@ interface FusedScratch {
   sum2: Float64Array;
   /** The WebAssembly kernel of the scratch's current exact tables (made on first use). */
   kernel?: ExactKernel;
-  /** Tallies the four-lane loop reuses for blocks merged at once (two states, two outcomes). */
-  spareLeaves?: Tally[];
+  /** Tallies the kernel may fill again: those of blocks merged into a left sibling. */
+  spareLeaves: Tally[];
 }
 
 const fusedScratches = new WeakMap<ExactScratch, FusedScratch>();
@@ -79,23 +81,22 @@ function fusedScratch(scratch: ExactScratch, outputs: number, pipelines: number,
       wrong: Array.from({ length: pipelines }, u8),
       jumpCause: u8(),
       counts: new Int32Array(states * outcomes), zeros: new Float64Array(SEED_BLOCK), cleanCount: perState(), shift: perState(), sum1: perState(), sum2: perState(),
+      spareLeaves: [],
     };
     fusedScratches.set(scratch, f);
   }
   return f;
 }
 
-/** Shots in the kernel's four-lane loop: four whole seeding blocks. */
-const FOUR_BLOCKS = 4 * SEED_BLOCK;
-
 /**
  * Shots [batch·batchSize, batch·batchSize + count) through the exact engine, scored and tallied
  * per seeding block: the same tally-tree nodes and paired counts as simulateExactBatch → scoreBatch →
- * tallyBatch, without the per-shot arrays.
+ * tallyBatch, without the per-shot arrays. `webAssembly` false runs the TypeScript path even
+ * where the kernel applies (the reference, for tests and benchmarks).
  */
 export function simulateTalliedBatch(
   point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number,
-  scoring: FusedScoring, scratch: ExactScratch = makeExactScratch(point),
+  scoring: FusedScoring, scratch: ExactScratch = makeExactScratch(point), webAssembly = true,
 ): TalliedBatch {
   refreshExactScratch(point, scratch);
   const history = scratchHistory(point, scratch);
@@ -105,58 +106,28 @@ export function simulateTalliedBatch(
   const outcomeOf = Uint8Array.from(sc.states, (s) => s.outcome);
   const nPipes = scoring.pipelines.length;
   const f = fusedScratch(scratch, t.outputs, nPipes, states, outcomes);
+  const firstShot = batch * sc.batchSize;
+  const firstBlock = firstShot / SEED_BLOCK;
+  const nodes: TallyNode[][] = [];
+  for (let p = 0; p < nPipes; p++) nodes.push([]);
+  const pairs = new Float64Array(3 * (nPipes * (nPipes - 1)) / 2);
+  const blocks = new BlockStreams(sc.seed, pointIndex, purpose, firstBlock);
+  const stream = blocks.current();
+  if (webAssembly && exactKernelApplies(point, t, history, nPipes, outcomes)) {
+    if (f.kernel?.tables !== t) f.kernel = new ExactKernel(t);
+    f.kernel.setScoring(history, scoring.pipelines[0]!, outcomeOf);
+    tallyThroughKernel(f.kernel, blocks, stream, count, firstBlock, nodes[0]!, f.spareLeaves);
+    return { kind: 'tallied', point: pointIndex, purpose, batch, firstShot, count, nodes, pairs };
+  }
   const { columns, values } = f;
   // output index of each pipeline's I and Q (−1: no Q, the value is 0)
   const iOut = new Int32Array(nPipes).fill(-1), qOut = new Int32Array(nPipes).fill(-1);
   for (let d = 0; d < t.outputs; d++) (t.isQuadrature[d] ? qOut : iOut)[t.pipeline[d]!] = d;
-  const fast = fastKernelApplies(point, t, history, nPipes, outcomes);
-  // the common point's loop as WebAssembly where it applies (the same numbers), else in TypeScript
-  let kernel: ExactKernel | null = null;
-  if (fast && exactKernelApplies(t, history)) {
-    if (f.kernel?.tables !== t) f.kernel = new ExactKernel(t);
-    kernel = f.kernel;
-    kernel.setScoring(history, scoring.pipelines[0]!, outcomeOf);
-  }
-  const firstShot = batch * sc.batchSize;
-  const nodes: TallyNode[][] = [];
-  for (let p = 0; p < nPipes; p++) nodes.push([]);
-  const firstBlock = firstShot / SEED_BLOCK;
-  const pairs = new Float64Array(3 * (nPipes * (nPipes - 1)) / 2);
-  const zeros = f.zeros;
-  const blocks = new BlockStreams(sc.seed, pointIndex, purpose, firstShot / SEED_BLOCK);
-  const stream = blocks.current(), lane = blocks.current();
-  // four whole blocks at a time through the kernel's four-lane loop (the same tallies), the rest one by one
-  let start = 0;
-  if (kernel) {
-    const four = kernel.fourStreams;
-    for (; start + FOUR_BLOCKS <= count; start += FOUR_BLOCKS) {
-      for (let k = 0; k < 4; k++) {
-        if (start + k > 0) blocks.advanceInto(four.streams[k]!);
-        else four.streams[k]!.s.set(stream.s);
-        blocks.laneInto(four.lanes[k]!);
-      }
-      // blocks 4m … 4m+3 merge into the first one's tally as they are pushed, so the other three
-      // can be the same scratch tallies every time (tallyFourBlocks writes every field)
-      const first = firstBlock + start / SEED_BLOCK;
-      const spare = (f.spareLeaves ??= [0, 1, 2].map(() => emptyTally(states, outcomes)));
-      const leaves = first % 4 === 0
-        ? [emptyTally(states, outcomes), spare[0]!, spare[1]!, spare[2]!]
-        : [0, 1, 2, 3].map(() => emptyTally(states, outcomes));
-      kernel.tallyFourBlocks(four.streams, four.lanes, SEED_BLOCK, leaves);
-      for (let k = 0; k < 4; k++) pushNode(nodes[0]!, { level: 0, index: first + k, tally: leaves[k]! });
-    }
-  }
-  for (let from = start; from < count; from += SEED_BLOCK) {
+  const lane = blocks.current();
+  for (let from = 0; from < count; from += SEED_BLOCK) {
     if (from > 0) blocks.advanceInto(stream);
     blocks.laneInto(lane);
     const len = Math.min(count, from + SEED_BLOCK) - from;
-    if (fast) {
-      const leaf = emptyTally(states, outcomes);
-      if (kernel) kernel.tallyBlock(stream, lane, len, leaf);
-      else fastTallyBlock(history, t, scoring.pipelines[0]!, outcomeOf, stream, lane, len, leaf, columns, scratch.store);
-      pushNode(nodes[0]!, { level: 0, index: firstBlock + from / SEED_BLOCK, tally: leaf });
-      continue;
-    }
     sampleHistories(history, stream, columns, 0, len, scratch.store);
     blockValues(t, lane, scratch.normals, values, columns.initial, 0, len, scratch.store);
     addLinearNoiseValues(point, pointIndex, purpose, scratch, t, values, firstShot + from, 0, len);
@@ -165,13 +136,54 @@ export function simulateTalliedBatch(
       const leaf = emptyTally(states, outcomes);
       const jumpCause = s.lastSample === null ? columns.jumpCause : windowedJumpCause(columns, s.lastSample, len, f.jumpCause);
       tallyBlock(
-        leaf, s, values[iOut[p]!]!, qOut[p]! >= 0 ? values[qOut[p]!]! : zeros, columns, jumpCause, outcomeOf, len, f.wrong[p]!, f,
+        leaf, s, values[iOut[p]!]!, qOut[p]! >= 0 ? values[qOut[p]!]! : f.zeros, columns, jumpCause, outcomeOf, len, f.wrong[p]!, f,
       );
       pushNode(nodes[p]!, { level: 0, index: firstBlock + from / SEED_BLOCK, tally: leaf });
     }
     if (nPipes > 1) addPairCounts(pairs, f.wrong, len);
   }
   return { kind: 'tallied', point: pointIndex, purpose, batch, firstShot, count, nodes, pairs };
+}
+
+/**
+ * Every block of the batch through the kernel (one pipeline, so no paired counts): the whole
+ * blocks in groups of four (the last group may hold fewer), then a short last block in a call
+ * of its own. A group's unused lanes run copies of its first block's streams, and their results
+ * are dropped. `first` is at the batch's first block.
+ */
+function tallyThroughKernel(
+  kernel: ExactKernel, blocks: BlockStreams, first: RandomStream, count: number, firstBlock: number, stack: TallyNode[], spare: Tally[],
+): void {
+  const { streams, lanes } = kernel.fourStreams;
+  const whole = Math.floor(count / SEED_BLOCK), total = Math.ceil(count / SEED_BLOCK);
+  for (let b = 0; b < total;) {
+    const used = b < whole ? Math.min(4, whole - b) : 1;
+    const len = b < whole ? SEED_BLOCK : count - whole * SEED_BLOCK;
+    for (let k = 0; k < 4; k++) {
+      if (k >= used) {
+        streams[k]!.s.set(streams[0]!.s);
+        lanes[k]!.s.set(lanes[0]!.s);
+        continue;
+      }
+      if (b + k > 0) blocks.advanceInto(streams[k]!);
+      else streams[k]!.s.set(first.s);
+      blocks.laneInto(lanes[k]!);
+    }
+    // (loops, not closures: a closure per call costs a __name call under tsx, DEVELOPERS.md)
+    const leaves: Tally[] = [];
+    for (let k = 0; k < used; k++) leaves.push(spare.pop() ?? emptyTally(2, 2));
+    kernel.tallyFourBlocks(streams, lanes, len, leaves, used);
+    for (let k = 0; k < used; k++) pushNode(stack, { level: 0, index: firstBlock + b + k, tally: leaves[k]! });
+    // a tally merged into its left sibling is free again
+    for (let k = 0; k < used; k++) if (!holds(stack, leaves[k]!)) spare.push(leaves[k]!);
+    b += used;
+  }
+}
+
+/** Whether a node of the stack holds the tally. */
+function holds(stack: readonly TallyNode[], tally: Tally): boolean {
+  for (let i = 0; i < stack.length; i++) if (stack[i]!.tally === tally) return true;
+  return false;
 }
 
 /** The first-jump cause as a pipeline that stops reading at `last` sees it (score.ts). */
@@ -217,7 +229,7 @@ function tallyBlock(
     }
     let cause = CAUSE_NONE;
     if (outcome !== outcomeOf[intended]) {
-      cause = prepared !== intended ? CAUSE_PREPARATION : initial !== prepared ? CAUSE_MAPPING : jc !== 0 ? jc : CAUSE_NOISE;
+      cause = attributeCause(intended, prepared, initial, jc !== 0, jc);
       causes[intended * nCauses + cause]!++;
     }
     wrong[i] = cause;

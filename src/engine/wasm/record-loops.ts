@@ -1,7 +1,7 @@
 /**
  * The trace engine's per-sample loops on one point's arrays: white noise onto a record, and the
  * record's dot products with each pipeline's kernels. `RecordKernel` runs them as WebAssembly
- * (kernels.wat); `TypeScriptRecordLoops` runs the TypeScript loops (RandomStream.addNormalsOnto,
+ * (source/record.ts); `TypeScriptRecordLoops` runs the TypeScript loops (RandomStream.addNormalsOnto,
  * dotRange, dotRangePair), which are the reference, and which serve records too long for a
  * WebAssembly memory. Both give the same numbers to the bit; only the speed differs.
  *
@@ -11,7 +11,8 @@
  */
 import { dotRange, dotRangePair } from '../../dsp/integrate.ts';
 import type { RandomStream } from '../../random/stream.ts';
-import { instantiateKernels, kernelsAvailable, LAYOUT, MAX_KERNEL_BYTES } from './memory.ts';
+import { f64Slot, i32Slot, LAYOUT } from './layout.ts';
+import { instantiateKernels, kernelsAvailable, MAX_KERNEL_BYTES } from './memory.ts';
 
 interface Exports {
   addNormalsOnto(out: number, base: number, count: number, sigma: number): void;
@@ -78,7 +79,7 @@ export class TypeScriptRecordLoops implements RecordLoops {
   }
 }
 
-/** The WebAssembly loops (kernels.wat addNormalsOnto, dot, dotPair). */
+/** The WebAssembly loops (source/record.ts addNormalsOnto, dot, dotPair). */
 export class RecordKernel implements RecordLoops {
   /** The record, `samples` long, in the instance's memory. */
   readonly record: Float64Array;
@@ -92,8 +93,8 @@ export class RecordKernel implements RecordLoops {
   constructor(samples: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[]) {
     const { buffer, exports } = instantiateKernels(kernelBytes(samples, waveforms.length, pipelines.length));
     this.exports = exports as unknown as Exports;
-    this.state = new Int32Array(buffer, LAYOUT.stream, 4);
-    this.result = new Float64Array(buffer, LAYOUT.dotResults, 2);
+    this.state = i32Slot(buffer, 'stream');
+    this.result = f64Slot(buffer, 'dotResults');
     let next: number = LAYOUT.arrays;
     const place = (values: Float64Array | null): number => {
       const at = next;

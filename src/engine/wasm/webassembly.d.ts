@@ -11,6 +11,9 @@ declare namespace WebAssembly {
     constructor(descriptor: { initial: number; maximum?: number });
     readonly buffer: ArrayBuffer;
   }
+  class Global {
+    readonly value: number;
+  }
   class Instance {
     constructor(module: Module, imports: Record<string, Record<string, unknown>>);
     readonly exports: Record<string, unknown>;
