@@ -28,7 +28,7 @@ import { instantiateKernels, kernelsAvailable, MAX_KERNEL_BYTES } from '../wasm/
  * and WebAssembly with SIMD available on this thread.
  */
 export function exactKernelApplies(point: CompiledPoint, t: ExactTables, h: HistoryTables, pipelines: number, outcomes: number): boolean {
-  return point.noise.flicker === null && h.states === 2 && outcomes === 2 && pipelines === 1
+  return point.noise.kinds.length === 0 && h.states === 2 && outcomes === 2 && pipelines === 1
     && t.outputs >= 1 && t.outputs <= 2 && t.columns.length <= 2
     && t.response === null && singleJumpChain(h) && prefixBytes(t) <= MAX_KERNEL_BYTES && kernelsAvailable();
 }
