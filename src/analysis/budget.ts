@@ -6,8 +6,10 @@
  * shot that starts in state b is Gaussian with the noise σ around a mean set by its path. With
  * no jump the mean is m_b; a first jump b→c at a time t inside the window moves the mean to the
  * weighted mix of the two levels on either side of t (Barthel's μ_b + (μ_c − μ_b)·(1 − t/τ) for
- * a boxcar); a jump before the window gives m_c. Only the first jump is modelled (a second jump
- * within the window is neglected: first order in the landing state's rates). Preparation and
+ * a boxcar); a jump before the window gives m_c. That closed form is exact when every jump ends
+ * the chain; when a jump can be followed by others (a stochastic turn-on, a chain of
+ * intermediate states, excitation and relaxation both), the value's distribution over every path
+ * comes from chain-values.ts and is convolved with the Gaussian noise. Preparation and
  * mapping errors replace the starting state. The probability that a shot is wrong AND owes it to
  * each cause is computed with the same precedence as the simulator's attribution
  * (preparation, then mapping, then the first in-window jump, then noise), so the causes add up
@@ -15,6 +17,8 @@
  */
 import { gaussianTail } from './special.ts';
 import { CAUSES, CAUSE_MAPPING, CAUSE_NOISE, CAUSE_PREPARATION } from './causes.ts';
+import { chainValues, onlyTerminalJumps, type ValuesByCause } from './chain-values.ts';
+import type { ResponseTables } from '../signal/response.ts';
 
 /** What the budget needs to know about a point and one pipeline, in plain arrays. */
 export interface BudgetInput {
@@ -27,6 +31,8 @@ export interface BudgetInput {
   waveforms: readonly Float64Array[];
   /** Variance of the integrated value from all noise sources. */
   noiseVariance: number;
+  /** The analog response on the level path (its transients after jumps), or null/absent. */
+  response?: ResponseTables | null;
   /** Rate matrix rate[from·N + to] (1/s) and the cause code of each jump. */
   rate: Float64Array;
   jumpCause: Uint8Array;
@@ -95,7 +101,12 @@ export function analyticBudget(input: BudgetInput): Budget {
   };
   const fs = input.sampleRate;
   const lastTime = (hi - 1) / fs;
-  const startError = (b: number, outcome: number): StartError => {
+  // a first jump that ends the chain, and no analog response: the closed form below; otherwise
+  // every path, with the response's transients (chain-values.ts)
+  const terminal = onlyTerminalJumps(input.rate, n) && !input.response;
+  const pathValues = new Map<number, ValuesByCause>();
+  const startError = (b: number, outcome: number): StartError => terminal ? firstJumpError(b, outcome) : chainError(b, outcome);
+  const firstJumpError = (b: number, outcome: number): StartError => {
     const jumps = new Float64Array(CAUSES.length);
     const jumpsNoiseFree = new Float64Array(CAUSES.length);
     let exit = 0;
@@ -120,6 +131,31 @@ export function analyticBudget(input: BudgetInput): Budget {
     }
     const full = noJump + jumps.reduce((a, x) => a + x, 0);
     return { noJump, jumps, jumpsNoiseFree, full };
+  };
+
+  const chainError = (b: number, outcome: number): StartError => {
+    let byCause = pathValues.get(b);
+    if (!byCause) {
+      const scale = Math.max(...means.map(Math.abs), sigma);
+      byCause = chainValues(input, b, sigma > 0 ? sigma / 16 : scale / 4096);
+      pathValues.set(b, byCause);
+    }
+    const jumps = new Float64Array(CAUSES.length);
+    const jumpsNoiseFree = new Float64Array(CAUSES.length);
+    let noJump = 0;
+    for (const [cause, { values, mass }] of byCause) {
+      let p = 0, pNoiseFree = 0;
+      for (let i = 0; i < values.length; i++) {
+        p += mass[i]! * wrong(values[i]!, outcome);
+        pNoiseFree += mass[i]! * wrongNoiseFree(values[i]!, outcome);
+      }
+      if (cause === 0) noJump = p;
+      else {
+        jumps[cause] += p;
+        jumpsNoiseFree[cause] += pNoiseFree;
+      }
+    }
+    return { noJump, jumps, jumpsNoiseFree, full: noJump + jumps.reduce((a, x) => a + x, 0) };
   };
 
   const perState: StateBudget[] = [];

@@ -66,11 +66,11 @@ export function budgetWithNoise(input: Omit<BudgetInput, 'noiseVariance'>, plan:
   const mixture = noiseMixture(plan, input.kernel, input.lo, input.hi, input.sampleRate);
   const parts = mixture.components.map((c) => ({
     weight: c.weight,
-    budget: analyticBudget({ ...input, noiseVariance: mixture.gaussianVariance, threshold: input.threshold - c.offset }),
+    budget: analyticBudget({ ...input, response: plan.response, noiseVariance: mixture.gaussianVariance, threshold: input.threshold - c.offset }),
   }));
   if (parts.length === 1 && mixture.components[0]!.offset === 0) {
     // Gaussian noise only: the plain budget with the total variance
-    return analyticBudget({ ...input, noiseVariance: mixture.prediction.variance });
+    return analyticBudget({ ...input, response: plan.response, noiseVariance: mixture.prediction.variance });
   }
   const first = parts[0]!.budget;
   const blend = (pick: (b: Budget) => Float64Array | number): Float64Array | number => {

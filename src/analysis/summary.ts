@@ -1,6 +1,6 @@
 /**
- * The per-point result a user reads: error per state with intervals, the mean error, SNR
- * (simulated from clean shots, and analytic), and the budget compared cause by cause.
+ * The per-point result a user reads: error per state with intervals, the mean error, the
+ * visibility, SNR (simulated from clean shots, and analytic), and the budget compared cause by cause.
  */
 import { CAUSES, CAUSE_NONE } from './causes.ts';
 import { wilsonInterval, type RateInterval } from './intervals.ts';
@@ -62,7 +62,25 @@ export interface PointSummary {
   postSelectedError: RateInterval;
   /** (wrong kept + discarded) / shots: discards counted as failures, never below meanError. */
   discardsAsFailuresError: RateInterval;
+  /** Visibility 1 − P(0|1) − P(1|0), the errors of each prepared outcome pooled over its states, with its interval. */
+  visibility: { value: number; low: number; high: number };
+  /** The analytic visibility: each prepared outcome's error weighted by the prepared mixture. */
+  analyticVisibility: number;
   agreement: boolean;
+}
+
+/**
+ * Visibility 1 − e0 − e1 with an interval for the sum of two independent binomial rates: the
+ * Wilson limits of each combined as in Newcombe's hybrid score method (Newcombe, Stat. Med. 17,
+ * 873 (1998), method 10, written for a difference; for a sum the lower limit pairs both lower
+ * Wilson limits and the upper limit both upper ones).
+ */
+export function visibilityInterval(errors: readonly [number, number], shots: readonly [number, number], confidence: number): { value: number; low: number; high: number } {
+  const w = [0, 1].map((o) => wilsonInterval(errors[o]!, shots[o]!, confidence));
+  const sum = w[0]!.rate + w[1]!.rate;
+  const below = Math.sqrt((w[0]!.rate - w[0]!.low) ** 2 + (w[1]!.rate - w[1]!.low) ** 2);
+  const above = Math.sqrt((w[0]!.high - w[0]!.rate) ** 2 + (w[1]!.high - w[1]!.rate) ** 2);
+  return { value: 1 - sum, low: 1 - sum - above, high: 1 - sum + below };
 }
 
 function compare(cause: string, errors: number, shots: number, analytic: number, alone: number): CauseComparison {
@@ -122,6 +140,18 @@ export function summarise(
   });
   const sigma = pooledDof > 0 ? Math.sqrt(pooledM2 / pooledDof) : NaN;
   const separation = Math.abs(groupMean[1]! / groupWeight[1]! - groupMean[0]! / groupWeight[0]!);
+  // the errors of each prepared outcome: its states' shots pooled, and the analytic ones weighted by the mixture
+  const outcomeErrors: [number, number] = [0, 0], outcomeShots: [number, number] = [0, 0];
+  const analyticOutcome = [0, 0], outcomeWeight = [0, 0];
+  states.forEach((st, s) => {
+    const o = outcomeOf[s]!;
+    if (o > 1) return;
+    outcomeErrors[o] += st.errors;
+    outcomeShots[o] += st.shots;
+    const w = prepare[s]!;
+    analyticOutcome[o]! += w * budget.perState[s]!.total;
+    outcomeWeight[o]! += w;
+  });
   const discarded = tally.discarded.reduce((a, x) => a + x, 0);
   const discardedWrong = tally.discardedWrong.reduce((a, x) => a + x, 0);
   const keptWrong = totalErrors - discardedWrong;
@@ -134,6 +164,8 @@ export function summarise(
     discarded, discardFraction: totalShots > 0 ? discarded / totalShots : 0,
     postSelectedError: wilsonInterval(keptWrong, totalShots - discarded, REPORT_CONFIDENCE),
     discardsAsFailuresError: wilsonInterval(keptWrong + discarded, totalShots, REPORT_CONFIDENCE),
+    visibility: visibilityInterval(outcomeErrors, outcomeShots, REPORT_CONFIDENCE),
+    analyticVisibility: 1 - analyticOutcome[0]! / outcomeWeight[0]! - analyticOutcome[1]! / outcomeWeight[1]!,
     agreement: meanTotal.agrees && meanCauses.every((c) => c.agrees) && states.every((s) => s.agrees),
   };
 }

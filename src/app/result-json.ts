@@ -17,6 +17,8 @@ export function resultToJson(result: RunResult, extra: Record<string, unknown> =
     shots: s.shots,
     errorByState: Object.fromEntries(s.states.map((st) => [st.state, { ...interval(st.error), shots: st.shots, errors: st.errors }])),
     meanError: interval(s.meanError),
+    visibility: s.visibility,
+    analyticVisibility: s.analyticVisibility,
     snr: s.snr,
     analyticSnr: s.analyticSnr,
     snrConvention: 'separation / standard deviation of the integrated value (amplitude SNR)',

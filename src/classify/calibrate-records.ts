@@ -4,9 +4,10 @@
  * integration weights.
  *
  * Matched weights (Gambetta, Braff, Wallraff, Girvin & Schoelkopf, Phys. Rev. A 76, 012325
- * (2007)): w ∝ Δμ, the mean projected record of the calibration shots prepared in outcome 1
- * minus that of outcome 0, bin by bin. It includes relaxation, so under T1 decay Δμ(t) falls as
- * e^(−t/T1) and so do the weights.
+ * (2007)): w ∝ Δμ/v, the mean projected record of the calibration shots prepared in outcome 1
+ * minus that of outcome 0, bin by bin, over each bin's noise variance v (pooled from clean
+ * shots; dsp/weights.ts says why the variance: a demodulated record's noise is not stationary).
+ * Δμ includes relaxation, so under T1 decay Δμ(t) falls as e^(−t/T1) and so do the weights.
  * Optimal linear weights: w ∝ C⁻¹·Δμ with C the noise covariance of the bins, pooled over the
  * states from CLEAN calibration shots (no preparation or mapping error, no jump up to the window
  * end) about each state's own mean (the Fisher discriminant of the noise; Fisher, Ann. Eugen. 7,
@@ -99,10 +100,30 @@ export function pooledNoiseCovariance(r: CalibrationRecords, states: number, pip
   return pooled;
 }
 
-/** Matched or optimal weights of a pipeline from its calibration records. */
+/** Per-bin noise variance, pooled over states from clean records about each state's mean (the diagonal of pooledNoiseCovariance). */
+export function pooledNoiseVariance(r: CalibrationRecords, states: number, pipelineName: string): Float64Array {
+  const n = r.bins;
+  const pooled = new Float64Array(n);
+  let dof = 0;
+  for (let s = 0; s < states; s++) {
+    const { mean, n: count } = meanOf(r, (i) => r.cleanState[i] === s);
+    if (count < 2) continue;
+    for (let i = 0; i < r.count; i++) {
+      if (r.cleanState[i] !== s) continue;
+      const base = i * n;
+      for (let b = 0; b < n; b++) pooled[b] += (r.projected[base + b]! - mean[b]!) ** 2;
+    }
+    dof += count - 1;
+  }
+  if (dof < 1) throw new Error(`pipeline "${pipelineName}": no clean calibration shots to estimate the noise per bin; raise calibrationShots`);
+  for (let b = 0; b < n; b++) pooled[b]! /= dof;
+  return pooled;
+}
+
+/** Matched or optimal weights of a pipeline from its calibration records (the noise from clean shots). */
 export function calibratedWeights(pipelineName: string, kind: 'matched' | 'optimal', r: CalibrationRecords, states: number): Float64Array {
   const delta = meanDifference(r);
-  if (kind === 'matched') return matchedWeights(delta);
+  if (kind === 'matched') return matchedWeights(delta, pooledNoiseVariance(r, states, pipelineName));
   return optimalLinearWeights(delta, pooledNoiseCovariance(r, states, pipelineName));
 }
 

@@ -6,8 +6,9 @@ import type { PipelineSpec } from '../scenario/types.ts';
 import type { ClassifierKind } from './contract.ts';
 import { thresholdClassifier } from './threshold-classifier.ts';
 import { likelihoodClassifier } from './likelihood-classifier.ts';
+import { peakClassifier } from './peak-classifier.ts';
 
-export const CLASSIFIERS: readonly ClassifierKind[] = [thresholdClassifier, likelihoodClassifier];
+export const CLASSIFIERS: readonly ClassifierKind[] = [thresholdClassifier, likelihoodClassifier, peakClassifier];
 
 /** The classifier every pipeline uses unless it names another. */
 export const DEFAULT_CLASSIFIER = thresholdClassifier.name;

@@ -44,6 +44,8 @@ export function formatResult(result: RunResult): string {
         `[${formatProbability(s.meanError.low)}, ${formatProbability(s.meanError.high)}]`,
         formatProbability(s.analyticMean), formatProbability(s.analyticLinearSum), s.agreement ? 'yes' : 'NO']);
       out.push(rows(table));
+      const v = s.visibility;
+      out.push(`  visibility 1 − P(0|1) − P(1|0): ${v.value.toFixed(4)} [${v.low.toFixed(4)}, ${v.high.toFixed(4)}] (95%), analytic ${Number.isNaN(s.analyticVisibility) ? '—' : s.analyticVisibility.toFixed(4)}`);
       const causes: string[][] = [['  cause', 'wrong shots', 'simulated', 'analytic', 'agrees']];
       for (const c of s.meanCauses) {
         if (c.errors === 0 && !(c.analytic >= 1e-12)) continue;

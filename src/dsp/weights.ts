@@ -1,6 +1,6 @@
 /**
  * Integration weights over a record of n samples (or decimated bins): the integrated value is
- * v = Σ_k w_k·y_k. Three designs — boxcar, matched (∝ mean trace difference), and optimal linear
+ * v = Σ_k w_k·y_k. Three designs — boxcar, matched (∝ mean trace difference over the noise variance), and optimal linear
  * (C⁻¹·Δμ) — plus the noise covariance estimator that the last one needs.
  *
  * Normalisation (so that v stays in signal units and the designs compare on one scale):
@@ -46,11 +46,24 @@ function scaleToBoxcarSeparation(w: Float64Array, meanDifference: Float64Array):
 }
 
 /**
- * Matched-filter weights w ∝ Δμ (mean trace of outcome 1 minus outcome 0), scaled so that
+ * Matched-filter weights w_k ∝ Δμ_k/v_k (the mean trace of outcome 1 minus outcome 0, over each
+ * sample's noise variance; w ∝ Δμ when no variances are given), scaled so that
  * Σ w·Δμ = mean(Δμ). For a window, pass `meanDifference.subarray(start, start + length)`.
+ *
+ * Why the variance: the matched filter of a signal Δμ in independent noise of variances v_k is
+ * Δμ_k/v_k (it maximises (Σ w·Δμ)²/Σ w²·v; Gambetta et al., Phys. Rev. A 76, 012325 (2007), with
+ * a diagonal covariance). A demodulated record has non-stationary noise: white noise n_k times
+ * the reference 2cos θ_k has variance 4σ²cos²θ_k, while the signal L·cos θ_k demodulates to
+ * L(1 + cos 2θ_k) = 2L·cos²θ_k. So Δμ_k/v_k = ΔL/(2σ²) is flat — the boxcar, which is optimal
+ * there — whereas w ∝ Δμ would keep the 2f ripple and give ⟨cos⁴⟩/√⟨cos⁶⟩ ÷ √⟨cos²⟩ = 3/√10 ≈ 0.949
+ * of the boxcar's SNR. A sample with no noise (v_k = 0) carries no signal there either: weight 0.
  */
-export function matchedWeights(meanDifference: Float64Array, out: Float64Array = new Float64Array(meanDifference.length)): Float64Array {
-  out.set(meanDifference);
+export function matchedWeights(
+  meanDifference: Float64Array, noiseVariance?: Float64Array, out: Float64Array = new Float64Array(meanDifference.length),
+): Float64Array {
+  if (noiseVariance) {
+    for (let k = 0; k < meanDifference.length; k++) out[k] = noiseVariance[k]! > 0 ? meanDifference[k]! / noiseVariance[k]! : 0;
+  } else out.set(meanDifference);
   return scaleToBoxcarSeparation(out, meanDifference);
 }
 

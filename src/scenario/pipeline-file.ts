@@ -63,9 +63,11 @@ export function readPipelineFile(text: string, file: string): AnalyzeFile {
   const parsed = analyzeSchema.safeParse(raw, { reportInput: true, error: fallbackMessage });
   if (!parsed.success) throw zodErrorToInputError(file, parsed.error);
   const classifier = classifierNamed(parsed.data.classifier ?? DEFAULT_CLASSIFIER);
-  if (classifier.needsDevice !== null) {
-    const usable = CLASSIFIERS.filter((k) => k.needsDevice === null).map((k) => `"${k.name}"`).join(' or ');
-    throw new InputError(file, 'classifier', `${usable} (${classifier.needsDevice})`, `"${classifier.name}"`);
+  // analyze decides on each record's integrated value (app/analyze.ts): classifiers that read
+  // the bins, or that need the simulated device, are refused here
+  if (classifier.needsDevice !== null || classifier.readsBins) {
+    const usable = CLASSIFIERS.filter((k) => k.needsDevice === null && !k.readsBins).map((k) => `"${k.name}"`).join(' or ');
+    throw new InputError(file, 'classifier', `${usable} (analyze decides on the integrated value of each record)`, `"${classifier.name}"`);
   }
   return { file, canonical: canonicalJson(raw), doc: parsed.data, raw };
 }

@@ -29,6 +29,22 @@ export function exponentialQuadraticForm(x: Float64Array, lo: number, hi: number
   return total;
 }
 
+/**
+ * Σ_k Σ_k' x[k]·y[k']·ρ^|k−k'| over [lo, hi) in O(n): the covariance of Σ x[k]·z_k and
+ * Σ y[k]·z_k for a sequence z of unit variance and autocorrelation ρ^|d|. With x = y it is
+ * exponentialQuadraticForm.
+ */
+export function exponentialBilinearForm(x: Float64Array, y: Float64Array, lo: number, hi: number, rho: number): number {
+  let total = 0;
+  let tailX = 0, tailY = 0; // Σ_{k'<k} x[k']·ρ^(k−k'), and the same of y
+  for (let k = lo; k < hi; k++) {
+    tailX = rho * (tailX + (k > lo ? x[k - 1]! : 0));
+    tailY = rho * (tailY + (k > lo ? y[k - 1]! : 0));
+    total += x[k]! * y[k]! + x[k]! * tailY + y[k]! * tailX;
+  }
+  return total;
+}
+
 /** |H(f)|² of a kernel on [lo, hi) sampled at fs: |Σ_k K[k]·e^(−i2πf·k/fs)|². */
 export function kernelPowerGain(kernel: Float64Array, lo: number, hi: number, sampleRate: number, f: number): number {
   const w = (2 * Math.PI * f) / sampleRate;

@@ -8,10 +8,13 @@
  * - `addLinearToRecord` adds the kinds that have one, for when the record is used beyond the
  *   linear values (a digitizer, kept traces or bins);
  * - `linearValue` gives those kinds' part of a pipeline's value directly (Σ_j G_j·w_j for 1/f:
- *   the same linear map as adding them to the record and integrating, at a fraction of the cost).
+ *   the same linear map as adding them to the record and integrating, at a fraction of the cost);
+ * - `addShotNoise` adds the kinds drawn afresh for each shot (correlated noise) after the shot's
+ *   white noise, from the shot's own stream.
  * Kinds are visited in registry order.
  */
 import { makeStream, type StreamPurpose } from '../random/streams.ts';
+import type { RandomStream } from '../random/stream.ts';
 import type { NoiseKindRuntime } from './noise/contract.ts';
 import type { NoisePlan } from './noise-plan.ts';
 
@@ -27,6 +30,8 @@ export interface NoiseRuntime {
   linearValue(pipeline: number, quadrature: boolean): number;
   /** Whether any kind has a linear path (else linearValue is 0 and addLinearToRecord does nothing). */
   readonly hasLinear: boolean;
+  /** Adds the current shot's noise of the kinds drawn per shot, from the shot's own `stream` (after its white noise). */
+  addShotNoise(record: Float64Array, lo: number, hi: number, stream: RandomStream): void;
 }
 
 /** Makes the noise runtime of a point's plan for one purpose's timeline. */
@@ -35,6 +40,7 @@ export function makeNoiseRuntime(plan: NoisePlan, seed: number, point: number, p
   const all = plan.kinds.map((k) => ({ linear: k.compiled.linear, runtime: k.compiled.runtime(purpose, stream) }));
   const recordOnly: NoiseKindRuntime[] = all.filter((k) => !k.linear).map((k) => k.runtime);
   const linear: NoiseKindRuntime[] = all.filter((k) => k.linear).map((k) => k.runtime);
+  const perShot = plan.kinds.flatMap((k) => (k.compiled.perShot ? [k.compiled.perShot] : []));
   return {
     hasLinear: linear.length > 0,
     shot(shot) {
@@ -45,6 +51,9 @@ export function makeNoiseRuntime(plan: NoisePlan, seed: number, point: number, p
     },
     addLinearToRecord(record, lo, hi) {
       for (const r of linear) r.addToRecord(record, lo, hi);
+    },
+    addShotNoise(record, lo, hi, stream) {
+      for (const k of perShot) k.addShot(record, lo, hi, stream);
     },
     linearValue(p, quadrature) {
       if (linear.length === 1) return linear[0]!.value!(p, quadrature);

@@ -1,7 +1,8 @@
 /**
- * Calibration from decimated records (plan/calibrate-bins.ts): the prepared mixture after
- * preparation and mapping errors, and the parts of the likelihood classifier — model bin means,
- * σ per bin from clean calibration shots, prior at the window start.
+ * Calibration from decimated records (classify/calibrate-records.ts, likelihood-classifier.ts):
+ * the prepared mixture after preparation and mapping errors, and the parts of the likelihood
+ * classifier — bin means and σ per bin learned from the calibration records, prior at the window
+ * start.
  */
 import { describe, expect, it } from 'vitest';
 import { gatherRecords } from '../../src/classify/calibrate-records.ts';
@@ -41,8 +42,10 @@ describe('likelihood calibration (baseband, block average of D = 10)', () => {
     const chain = point.pipelines[0]!.chain;
     const model = likelihoodClassifier.fit!(gatherRecords('hmm', chain, 0, [0, 1], [batch], cal.axis), chain, cal.axis, point);
     expect(model).toEqual(stored);
-    expect(Array.from(model.means[0]!)).toEqual([0, 0, 0, 0, 0]);
-    for (const m of model.means[1]!) expect(m).toBeCloseTo(1, 12); // level 1, a block average of 10 samples
+    // learned from the records (hmm-learning.ts): the levels 0 and 1 (a block average of 10
+    // samples) to within a few standard errors of 4096 shots × 5 bins of σ 0.63 (~0.005)
+    for (const m of model.means[0]!) expect(Math.abs(m)).toBeLessThan(0.02);
+    for (const m of model.means[1]!) expect(Math.abs(m - 1)).toBeLessThan(0.02);
     const hmm = makeHmmClassifier(stored);
     expect(hmm.maxLength).toBe(5);
     // log-likelihoods of a record at the ground level: the prior odds are e^(−t/T1)-weighted

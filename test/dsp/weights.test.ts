@@ -74,6 +74,17 @@ describe('matchedWeights', () => {
   it('rejects a zero mean difference', () => {
     expect(() => matchedWeights(new Float64Array(5))).toThrow(RangeError);
   });
+
+  it('on a demodulated sine carrier with white noise, the noise-weighted template is the boxcar; Δμ alone keeps 3/√10 of its SNR (the algebra in dsp/weights.ts)', () => {
+    // 200 samples over whole carrier periods: Δμ_k = 2·cos²θ_k (ΔL = 1), v_k = 4σ²·cos²θ_k (σ = 3)
+    const n = 200, theta = (k: number) => (2 * Math.PI * k) / 20 + 0.3;
+    const dm = Float64Array.from({ length: n }, (_, k) => 2 * Math.cos(theta(k)) ** 2);
+    const v = Float64Array.from({ length: n }, (_, k) => 36 * Math.cos(theta(k)) ** 2);
+    const snr = (w: Float64Array) => dot(w, dm) / Math.sqrt(dot(w, Float64Array.from(w, (x, k) => x * v[k]!)));
+    const boxcar = snr(new Float64Array(n).fill(1 / n));
+    close('noise-weighted / boxcar', snr(matchedWeights(dm, v)) / boxcar, 1, 1e-12);
+    close('Δμ alone / boxcar', snr(matchedWeights(dm)) / boxcar, 3 / Math.sqrt(10), 1e-12);
+  });
 });
 
 describe('choleskyFactor and choleskySolve', () => {

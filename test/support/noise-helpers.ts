@@ -8,6 +8,7 @@ import { responsePowerGain } from '../../src/signal/response.ts';
 import type { Scenario, SignalSpec } from '../../src/scenario/types.ts';
 import type { FlickerSourceSpec } from '../../src/signal/noise/flicker.ts';
 import type { TelegraphSourceSpec } from '../../src/signal/noise/telegraph.ts';
+import type { CorrelatedSourceSpec } from '../../src/signal/noise/correlated.ts';
 import { twoStateScenario, type TwoStateOptions } from './scenarios.ts';
 
 /** A 1/f source spec (signal units). */
@@ -18,6 +19,11 @@ export function flicker(injection: 'sensor' | 'amplifier', amplitude: number, lo
 /** A fluctuator spec (signal units). */
 export function fluctuator(name: string, amplitude: number, rateUp: number, rateDown: number, injection: 'sensor' | 'amplifier'): TelegraphSourceSpec {
   return { kind: 'telegraph', name, amplitude, rateUp, rateDown, injection, inDetuning: false };
+}
+
+/** A correlated (Ornstein–Uhlenbeck) source spec (signal units). */
+export function correlated(name: string, sigma: number, correlationTime: number, injection: 'sensor' | 'amplifier'): CorrelatedSourceSpec {
+  return { kind: 'correlated', name, sigma, correlationTime, injection, inDetuning: false };
 }
 
 /** The sources of one kind of a signal section. */

@@ -20,6 +20,8 @@
  */
 import { choleskyLower } from '../../analysis/cholesky.ts';
 import { kernelPrefixSums, whiteCovariance, type SupportedKernel } from '../../analysis/linear-statistic.ts';
+import { seenFrom } from '../../analysis/noise-prediction.ts';
+import type { NoisePlan } from '../../signal/noise-plan.ts';
 import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../../random/streams.ts';
 import type { RandomStream } from '../../random/stream.ts';
 import { makeScratch, makeShotBatch, noiseRuntime, scratchHistory, type BatchScratch, type ShotBatch } from '../trace/batch.ts';
@@ -77,6 +79,31 @@ function decayedSuffixSums(kernel: Float64Array, carrier: Float64Array, lo: numb
   return e;
 }
 
+/**
+ * Adds to the outputs' covariance that of the noise kinds drawn per shot (signal/noise/:
+ * correlated noise), each source seen from its injection point: the outputs' joint Gaussian then
+ * holds every noise that is independent between shots.
+ */
+function addPerShotCovariance(covariance: Float64Array, kernels: readonly SupportedKernel[], noise: NoisePlan): Float64Array {
+  const n = kernels.length;
+  for (const { compiled } of noise.kinds) {
+    const perShot = compiled.perShot;
+    if (!perShot) continue;
+    compiled.sources.forEach((info, s) => {
+      const seen = kernels.map((k) => seenFrom(noise, info.injection, k.kernel, k.lo, k.hi));
+      for (let a = 0; a < n; a++) {
+        for (let b = 0; b <= a; b++) {
+          const lo = Math.min(kernels[a]!.lo, kernels[b]!.lo), hi = Math.max(kernels[a]!.hi, kernels[b]!.hi);
+          const c = perShot.covariance(s, seen[a]!, seen[b]!, lo, hi);
+          covariance[a * n + b] += c;
+          if (a !== b) covariance[b * n + a] += c;
+        }
+      }
+    });
+  }
+  return covariance;
+}
+
 /** Builds the exact engine's tables for one compiled point. */
 export function exactTables(point: CompiledPoint): ExactTables {
   const kernels: SupportedKernel[] = [];
@@ -97,7 +124,7 @@ export function exactTables(point: CompiledPoint): ExactTables {
       full[d * states + s] = p[k.hi - k.lo]!;
     }
   });
-  const { factor } = choleskyLower(whiteCovariance(kernels, point.whiteSigma), n);
+  const { factor } = choleskyLower(addPerShotCovariance(whiteCovariance(kernels, point.whiteSigma), kernels, point.noise), n);
   const columns: number[] = [];
   for (let j = 0; j < n; j++) if (factor[j * n + j]! > 0) columns.push(j);
   const r = point.noise.response;

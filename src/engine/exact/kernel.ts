@@ -23,12 +23,14 @@ import { f64Slot, i32Slot, LAYOUT, SlotWriter, type SlotName } from '../wasm/lay
 import { instantiateKernels, kernelsAvailable, MAX_KERNEL_BYTES } from '../wasm/memory.ts';
 
 /**
- * Whether the WebAssembly kernel handles a point (see the file comment): its shape, every jump
- * the last (singleJumpChain), no analog response, prefix sums that fit in a WebAssembly memory,
+ * Whether the WebAssembly kernel handles a point (see the file comment): its shape, no noise
+ * with a timeline (1/f), every jump the last (singleJumpChain), no analog response, prefix sums
+ * that fit in a WebAssembly memory,
  * and WebAssembly with SIMD available on this thread.
  */
 export function exactKernelApplies(point: CompiledPoint, t: ExactTables, h: HistoryTables, pipelines: number, outcomes: number): boolean {
-  return point.noise.kinds.length === 0 && h.states === 2 && outcomes === 2 && pipelines === 1
+  // noise beyond white only of the kinds drawn per shot: their covariance is in the Cholesky factor
+  return point.noise.kinds.every((k) => k.compiled.perShot !== undefined) && h.states === 2 && outcomes === 2 && pipelines === 1
     && t.outputs >= 1 && t.outputs <= 2 && t.columns.length <= 2
     && t.response === null && singleJumpChain(h) && prefixBytes(t) <= MAX_KERNEL_BYTES && kernelsAvailable();
 }

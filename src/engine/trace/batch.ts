@@ -173,6 +173,7 @@ export function simulateBatch(
         if (digitizer) slow.addLinearToRecord(record, lo, hi);
       }
       if (!plain) kernel.addNoise(stream, lo, hi, point.whiteSigma);
+      if (slow) slow.addShotNoise(record, lo, hi, stream);
       if (digitizer) clipped += digitize(record, lo, hi, digitizer);
       const carried = slow !== null && slow.hasLinear && digitizer === null;
       for (let p = 0; p < point.pipelines.length; p++) {

@@ -27,6 +27,10 @@ export function summaryColumns(points: readonly PointRows[], unit: string, swept
     col('mean_error_low', 'f64', '', (r) => r.s.meanError.low),
     col('mean_error_high', 'f64', '', (r) => r.s.meanError.high),
     col('analytic_mean_error', 'f64', '', (r) => r.s.analyticMean),
+    col('visibility', 'f64', '', (r) => r.s.visibility.value),
+    col('visibility_low', 'f64', '', (r) => r.s.visibility.low),
+    col('visibility_high', 'f64', '', (r) => r.s.visibility.high),
+    col('analytic_visibility', 'f64', '', (r) => r.s.analyticVisibility),
     col('analytic_linear_sum', 'f64', '', (r) => r.s.analyticLinearSum),
     ...states.flatMap((st, k) => [
       col(`error_${st}`, 'f64', '', (r) => r.s.states[k]!.error.rate),

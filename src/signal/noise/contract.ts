@@ -156,6 +156,14 @@ export interface NoiseKindRuntime {
   value?(pipeline: number, quadrature: boolean): number;
 }
 
+/** The per-shot side of a kind (CompiledNoiseKind.perShot). */
+export interface PerShotNoise {
+  /** Covariance of Σ_k xa[k]·n_s(t_k) and Σ_k xb[k]·n_s(t_k) over [lo, hi) for source s, x seen from its injection point. */
+  covariance(s: number, xa: Float64Array, xb: Float64Array, lo: number, hi: number): number;
+  /** Adds one shot's noise of every source to record[lo … hi), drawing from `stream` (the shot's own). */
+  addShot(record: Float64Array, lo: number, hi: number, stream: RandomStream): void;
+}
+
 /** A kind's sources of one point, compiled. */
 export interface CompiledNoiseKind {
   sources: readonly NoiseSourceInfo[];
@@ -167,6 +175,12 @@ export interface CompiledNoiseKind {
   twoLevel?(s: number, x: Float64Array, lo: number, hi: number): TwoLevel;
   /** One-sided power spectral density of source s at f, in signal unit²/Hz at its injection point (before the gain). */
   spectrum(s: number, f: number): number;
+  /**
+   * Kinds drawn afresh for every shot (independent between shots) and Gaussian: the exact engine
+   * folds their covariance into the joint Gaussian of every pipeline's outputs, and the trace
+   * engine lets them add a shot's noise after its white noise, from the shot's own stream.
+   */
+  perShot?: PerShotNoise;
   /** The kind with other pipeline kernels (calibrated weights): what depends on them is made again. */
   withKernels(kernels: readonly KernelPair[]): CompiledNoiseKind;
   /** The runtime on one purpose's timeline; `stream(index)` is the point's slow-noise stream `index`. */

@@ -8,10 +8,12 @@ import type { NoiseSourceSpec } from '../../scenario/types.ts';
 import type { NoiseSourceKind } from './contract.ts';
 import { flickerKind } from './flicker.ts';
 import { telegraphKind } from './telegraph.ts';
+import { correlatedKind } from './correlated.ts';
 
 export const NOISE_KINDS: readonly NoiseSourceKind[] = [
   flickerKind,
   telegraphKind,
+  correlatedKind,
 ];
 
 /** The kind of a source (a spec of a kind not registered is a bug). */
