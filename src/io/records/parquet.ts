@@ -1,0 +1,25 @@
+/**
+ * Records in a Parquet file (parquet-wasm: the file read into an Arrow table), laid out as in an
+ * Arrow file (table.ts): a column of sample lists, labels in a column, attributes in the
+ * key-value metadata. The whole file is read at once.
+ */
+import { readFileSync } from 'node:fs';
+import { tableFromIPC, type Table } from 'apache-arrow';
+import { readParquet } from 'parquet-wasm';
+import { InputError } from '../../errors.ts';
+
+/** A Parquet file as an Arrow table; InputError when missing or not Parquet. */
+export function readParquetTable(path: string): Table {
+  let bytes: Uint8Array;
+  try {
+    bytes = readFileSync(path);
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new InputError(path, '', 'a Parquet file', code === 'ENOENT' ? 'no such file' : `an unreadable file (${code ?? 'error'})`);
+  }
+  try {
+    return tableFromIPC(readParquet(bytes).intoIPCStream());
+  } catch {
+    throw new InputError(path, '', 'a Parquet file with a column of sample lists', 'something Parquet cannot read');
+  }
+}
