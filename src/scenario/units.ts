@@ -292,8 +292,12 @@ const UNPREFIXED = new Set(['', 'deg', '°', '%']);
 /**
  * Formats a value expressed in `unit` with an SI prefix and `digits` significant digits,
  * trailing zeros dropped: formatQuantity(2e-5, 's') → "20 µs"; formatQuantity(0.5, '') → "0.5".
+ * Energies in joules read in electronvolts and angles in radians in degrees, as a scenario file
+ * would write them: formatQuantity(2.4e-23, 'J') → "149.8 µeV"; formatQuantity(Math.PI / 6, 'rad') → "30 deg".
  */
 export function formatQuantity(value: number, unit: string, digits = 4): string {
+  if (unit === 'J') return formatQuantity(value / ELEMENTARY_CHARGE, 'eV', digits);
+  if (unit === 'rad') return formatQuantity((value * 180) / Math.PI, 'deg', digits);
   const join = (text: string, u: string): string => (u ? `${text} ${u}` : text);
   if (!Number.isFinite(value)) return join(String(value), unit);
   const trim = (x: number): string => String(Number(x.toPrecision(digits)));
