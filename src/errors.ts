@@ -17,6 +17,40 @@ export class InputError extends Error {
   }
 }
 
+/** Most problems of one input reported at once; a last line counts the rest. */
+export const MAX_REPORTED_ERRORS = 20;
+
+/**
+ * Several problems of one input at once: `message` holds one line per problem, each the message
+ * of its InputError (`file: key.path: expected …, found …`), at most MAX_REPORTED_ERRORS of them
+ * and then a line `file: N more problems not shown`; `file` and `path` are the first problem's.
+ */
+export class InputErrors extends InputError {
+  readonly errors: readonly InputError[];
+
+  constructor(list: readonly InputError[]) {
+    const errors = flatten(list);
+    const first = errors[0]!;
+    super(first.file, first.path, '');
+    this.name = 'InputErrors';
+    this.errors = errors;
+    const lines = errors.slice(0, MAX_REPORTED_ERRORS).map((e) => e.message);
+    const more = errors.length - MAX_REPORTED_ERRORS;
+    if (more > 0) lines.push(`${first.file}: ${more} more problem${more === 1 ? '' : 's'} not shown`);
+    this.message = lines.join('\n');
+  }
+}
+
+function flatten(errors: readonly InputError[]): InputError[] {
+  return errors.flatMap((e) => (e instanceof InputErrors ? e.errors : [e]));
+}
+
+/** The error to throw for a non-empty list of problems: the one problem itself, or all of them. */
+export function inputErrorOf(errors: readonly InputError[]): InputError {
+  const all = flatten(errors);
+  return all.length === 1 ? all[0]! : new InputErrors(all);
+}
+
 /** Short, safe description of a found value for error messages. */
 export function describeFound(value: unknown): string {
   if (value === undefined) return 'nothing';

@@ -22,6 +22,7 @@ import { batchCount } from '../run/batches.ts';
 import { type RunResult } from '../run/run-points.ts';
 import { finishPoint, setUpPoint, type PointResult } from '../run/point-result.ts';
 import { resolveScenario } from '../scenario/resolve.ts';
+import type { SweepSpec } from '../scenario/types.ts';
 import { ArrowFileStream } from '../io/arrow-sink.ts';
 import { checkArrowFile } from '../io/arrow-read.ts';
 import { readManifest, writeManifest, MANIFEST, type Manifest } from '../io/manifest.ts';
@@ -49,6 +50,8 @@ export interface MergeResult {
   files: string[];
   /** The shard folders in shard order. */
   shards: string[];
+  /** The scenario's sweep section (absent when nothing is swept). */
+  sweep?: SweepSpec;
 }
 
 interface Shard {
@@ -268,5 +271,5 @@ export async function mergeRuns(o: MergeOptions): Promise<MergeResult> {
   writeManifest(o.outDir, { complete: true, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
   if (o.report !== false && existsSync(join(a.dir, 'report.html'))) await writeReport(o.outDir);
   const result: RunResult = { points, engine: m.engine, engineReason: m.engineReason ?? '' };
-  return { result, files, shards: mergedFrom };
+  return { result, files, shards: mergedFrom, sweep: scenario.sweep };
 }

@@ -6,6 +6,7 @@ import { operatingPoints, type OperatingChoice, type PipelineOperatingPoint, typ
 import type { RunResult } from '../run/run-points.ts';
 import type { SweepSpec } from '../scenario/types.ts';
 import type { RefineOutcome } from './refine-run.ts';
+import { parameterUnits } from './result-units.ts';
 
 /** The rows of the run's grid points (refinement points excluded). */
 export function gridRows(result: RunResult, gridPoints: number): PointRow[] {
@@ -21,25 +22,28 @@ export function runOperatingPoints(result: RunResult, refinement?: RefineOutcome
 
 const interval = (r: { rate: number; low: number; high: number }) => ({ rate: r.rate, low: r.low, high: r.high });
 
-function choice(c: OperatingChoice | null) {
+function choice(c: OperatingChoice | null, units: Record<string, string>) {
   if (!c) return null;
-  return { point: c.point, parameters: c.parameters, meanError: interval(c.meanError), analyticMeanError: c.analyticMean, snr: c.snr };
+  const parameterUnits = Object.fromEntries(Object.keys(c.parameters).map((k) => [k, units[k] ?? null]));
+  return { point: c.point, parameters: c.parameters, parameterUnits, meanError: interval(c.meanError), analyticMeanError: c.analyticMean, snr: c.snr };
 }
 
-/** JSON-ready `operatingPoint` object. */
+/** JSON-ready `operatingPoint` object; swept values carry their units as in resultToJson (`parameterUnits`, `<field>Unit`). */
 export function operatingPointJson(result: RunResult, sweep: SweepSpec | undefined, refinement?: RefineOutcome): Record<string, unknown> {
+  const units = parameterUnits(sweep);
+  const unit = refinement ? units[refinement.column] ?? null : null;
   return {
     swept: (sweep?.axes ?? []).map((a) => ({ key: a.key, column: a.column, unit: a.unit })),
     note: 'lowestError: the grid point of lowest simulated mean error; highestSnr: of highest simulated SNR (separation / σ); indistinguishable: points whose 95 % error interval overlaps the lowest one',
     pipelines: runOperatingPoints(result, refinement).map((o) => ({
-      pipeline: o.pipeline, lowestError: choice(o.lowestError), highestSnr: choice(o.highestSnr), differ: o.differ,
+      pipeline: o.pipeline, lowestError: choice(o.lowestError, units), highestSnr: choice(o.highestSnr, units), differ: o.differ,
       indistinguishable: o.indistinguishable,
     })),
     refined: refinement ? {
-      pipeline: refinement.pipeline, key: refinement.key, column: refinement.column, interval: refinement.interval,
-      bracket: refinement.bracket, atEdge: refinement.atEdge,
-      points: refinement.evaluations.map((e) => ({ point: e.point, value: e.value, meanError: interval(e.meanError) })),
-      best: { point: refinement.best.point, value: refinement.best.value, meanError: interval(refinement.best.meanError) },
+      pipeline: refinement.pipeline, key: refinement.key, column: refinement.column, interval: refinement.interval, intervalUnit: unit,
+      bracket: refinement.bracket, bracketUnit: unit, atEdge: refinement.atEdge,
+      points: refinement.evaluations.map((e) => ({ point: e.point, value: e.value, valueUnit: unit, meanError: interval(e.meanError) })),
+      best: { point: refinement.best.point, value: refinement.best.value, valueUnit: unit, meanError: interval(refinement.best.meanError) },
     } : null,
   };
 }

@@ -19,6 +19,7 @@ import { readPointValues, readRunTables, type RunTables, type SummaryRow } from 
 import { renderPlot, type PlotSpec } from '../io/report/svg.ts';
 import { describeParameters, heatMapView, sweepLineViews } from '../io/report/sweep-views.ts';
 import { causeTable, pointsTable, refinementOf } from '../io/report/tables.ts';
+import { iqAndAssignment } from './report-iq.ts';
 
 /** The page and what the plotting library said while drawing it. */
 export interface BuiltReport {
@@ -87,10 +88,13 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
       section: valuesSection, spec: histogram,
       figure: {
         title: 'Histogram by prepared state, with the threshold and the analytic distribution',
-        caption: `Bars: ${shotsSaid}, binned by prepared state. Lines: the analytic distribution of each state — a Gaussian of σ = ${showValue(reading.sigma, scenario.signal.unit)} around the noise-free mean, the ramp of shots whose state changed during the window, and the preparation and mapping errors — scaled to the same counts. Dashed: the calibrated threshold.`,
+        caption: `Bars: ${shotsSaid}, binned by prepared state. Lines: the analytic distribution of each state — a Gaussian of σ = ${showValue(reading.sigma, scenario.signal.unit)} around the noise-free mean, the ramp of shots whose state changed during the window, and the preparation and mapping errors — scaled to the same counts. Dashed: the threshold (${showValue(reading.threshold, scenario.signal.unit)}), calibrated on the point's ${scenario.calibrationShots} calibration shots.`,
       },
     });
   } else valuesSection.note = 'No shots to draw for this point.';
+  const { iq, assignment } = await iqAndAssignment(dir, t.hasShots, compiled, bestRow.point, reading);
+  if (iq) pending.push({ section: valuesSection, spec: iq.spec, figure: { title: iq.title, caption: iq.caption } });
+  valuesSection.tables.push(assignment);
   sections.push(valuesSection);
 
   // example records
@@ -98,7 +102,8 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   const recordsSection: SectionView = { id: 'records', title: 'Example records', intro: [], figures: [], tables: [] };
   if (traces) {
     recordsSection.intro.push('Shots re-simulated from the embedded scenario on the point\'s auxiliary random stream (never the scored shots; the same every time): one clean shot per prepared state and, where the model has transitions, one whose state changed inside the window. Shaded: the integration window.');
-    pending.push({ section: recordsSection, spec: traces.raw, figure: { title: 'Raw records', caption: 'The digitised record as synthesised, carrier and noise included.' } });
+    pending.push({ section: recordsSection, spec: traces.raw, figure: { title: 'Raw records', caption: 'Faint: the digitised record as synthesised, carrier and noise included (a record longer than 1400 samples is drawn by the lowest and highest sample of each of 700 columns). Dark: the noise-free signal of the shot\'s state — before and after its first jump — with the carrier.' } });
+    if (traces.zoom) pending.push({ section: recordsSection, spec: traces.zoom, figure: { title: 'Raw records, zoom on the carrier', caption: `Every sample of ${traces.zoomNote} (faint, joined), and the noise-free signal of the shot's state (dark): the carrier under the noise of single samples, which the integration over the window averages down.` } });
     pending.push({
       section: recordsSection, spec: traces.demodulated,
       figure: { title: 'Demodulated records', caption: `Each record multiplied by the demodulation reference and projected on the separation axis, smoothed by ${traces.note}. Dotted segments: each shot's integrated value over the window; dashed line: the threshold.` },
@@ -111,7 +116,7 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
     const lines = sweepLineViews(spec, rows, t.budget.filter((b) => b.pipeline === op.pipeline), op, gridPoints);
     const along: SectionView = {
       id: 'along', title: 'Error along each swept value', figures: [], tables: [],
-      intro: ['Points: simulated mean error with its 95 % interval; lines: the analytic budget cause by cause and its exact total (dashed), at the same points. The thin vertical line marks the lowest-error point.'],
+      intro: [`Points: simulated mean error with its 95 % interval; lines: the analytic budget cause by cause and its exact total (dashed), at the same points. The thin vertical line marks the lowest-error point. Each point's budget is evaluated at that point's own threshold, calibrated on its ${spec.axes.some((a) => a.key === 'calibrationShots') ? '' : `${t.scenario.calibrationShots} `}calibration shots: the calibration's scatter from point to point moves the noise line with it (where it zig-zags, the threshold did), exactly as it moves the simulated errors, which use the same thresholds.`],
     };
     for (const l of lines) {
       pending.push({

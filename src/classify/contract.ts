@@ -37,6 +37,11 @@ export interface ClassifierKind<Model = unknown> {
   description: string;
   /** It reads each shot's decimated record; otherwise it decides on the pipeline's integrated value. */
   readsBins: boolean;
+  /**
+   * Whether its statistic (and so its threshold and σ) is in the signal's unit — the integrated
+   * value or a bin of the record; false for a dimensionless statistic such as a log-odds.
+   */
+  signalUnitStatistic: boolean;
   /** Scenario keys that do not apply to it, each with the reason shown. */
   refuses: { threshold?: string; weights?: string; bandWidth?: string };
   /** Why the exact engine cannot run it (shown to the user), or null when it can. */

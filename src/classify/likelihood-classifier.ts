@@ -42,6 +42,7 @@ export const likelihoodClassifier: ClassifierKind<HmmClassifierSpec> = {
   name: 'likelihood',
   description: 'the likelihood ratio of the hidden-Markov model of the record',
   readsBins: true,
+  signalUnitStatistic: false,
   refuses: {
     threshold: 'it decides by the sign of the log-odds',
     weights: 'it reads every bin',

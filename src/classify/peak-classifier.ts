@@ -23,6 +23,7 @@ export const peakClassifier: ClassifierKind<PeakModel> = {
   name: 'peak',
   description: 'a threshold on the extreme (maximum or minimum) of the decimated record in the window',
   readsBins: true,
+  signalUnitStatistic: true,
   refuses: { weights: 'it reads the extreme of every bin' },
   exactBlocker: 'the peak classifier decides on the extreme of the record, which is not linear in it',
   needsDevice: null,

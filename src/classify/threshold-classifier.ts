@@ -13,6 +13,7 @@ export const thresholdClassifier: ClassifierKind<null> = {
   name: 'threshold',
   description: 'a threshold on the integrated value',
   readsBins: false,
+  signalUnitStatistic: true,
   refuses: {},
   exactBlocker: null,
   needsDevice: null,

@@ -1,6 +1,6 @@
 /**
- * The command line: parses arguments and calls the library. User errors print one line and
- * exit with code 2; anything else is a bug and keeps its stack trace.
+ * The command line: parses arguments and calls the library. User errors print one line each
+ * and exit with code 2; anything else is a bug and keeps its stack trace.
  */
 import { Command, CommanderError } from 'commander';
 import { InputError } from '../errors.ts';
@@ -41,7 +41,8 @@ export async function main(argv: readonly string[]): Promise<number> {
       return e.exitCode;
     }
     if (e instanceof InputError) {
-      process.stderr.write(`singleshot: ${e.message}\n`);
+      // several problems of one file (InputErrors): one line each
+      for (const line of e.message.split('\n')) process.stderr.write(`singleshot: ${line}\n`);
       return 2;
     }
     throw e;

@@ -5,8 +5,8 @@
  */
 import { z } from 'zod';
 import { describeFound } from '../errors.ts';
-import { DIMENSIONS, matchDimension, parseQuantity, UnitSyntaxError, type DimensionName } from './units.ts';
-import { didYouMean } from './suggest.ts';
+import { DIMENSIONS, parseQuantity, quantityAs, unitProblem, UnitSyntaxError, type DimensionName } from './units.ts';
+import { suggestKey } from './suggest.ts';
 
 /** Bounds on a number; exclusive bounds are strict. */
 export interface Range {
@@ -62,24 +62,25 @@ function readQuantity(
     q = parseQuantity(input);
   } catch (e) {
     if (!(e instanceof UnitSyntaxError)) throw e;
-    report(ctx, expected, `${describeFound(input)} (${e.message})`);
+    report(ctx, expected, `${describeFound(input)} (${unitProblem(e, kind)})`);
     return undefined;
   }
-  const index = matchDimension(q, kind);
-  if (index < 0) {
+  const read = quantityAs(q, kind);
+  if (read === null) {
     report(ctx, expected, describeFound(input));
     return undefined;
   }
-  if (!inRange(q.value, range)) {
+  if (!inRange(read.value, range)) {
     report(ctx, `${DIMENSIONS[kind].label}${rangeText(range)}`, describeFound(input));
     return undefined;
   }
-  return { value: q.value, index };
+  return read;
 }
 
 function quantityInput(expected: string, kind: DimensionName, description?: string) {
   const d = DIMENSIONS[kind];
-  const form = `${d.label}: a number in SI units or a string with a unit, e.g. "${d.example}"`;
+  const energy = d.dims.some((x) => x.length === 5 && x[2] === 1 && x.every((p, i) => i === 2 || p === 0));
+  const form = `${d.label}: a number in SI units or a string with a unit, e.g. "${d.example}"${energy ? '; an energy may be given as a frequency f, the energy h·f ("5 GHz", or "5 GHz*h")' : ''}`;
   return z
     .union([z.number(), z.string()], { error: () => expected })
     .meta({ description: description ? `${description} (${form})` : form });
@@ -178,18 +179,23 @@ export function oneOf<const T extends readonly [string, ...string[]]>(words: T) 
 }
 
 /**
- * A strict mapping: unknown keys are errors, with a "did you mean" suggestion. The message is
- * for the first unknown key; `issues.ts` appends that key to the path. `what` describes the
- * mapping when something else was found (default: its list of keys).
+ * A strict mapping: unknown keys are errors, with a "did you mean" suggestion, first among the
+ * keys the mapping does not have yet (a key already written is seldom the one meant). The message holds
+ * one line per unknown key, in the issue's order; `issues.ts` reports each with its key path.
+ * `what` describes the mapping when something else was found (default: its list of keys).
  */
 export function section<S extends z.ZodRawShape>(shape: S, what?: string) {
   const keys = Object.keys(shape);
   return z.strictObject(shape, {
     error: (iss) => {
       if (iss.code === 'unrecognized_keys') {
-        const key = iss.keys[0] ?? '';
-        const hint = didYouMean(key, keys);
-        return hint ? `a known key${hint}` : `one of the keys ${keys.join(', ')}`;
+        const input = iss.input;
+        const written = input !== null && typeof input === 'object' ? Object.keys(input) : [];
+        const free = keys.filter((k) => !written.includes(k));
+        return iss.keys.map((key) => {
+          const meant = suggestKey(key, free) ?? suggestKey(key, keys);
+          return meant === undefined ? `one of the keys ${keys.join(', ')}` : `a known key (did you mean "${meant}"?)`;
+        }).join('\n');
       }
       if (iss.code === 'invalid_type') return what ?? `a mapping with keys ${keys.join(', ')}`;
       return undefined;

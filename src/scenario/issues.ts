@@ -2,7 +2,7 @@
  * From zod issues and key paths to one-line `InputError`s: `FILE: key.path: expected …, found …`.
  */
 import type { z } from 'zod';
-import { describeFound, InputError } from '../errors.ts';
+import { describeFound, InputError, inputErrorOf } from '../errors.ts';
 
 /** A key path inside a document: keys and list indices. */
 export type KeyPath = readonly (string | number | symbol)[];
@@ -95,18 +95,51 @@ function ordered(issues: Issue[]): Issue[] {
   return [...issues].sort((a, b) => Number(b.code === 'unrecognized_keys') - Number(a.code === 'unrecognized_keys'));
 }
 
-/** Turns one zod issue into an InputError for `file`. */
-export function issueToInputError(file: string, first: z.core.$ZodIssue): InputError {
-  const { issue, path } = deepest(first as Issue, []);
+/** The InputErrors of one zod issue for `file` (an issue of unknown keys gives one per key). */
+function issueErrors(file: string, issue: Issue, path: KeyPath): InputError[] {
   if (issue.code === 'unrecognized_keys') {
-    return new InputError(file, formatPath([...path, issue.keys[0]!]), issue.message, 'an unknown key');
+    // fields.ts `section` writes one line of message per unknown key
+    const lines = issue.message.split('\n');
+    return issue.keys.map((key, i) => new InputError(file, formatPath([...path, key]), lines[i] ?? lines[0]!, 'an unknown key'));
   }
-  if (issue.params?.found !== undefined) return new InputError(file, formatPath(path), issue.message, issue.params.found);
+  if (issue.params?.found !== undefined) return [new InputError(file, formatPath(path), issue.message, issue.params.found)];
   const found = issue.input === undefined ? 'nothing (the key is required)' : describeFound(issue.input);
-  return new InputError(file, formatPath(path), issue.message, found);
+  return [new InputError(file, formatPath(path), issue.message, found)];
 }
 
-/** The InputError for the first issue of a failed parse (unknown keys reported first). */
+/**
+ * Every problem of a failed parse, one InputError each (the same message once). A required key
+ * reported missing from a mapping that also has an unknown key is left out: the misspelt key
+ * explains it.
+ */
+export function zodErrorToInputErrors(file: string, error: z.ZodError): InputError[] {
+  const found = (error.issues as Issue[]).map((iss) => deepest(iss, []));
+  const withUnknown = new Set(found.filter((f) => f.issue.code === 'unrecognized_keys').map((f) => formatPath(f.path)));
+  const kept = found.filter((f) => !(f.issue.code !== 'unrecognized_keys' && f.issue.input === undefined && f.path.length > 0 && withUnknown.has(formatPath(f.path.slice(0, -1)))));
+  // one problem can fail several checks with the same message (an integer's range and kind)
+  const seen = new Set<string>();
+  return kept.flatMap((f) => issueErrors(file, f.issue, f.path)).filter((e) => !seen.has(e.message) && seen.add(e.message));
+}
+
+/** The first key of a formatted key path (`states[1].level` → `states`, `["a b"].c` → `a b`). */
+function firstKey(path: string): string {
+  const m = /^([^.[]+)|^\["((?:[^"\\]|\\.)*)"\]/.exec(path);
+  if (!m) return '';
+  return m[1] ?? (JSON.parse(`"${m[2]}"`) as string);
+}
+
+/** Problems in the order of the document's top-level keys (problems of the whole file first; otherwise as found). */
+export function inDocumentOrder(errors: readonly InputError[], doc: unknown): InputError[] {
+  const order = doc !== null && typeof doc === 'object' && !Array.isArray(doc) ? Object.keys(doc) : [];
+  const rank = (e: InputError) => {
+    if (e.path === '') return -1;
+    const i = order.indexOf(firstKey(e.path));
+    return i < 0 ? order.length : i;
+  };
+  return errors.map((e, i) => ({ e, i })).sort((a, b) => rank(a.e) - rank(b.e) || a.i - b.i).map((x) => x.e);
+}
+
+/** The InputError of a failed parse: every problem, one line each (InputErrors when there are several). */
 export function zodErrorToInputError(file: string, error: z.ZodError): InputError {
-  return issueToInputError(file, ordered(error.issues as Issue[])[0]!);
+  return inputErrorOf(zodErrorToInputErrors(file, error));
 }

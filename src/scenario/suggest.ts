@@ -2,18 +2,25 @@
  * "Did you mean …?" suggestions for misspelt keys and names.
  */
 
-/** Levenshtein edit distance between two strings (insert, delete, substitute; cost 1 each). */
+/**
+ * Edit distance between two strings counting an insertion, a deletion, a substitution or a swap
+ * of two neighbouring letters as one edit (optimal string alignment: Damerau, Commun. ACM 7, 171
+ * (1964)), so that "nmae" is one edit from "name", as a typing slip is.
+ */
 export function editDistance(a: string, b: string): number {
-  const previous = new Array<number>(b.length + 1);
-  const current = new Array<number>(b.length + 1);
-  for (let j = 0; j <= b.length; j++) previous[j] = j;
+  let before = new Array<number>(b.length + 1).fill(0);
+  let previous = Array.from({ length: b.length + 1 }, (_, j) => j);
   for (let i = 1; i <= a.length; i++) {
+    const current = new Array<number>(b.length + 1);
     current[0] = i;
     for (let j = 1; j <= b.length; j++) {
       const substitute = previous[j - 1]! + (a[i - 1] === b[j - 1] ? 0 : 1);
-      current[j] = Math.min(previous[j]! + 1, current[j - 1]! + 1, substitute);
+      let d = Math.min(previous[j]! + 1, current[j - 1]! + 1, substitute);
+      if (i > 1 && j > 1 && a[i - 1] === b[j - 2] && a[i - 2] === b[j - 1]) d = Math.min(d, before[j - 2]! + 1);
+      current[j] = d;
     }
-    for (let j = 0; j <= b.length; j++) previous[j] = current[j]!;
+    before = previous;
+    previous = current;
   }
   return previous[b.length]!;
 }
@@ -51,4 +58,31 @@ export function closest(word: string, candidates: readonly string[]): string | u
 export function didYouMean(word: string, candidates: readonly string[]): string {
   const c = closest(word, candidates);
   return c === undefined ? '' : ` (did you mean "${c}"?)`;
+}
+
+/**
+ * Words people write for a key, by the key they mean: a name from the trade is no misspelling
+ * of a short key ("T1" is one edit from "to", but means the lifetime). Suggested only where
+ * the key exists.
+ */
+const KEY_SYNONYMS: Readonly<Record<string, readonly string[]>> = {
+  lifetime: ['t1', 't_1', 'tau', 'relaxationtime', 'decaytime', 'relaxation', 'time'],
+  rate: ['gamma', 'relaxationrate', 'decayrate'],
+  sampleRate: ['fs', 'samplingrate', 'samplingfrequency', 'samplefrequency', 'adcrate'],
+  frequency: ['freq', 'f', 'carrierfrequency'],
+  temperature: ['temp', 't', 'te'],
+  level: ['current', 'amplitude', 'mean', 'signal'],
+  density: ['psd', 'asd', 'noisedensity', 'spectraldensity'],
+  recordLength: ['duration', 'recordduration', 'recordtime'],
+  splitting: ['energy', 'zeeman', 'gap'],
+};
+
+/**
+ * The key that `word` (an unknown key) most likely means among `keys`: the key it names in the
+ * trade's words (KEY_SYNONYMS), else the closest spelling (`closest`).
+ */
+export function suggestKey(word: string, keys: readonly string[]): string | undefined {
+  const w = word.toLowerCase();
+  const meant = keys.find((k) => KEY_SYNONYMS[k]?.includes(w));
+  return meant ?? closest(word, keys);
 }

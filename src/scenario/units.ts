@@ -5,13 +5,15 @@
  * dimensions below; a unit expression multiplies, divides, raises to powers and takes square
  * roots of units. Each scenario key then asks for a named dimension (`DIMENSIONS`).
  */
-import { ELEMENTARY_CHARGE } from '../physics/constants.ts';
+import { ELEMENTARY_CHARGE, PLANCK } from '../physics/constants.ts';
 import { didYouMean } from './suggest.ts';
 
 /** Exponents of the base dimensions time, current, energy, temperature, angle, in this order (halves allowed, for 1/√Hz). */
 export type Dimension = readonly [number, number, number, number, number];
 
 const NONE: Dimension = [0, 0, 0, 0, 0];
+const ENERGY: Dimension = [0, 0, 1, 0, 0];
+const FREQUENCY: Dimension = [-1, 0, 0, 0, 0];
 
 interface UnitDef {
   /** Factor to SI, apart from powers of ten. */
@@ -40,7 +42,15 @@ const UNITS: Record<string, UnitDef> = {
   '°': { factor: Math.PI / 180, dim: [0, 0, 0, 0, 1], prefixable: false },
   // √Hz, written the way spectrum analysers label it.
   rtHz: { factor: 1, dim: [-0.5, 0, 0, 0, 0], prefixable: false },
+  // the Planck constant, so that an energy can be written as a frequency: "5 GHz*h" = h·5 GHz
+  h: { factor: PLANCK, dim: [1, 0, 1, 0, 0], prefixable: false },
 };
+
+/**
+ * Sample rates as digitizers state them: samples per second, "50 MS/s", "1 GSa/s", "250 kSPS"
+ * (a sample is a count, so S/s is a frequency). Read as one symbol, before the unit table.
+ */
+const SAMPLE_RATE = /^([fpnuµμmkMGT]?)(?:S\/s|Sa\/s|SPS|sps)(?![A-Za-z])/;
 
 /** SI prefixes accepted in front of a unit (both micro signs and "u"), as powers of ten. */
 const PREFIXES: Record<string, number> = {
@@ -128,7 +138,12 @@ function shortQuote(text: string): string {
 }
 
 /** A unit text that could not be read; the message is a short phrase ("unknown unit \"x\""). */
-export class UnitSyntaxError extends Error {}
+export class UnitSyntaxError extends Error {
+  /** The symbol that is no unit, when that was the problem (for a suggestion that fits the key). */
+  constructor(message: string, readonly symbol?: string) {
+    super(message);
+  }
+}
 
 /** Whether two dimension vectors are equal. */
 export function sameDimension(a: Dimension, b: Dimension): boolean {
@@ -155,17 +170,34 @@ function lookupSymbol(symbol: string): Factor {
     const unit = UNITS[symbol.slice(prefix.length)];
     if (unit && unit.prefixable) return { pow10, scale: unit.factor, dim: unit.dim };
   }
-  throw new UnitSyntaxError(`unknown unit ${shortQuote(symbol)}${didYouMean(symbol, unitSpellings())}`);
+  // "50 MS" or "1 GSa": samples without the "/s" — never megaseconds or gigaseconds
+  const samples = /^([fpnuµμmkMGT]?)(?:S|Sa)$/.exec(symbol);
+  if (samples) throw new UnitSyntaxError(`unknown unit ${shortQuote(symbol)} (did you mean "${samples[1]}S/s", samples per second?)`);
+  throw new UnitSyntaxError(`unknown unit ${shortQuote(symbol)}${didYouMean(symbol, unitSpellings())}`, symbol);
 }
 
-/** Every unit as it may be written, with and without prefixes (for suggestions). */
-function unitSpellings(): string[] {
+/** Every unit as it may be written, with and without prefixes (for suggestions), optionally only those of some dimensions. */
+function unitSpellings(dims?: readonly Dimension[]): string[] {
   const out: string[] = [];
   for (const [symbol, unit] of Object.entries(UNITS)) {
+    if (dims && !dims.some((d) => sameDimension(d, unit.dim))) continue;
     out.push(symbol);
     if (unit.prefixable) for (const prefix of Object.keys(PREFIXES)) out.push(prefix + symbol);
   }
   return out;
+}
+
+/**
+ * The message for a unit text that could not be read where a key of `kind` expects it: an
+ * unknown symbol is compared with the units that key accepts first ("pX" for a level suggests
+ * "pA", not "ps"; where an energy is accepted, frequencies too), then with every unit.
+ */
+export function unitProblem(e: UnitSyntaxError, kind: DimensionName): string {
+  if (e.symbol === undefined) return e.message;
+  const dims = DIMENSIONS[kind].dims as readonly Dimension[];
+  const accepted = dims.some((d) => sameDimension(d, ENERGY)) ? [...dims, FREQUENCY] : dims;
+  const near = didYouMean(e.symbol, unitSpellings(accepted));
+  return near ? `unknown unit ${shortQuote(e.symbol)}${near}` : e.message;
 }
 
 /** Recursive-descent reader of a unit expression: factors joined by '/', '*' or '·'. */
@@ -231,6 +263,11 @@ class UnitReader {
   }
 
   private atom(): Factor {
+    const rate = SAMPLE_RATE.exec(this.text.slice(this.pos));
+    if (rate) {
+      this.pos += rate[0].length;
+      return { pow10: rate[1] ? (PREFIXES[rate[1]] ?? 0) : 0, scale: 1, dim: [-1, 0, 0, 0, 0] };
+    }
     const m = /^(?:1(?![0-9])|[A-Za-zµμΩ°]+)/.exec(this.text.slice(this.pos));
     if (!m) throw new UnitSyntaxError(this.pos < this.text.length ? `unexpected ${shortQuote(this.text.slice(this.pos))}` : 'missing unit');
     this.pos += m[0].length;
@@ -281,6 +318,24 @@ export function matchDimension(q: Quantity, kind: DimensionName): number {
   return DIMENSIONS[kind].dims.findIndex((d) => sameDimension(q.dim, d as Dimension));
 }
 
+/**
+ * A quantity read for a key of `kind`: its SI value and the index of the accepted dimension it
+ * has (as `matchDimension`), or null when it has none. Where an energy is accepted, a frequency
+ * is the energy h·f ("5 GHz" = 20.68 µeV), as spectroscopists write splittings.
+ */
+export function quantityAs(q: Quantity, kind: DimensionName): { value: number; index: number } | null {
+  const index = matchDimension(q, kind);
+  if (index >= 0) return { value: q.value, index };
+  if (!sameDimension(q.dim, FREQUENCY)) return null;
+  const energy = DIMENSIONS[kind].dims.findIndex((d) => sameDimension(d as Dimension, ENERGY));
+  return energy >= 0 ? { value: q.value * PLANCK, index: energy } : null;
+}
+
+/** The energy h·f of a quantity that is a frequency, else the quantity as it is (for values that must agree with an energy). */
+export function frequencyAsEnergy(q: Quantity): Quantity {
+  return !q.plain && sameDimension(q.dim, FREQUENCY) ? { value: q.value * PLANCK, dim: ENERGY, plain: false } : q;
+}
+
 const FORMAT_PREFIXES: [number, string][] = [
   [1e12, 'T'], [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''],
   [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'],
@@ -292,8 +347,12 @@ const UNPREFIXED = new Set(['', 'deg', '°', '%']);
 /**
  * Formats a value expressed in `unit` with an SI prefix and `digits` significant digits,
  * trailing zeros dropped: formatQuantity(2e-5, 's') → "20 µs"; formatQuantity(0.5, '') → "0.5".
+ * Energies in joules read in electronvolts and angles in radians in degrees, as a scenario file
+ * would write them: formatQuantity(2.4e-23, 'J') → "149.8 µeV"; formatQuantity(Math.PI / 6, 'rad') → "30 deg".
  */
 export function formatQuantity(value: number, unit: string, digits = 4): string {
+  if (unit === 'J') return formatQuantity(value / ELEMENTARY_CHARGE, 'eV', digits);
+  if (unit === 'rad') return formatQuantity((value * 180) / Math.PI, 'deg', digits);
   const join = (text: string, u: string): string => (u ? `${text} ${u}` : text);
   if (!Number.isFinite(value)) return join(String(value), unit);
   const trim = (x: number): string => String(Number(x.toPrecision(digits)));

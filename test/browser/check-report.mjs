@@ -1,11 +1,14 @@
 #!/usr/bin/env node
 // Opens singleshot reports in headless Chromium with the network blocked and checks them as a
 // reader's browser sees them: no console errors, no page errors, no failed or outgoing
-// requests, no script run (no dialog), every plot rendered (an SVG with marks and axes), and a
-// scenario named <script>alert(1)</script> shown as text. Saves a full-page screenshot.
+// requests, no script run (no dialog), every plot rendered (an SVG with marks and axes), the
+// histogram's legend covering no bar (bounding boxes compared), the assignment matrix (rows
+// summing to 1), the IQ-plane scatter with its decision line for a scenario with complex levels
+// on a carrier, and a scenario named <script>alert(1)</script> shown as text. Saves a
+// full-page screenshot of each report.
 //
 // Usage: node test/browser/check-report.mjs [--screenshot FILE.png] [--work DIR] [--report FILE.html ...]
-// Without --report it makes two small runs first (a sweep and a hostile name) in --work
+// Without --report it makes three small runs first (a sweep, a hostile name, an IQ scenario) in --work
 // (default: a fresh temporary folder). Needs /usr/bin/chromium (Debian's package) and the
 // playwright-core dev dependency (which drives it; it downloads no browser).
 import { chromium } from 'playwright-core';
@@ -48,7 +51,9 @@ function makeRuns(work) {
   writeFileSync(hostileFile, named);
   const hostileDir = join(work, 'hostile');
   singleshot(['run', hostileFile, '--out', hostileDir, '--force', '--quiet', '--shots', '4096']);
-  return [join(sweepDir, 'report.html'), join(hostileDir, 'report.html')];
+  const iqDir = join(work, 'iq');
+  singleshot(['run', 'test/fixtures/scenarios/iq-carrier.yaml', '--out', iqDir, '--force', '--quiet']);
+  return [join(sweepDir, 'report.html'), join(hostileDir, 'report.html'), join(iqDir, 'report.html')];
 }
 
 const results = [];
@@ -80,7 +85,28 @@ async function inspect(context, file, screenshot) {
         axisLabels: svg ? svg.querySelectorAll('.role-axis-label text').length : 0,
       };
     });
+    const box = (e) => { const r = e.getBoundingClientRect(); return { left: r.left, right: r.right, top: r.top, bottom: r.bottom }; };
+    // the histogram: its legend's box against every bar's box
+    const histogram = [...document.querySelectorAll('figure')].find((f) => (f.querySelector('h3')?.textContent ?? '').startsWith('Histogram'));
+    const legend = histogram?.querySelector('svg .role-legend');
+    const bars = histogram ? [...histogram.querySelectorAll('svg .mark-rect.role-mark path')].map(box) : [];
+    // the IQ plane: its points and its decision line
+    const iq = [...document.querySelectorAll('figure')].find((f) => (f.querySelector('h3')?.textContent ?? '').startsWith('IQ plane'));
+    const iqLine = iq ? [...iq.querySelectorAll('svg .mark-line.role-mark path')].map((p) => ({ d: (p.getAttribute('d') ?? '').length, ...box(p) })) : [];
+    // the assignment matrix: a table whose header has "reported" columns
+    const matrix = [...document.querySelectorAll('table')].find((t) => [...t.querySelectorAll('th')].some((th) => th.textContent.startsWith('reported ')));
+    const matrixRows = matrix ? [...matrix.querySelectorAll('tbody tr')].map((tr) => {
+      const cells = [...tr.querySelectorAll('td')].map((td) => td.textContent);
+      const visible = box(tr);
+      return { state: cells[0], fractions: cells.slice(2).map(Number), height: visible.bottom - visible.top };
+    }) : [];
     return {
+      histogram: histogram ? { legend: legend ? box(legend) : null, bars } : null,
+      iq: iq ? {
+        points: iq.querySelectorAll('svg .mark-symbol.role-mark path').length, line: iqLine,
+        cloud: iq.querySelector('svg .mark-symbol.role-mark') ? box(iq.querySelector('svg .mark-symbol.role-mark')) : null,
+      } : null,
+      matrix: matrix ? { rows: matrixRows, header: [...matrix.querySelectorAll('th')].map((th) => th.textContent) } : null,
       title: document.title, h1: document.querySelector('h1')?.textContent ?? '',
       lede: document.querySelector('.lede')?.textContent ?? '',
       scripts: document.scripts.length, figures,
@@ -99,6 +125,16 @@ async function inspect(context, file, screenshot) {
     check(`${label}: plot "${f.title}" rendered with axes`, f.hasSvg && f.width > 100 && f.height > 50 && f.marks > 10 && f.axes > 0 && f.axisLabels > 0,
       `${f.width}×${f.height} px, ${f.marks} marks, ${f.axes} axes, ${f.axisLabels} axis labels`);
   }
+  if (facts.histogram) {
+    const { legend, bars } = facts.histogram;
+    const overlaps = legend ? bars.filter((b) => b.left < legend.right && b.right > legend.left && b.top < legend.bottom && b.bottom > legend.top) : [];
+    check(`${label}: the histogram's legend covers no bar`, legend !== null && bars.length > 10 && overlaps.length === 0,
+      legend ? `${bars.length} bars, ${overlaps.length} under the legend (${Math.round(legend.left)}–${Math.round(legend.right)} × ${Math.round(legend.top)}–${Math.round(legend.bottom)} px)` : 'no legend found');
+  } else check(`${label}: has a histogram`, false);
+  const m = facts.matrix;
+  check(`${label}: assignment matrix shown, each row summing to 1`,
+    m !== null && m.rows.length >= 2 && m.rows.every((r) => r.height > 0 && r.fractions.length >= 2 && r.fractions.every((x) => x >= 0 && x <= 1) && Math.abs(r.fractions.reduce((a, b) => a + b, 0) - 1) < 2e-3),
+    m ? m.rows.map((r) => `${r.state}: ${r.fractions.join(' + ')}`).join('; ') : 'no table with "reported" columns');
   check(`${label}: caution about SPAM figures present`, /full thresholded statistics/.test(facts.caution) && /no substitute for measured/.test(facts.caution));
   if (screenshot) {
     mkdirSync(dirname(screenshot), { recursive: true });
@@ -122,8 +158,19 @@ async function main() {
     // every request that is not the report file itself is refused
     await context.route('**/*', (route) => (route.request().url().startsWith('file:') ? route.continue() : route.abort('blockedbyclient')));
     for (let i = 0; i < reports.length; i++) {
-      const shot = i === 0 ? (o.screenshot ?? join(work, 'report.png')) : null;
+      const shot = i === 0 ? (o.screenshot ?? join(work, 'report.png')) : o.screenshot ? o.screenshot.replace(/(\.png)?$/, `-${i + 1}.png`) : join(work, `report-${i + 1}.png`);
       const facts = await inspect(context, reports[i], shot);
+      if (o.reports.length === 0 && i === 2) {
+        const iq = facts.iq;
+        // the line's box (unclipped) must cross the box of the points: the line runs between the clouds
+        const l = iq?.line[0], c = iq?.cloud;
+        const crosses = l && c && l.left < c.right && l.right > c.left && l.top < c.bottom && l.bottom > c.top;
+        check('IQ scenario: the IQ-plane scatter is drawn, with its decision line through the clouds',
+          iq !== null && iq.points >= 400 && iq.line.length === 1 && l.d > 10 && Boolean(crosses),
+          iq ? `${iq.points} points, ${iq.line.length} decision line${crosses ? ' crossing the clouds' : ' away from the clouds'}` : 'no IQ figure');
+        check('IQ scenario: the assignment matrix has a row per prepared state', facts.matrix?.rows.map((r) => r.state).join(',') === 'ground,excited',
+          JSON.stringify(facts.matrix?.rows.map((r) => r.state)));
+      }
       if (o.reports.length === 0 && i === 1) {
         check('hostile name shown as text in the title and heading', facts.title.includes(HOSTILE) && facts.h1 === HOSTILE, `title ${JSON.stringify(facts.title)}, h1 ${JSON.stringify(facts.h1)}`);
         check('hostile description shown as text', facts.lede.includes('<b>bold</b>') && facts.lede.includes(HOSTILE));

@@ -8,7 +8,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import fc from 'fast-check';
-import { InputError } from '../../src/errors.ts';
+import { InputError, InputErrors, MAX_REPORTED_ERRORS } from '../../src/errors.ts';
 import { parseScenarioText } from '../../src/scenario/parse.ts';
 import { starterScenario } from '../../src/scenario/starter.ts';
 import { scenarioShape } from '../../src/scenario/schema.ts';
@@ -275,11 +275,27 @@ function knownFirstKeys(doc: unknown): Set<string> {
 /**
  * Checks an InputError from `file`: one line, starts with "FILE: " (and "FILE: PATH: " when it
  * names a key), the path starts with a key of the schema or of the document, and the message
- * carries no leaked internals. Returns a description of the first problem, or null.
+ * carries no leaked internals. Several problems at once (InputErrors): each is such an error,
+ * the message is their lines (at most MAX_REPORTED_ERRORS, then one line counting the rest), and
+ * no line is repeated. Returns a description of the first problem, or null.
  */
 export function inputErrorProblem(e: unknown, file: string, doc: unknown): string | null {
   if (!(e instanceof InputError)) {
     return `threw ${e instanceof Error ? `${e.name}: ${e.message}\n${e.stack}` : String(e)} instead of an InputError`;
+  }
+  if (e instanceof InputErrors) {
+    if (e.errors.length < 2) return `InputErrors of ${e.errors.length} problem(s)`;
+    for (const one of e.errors) {
+      const problem = inputErrorProblem(one, file, doc);
+      if (problem) return problem;
+    }
+    const lines = e.errors.slice(0, MAX_REPORTED_ERRORS).map((x) => x.message);
+    const more = e.errors.length - MAX_REPORTED_ERRORS;
+    if (more > 0) lines.push(`${file}: ${more} more problem${more === 1 ? '' : 's'} not shown`);
+    if (e.message !== lines.join('\n')) return `InputErrors message is not its problems' lines: ${JSON.stringify(e.message)}`;
+    if (new Set(lines).size !== lines.length) return `a problem reported twice: ${JSON.stringify(e.message)}`;
+    if (e.file !== file || e.path !== e.errors[0]!.path) return 'InputErrors does not name its first problem';
+    return null;
   }
   const m = e.message;
   if (/[\r\n]/.test(m)) return `message has a line break: ${JSON.stringify(m)}`;

@@ -3,7 +3,7 @@
  * to four mutations — hostile values, NaN/Infinity spelled as strings, huge and tiny numbers,
  * flipped signs, swapped units, missing and extra keys, deep wrapping, resized lists. Each
  * must either resolve to a Scenario with finite numbers that satisfies the engine's invariants,
- * or be refused with a one-line InputError naming the key path. Nothing else.
+ * or be refused with an InputError of one line per problem, each naming its key path. Nothing else.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
@@ -34,7 +34,7 @@ describe('fuzzed scenario documents', () => {
   it.each([
     ['any mutation', anyMutation, 5000],
     ['mild mutations (mostly still valid)', mildMutation, 2000],
-  ] as const)('%s: valid → finite Scenario, invalid → one-line InputError with a key path', (_name, mutation, numRuns) => {
+  ] as const)('%s: valid → finite Scenario, invalid → InputError, one line per problem, each with a key path', (_name, mutation, numRuns) => {
     const counts = { valid: 0, invalid: 0 };
     fc.assert(
       fc.property(mutatedDoc(mutation), ({ base, doc, labels }) => {

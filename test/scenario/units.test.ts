@@ -129,6 +129,12 @@ describe('formatQuantity', () => {
     expect(formatQuantity(value, unit)).toBe(expected);
   });
 
+  it('shows energies in eV and angles in degrees, as scenario files write them', () => {
+    expect(formatQuantity(150e-6 * e, 'J')).toBe('150 µeV');
+    expect(formatQuantity(Math.PI / 6, 'rad')).toBe('30 deg');
+    expect(formatQuantity(-2e-3 * e, 'J')).toBe('-2 meV');
+  });
+
   it('takes the number of significant digits', () => {
     expect(formatQuantity(0.123456, 'K', 2)).toBe('120 mK');
   });

@@ -11,10 +11,11 @@ export function makeMergeCommand(): Command {
     .requiredOption('--out <dir>', 'folder for the merged tables (must be empty unless --force)')
     .option('--force', 'replace the files of a non-empty --out folder')
     .option('--json', 'print the merged result as one JSON object on stdout')
+    .option('--verbose', 'print every point of a sweep in full (default: one line per point)')
     .option('--no-report', 'do not write report.html')
-    .action(async (dirs: string[], opts: { out: string; force?: boolean; json?: boolean; report: boolean }) => {
-      const { result, files, shards } = await mergeRuns({ dirs, outDir: opts.out, force: opts.force, report: opts.report });
-      if (opts.json) process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, mergedFrom: shards })) + '\n');
-      else process.stdout.write(formatResult(result) + `\nmerged ${shards.length} shard${shards.length === 1 ? '' : 's'} into ${opts.out}: ${files.join(', ')}\n`);
+    .action(async (dirs: string[], opts: { out: string; force?: boolean; json?: boolean; verbose?: boolean; report: boolean }) => {
+      const { result, files, shards, sweep } = await mergeRuns({ dirs, outDir: opts.out, force: opts.force, report: opts.report });
+      if (opts.json) process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, mergedFrom: shards }, sweep)) + '\n');
+      else process.stdout.write(formatResult(result, { sweep, verbose: opts.verbose }) + `\nmerged ${shards.length} shard${shards.length === 1 ? '' : 's'} into ${opts.out}: ${files.join(', ')}\n`);
     });
 }

@@ -60,6 +60,7 @@ export function makeRunCommand(): Command {
     .option('--shard <K/N>', 'run only part K of N of the shots (merge the parts with `singleshot merge`)', shardOption)
     .option('--no-shots-table', 'do not write shots.arrow')
     .option('--json', 'print the result as one JSON object on stdout')
+    .option('--verbose', 'print every point of a sweep in full (default: one line per point)')
     .option('--keep-traces <kind>', 'also write traces.arrow: every scored record, "raw" or demodulated "baseband" I/Q', traceKind)
     .option('--force', 'replace the files of a non-empty --out folder, and run even if the estimate exceeds free memory or disk')
     .option('--quiet', 'no progress or warnings on stderr')
@@ -68,7 +69,7 @@ export function makeRunCommand(): Command {
     .option('--no-report', 'do not write report.html')
     .option('--engine <kind>', 'exact (draw each integrated value from its exact distribution), traces (synthesise every sample), or auto: exact when valid', engineOption, 'auto')
     .option('--workers <n>', `simulation threads (default: all ${defaultWorkers()} cores for a run estimated over 2 s whose batches take over 5 ms — trace engine, or exact with 1/f — else 1)`, positiveInteger('--workers'))
-    .action(async (file: string, opts: { engine: EngineRequest; workers?: number; out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; force?: boolean; quiet?: boolean; keepTraces?: 'raw' | 'baseband'; refine?: string | true; refinePoints?: number; report: boolean }) => {
+    .action(async (file: string, opts: { engine: EngineRequest; workers?: number; out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; verbose?: boolean; force?: boolean; quiet?: boolean; keepTraces?: 'raw' | 'baseband'; refine?: string | true; refinePoints?: number; report: boolean }) => {
       const progress = makeProgress({ quiet: opts.quiet });
       const { result, files, refinement, report, sweep } = await withInterruptSignals((signal) => runToDirectory({
         refine: opts.refine === undefined ? undefined : { key: opts.refine, points: opts.refinePoints },
@@ -82,10 +83,10 @@ export function makeRunCommand(): Command {
         },
       })).finally(() => progress.stop());
       if (opts.json) {
-        process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, report: report ?? null, operatingPoint: operatingPointJson(result, sweep, refinement) })) + '\n');
+        process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, report: report ?? null, operatingPoint: operatingPointJson(result, sweep, refinement) }, sweep)) + '\n');
       } else {
         const op = formatOperatingPoints(runOperatingPoints(result, refinement), sweep, refinement);
-        process.stdout.write(formatResult(result) + (op ? `\n${op}` : '') + `\ntables written to ${opts.out}: ${files.join(', ')}\n` + (report ? `report: ${report}\n` : ''));
+        process.stdout.write(formatResult(result, { sweep, verbose: opts.verbose }) + (op ? `\n${op}` : '') + `\ntables written to ${opts.out}: ${files.join(', ')}\n` + (report ? `report: ${report}\n` : ''));
       }
     });
 }

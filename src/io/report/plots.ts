@@ -28,8 +28,12 @@ export function logTicks(lo: number, hi: number): number[] {
 /** Histogram of the integrated value: simulated bars and analytic expected counts per state. */
 export interface HistogramPlot {
   xTitle: string;
+  /** The bin width as read ("1.25 pA"), shown in the count axis's title. */
+  binWidth: string;
   states: { name: string; colour: string; bars: { x0: number; x1: number; count: number }[]; curve: { x: number; expected: number }[] }[];
   threshold: number;
+  /** The threshold as read ("56.68 pA"), written beside its line. */
+  thresholdText: string;
   domain: [number, number];
   yMax: number;
 }
@@ -37,10 +41,14 @@ export interface HistogramPlot {
 /** The floor of the log count axis: bars start here, curves below it are clipped. */
 const COUNT_FLOOR = 0.1;
 
-/** Histogram spec: bars per state on a log count axis, analytic curves, the threshold. */
+/**
+ * Histogram spec: bars per state on a log count axis, analytic curves, the threshold with its
+ * value, the bin width in the count axis's title. The legend sits above the plot area, so it
+ * covers no bar.
+ */
 export function histogramSpec(p: HistogramPlot): PlotSpec {
   const names = p.states.map((s) => s.name);
-  const colour = { field: 'state', type: 'nominal', scale: { domain: names, range: p.states.map((s) => s.colour) }, legend: { title: 'prepared state', orient: 'top-left', direction: 'vertical', fillColor: '#ffffffd9', padding: 6 } };
+  const colour = { field: 'state', type: 'nominal', scale: { domain: names, range: p.states.map((s) => s.colour) }, legend: { title: 'prepared state', orient: 'top', direction: 'horizontal' } };
   const bars = p.states.flatMap((s) => s.bars.filter((b) => b.count > 0).map((b) => ({ state: s.name, ...b })));
   const curve = p.states.flatMap((s) => s.curve.filter((c) => c.expected >= COUNT_FLOOR).map((c) => ({ state: s.name, ...c })));
   const x = { type: 'quantitative', scale: { domain: p.domain, nice: false, zero: false } };
@@ -52,7 +60,7 @@ export function histogramSpec(p: HistogramPlot): PlotSpec {
         encoding: {
           x: { field: 'x0', ...x, title: p.xTitle }, x2: { field: 'x1' },
           y: {
-            field: 'count', type: 'quantitative', title: 'shots per bin (log scale)', scale: { type: 'log', domain: [COUNT_FLOOR, p.yMax], nice: false },
+            field: 'count', type: 'quantitative', title: `shots per bin of ${p.binWidth} (log scale)`, scale: { type: 'log', domain: [COUNT_FLOOR, p.yMax], nice: false },
             axis: { values: logTicks(1, p.yMax), format: '~s' },
           },
           y2: { datum: COUNT_FLOOR }, color: colour,
@@ -63,11 +71,11 @@ export function histogramSpec(p: HistogramPlot): PlotSpec {
         encoding: { x: { field: 'x', ...x }, y: { field: 'expected', type: 'quantitative' }, color: colour, detail: { field: 'state' } },
       },
       {
-        data: { values: [{ t: p.threshold, label: 'threshold' }] }, mark: { type: 'rule', color: PALETTE.ink, strokeDash: [6, 4], strokeWidth: 1.5 },
+        data: { values: [{ t: p.threshold }] }, mark: { type: 'rule', color: PALETTE.ink, strokeDash: [6, 4], strokeWidth: 1.5 },
         encoding: { x: { field: 't', type: 'quantitative' } },
       },
       {
-        data: { values: [{ t: p.threshold, label: 'threshold' }] },
+        data: { values: [{ t: p.threshold, label: `threshold ${p.thresholdText}` }] },
         mark: { type: 'text', align: 'left', baseline: 'top', dx: 5, dy: 4, color: PALETTE.ink, fontSize: 11 },
         encoding: { x: { field: 't', type: 'quantitative' }, y: { datum: p.yMax }, text: { field: 'label' } },
       },
@@ -81,7 +89,14 @@ export interface TracePlot {
   rawTitle: string;
   demodTitle: string;
   window: [number, number];
-  shots: { label: string; colour: string; raw: { t: number; v: number }[]; demod: { t: number; v: number }[]; value: number }[];
+  shots: {
+    label: string; colour: string;
+    /** The record as digitised (envelope of the whole record) and the noise-free signal of the shot's states. */
+    raw: { t: number; v: number }[]; clean: { t: number; v: number }[];
+    /** Every sample of a few carrier periods, digitised and noise-free (empty at baseband). */
+    zoomRaw: { t: number; v: number }[]; zoomClean: { t: number; v: number }[];
+    demod: { t: number; v: number }[]; value: number;
+  }[];
   threshold: number;
 }
 
@@ -90,25 +105,36 @@ const windowBand = (w: [number, number]) => ({
   encoding: { x: { field: 'a', type: 'quantitative' }, x2: { field: 'b' } },
 });
 
-/** Raw-record spec: one small panel per example shot, the window shaded. */
-export function rawTracesSpec(p: TracePlot): PlotSpec {
+/** One panel per example shot: the digitised record (faint, in the shot's colour) under its noise-free signal (ink). */
+function recordPanels(p: TracePlot, pick: (s: TracePlot['shots'][number]) => { raw: { t: number; v: number }[]; clean: { t: number; v: number }[] }, height: number, band: boolean): PlotSpec {
   return {
     spacing: 6,
-    vconcat: p.shots.map((s, i) => ({
-      width: FULL_WIDTH, height: 70,
-      title: { text: `${s.label}${p.rawTitle ? ` · ${p.rawTitle}` : ''}`, fontSize: 11, fontWeight: 'normal', color: PALETTE.muted, offset: 4 },
-      layer: [
-        windowBand(p.window),
-        {
-          data: { values: s.raw }, mark: { type: 'line', strokeWidth: 0.9, color: s.colour },
-          encoding: {
-            x: { field: 't', type: 'quantitative', title: i === p.shots.length - 1 ? p.timeTitle : null, axis: i === p.shots.length - 1 ? {} : { labels: false, ticks: false }, scale: { nice: false, zero: false } },
-            y: { field: 'v', type: 'quantitative', title: null, axis: { tickCount: 3 }, scale: { zero: false } },
-          },
-        },
-      ],
-    })),
+    vconcat: p.shots.map((s, i) => {
+      const last = i === p.shots.length - 1;
+      const x = { field: 't', type: 'quantitative', title: last ? p.timeTitle : null, axis: last ? {} : { labels: false, ticks: false }, scale: { nice: false, zero: false } };
+      const y = { field: 'v', type: 'quantitative', title: null, axis: { tickCount: 3 }, scale: { zero: false } };
+      const { raw, clean } = pick(s);
+      return {
+        width: FULL_WIDTH, height,
+        title: { text: `${s.label}${p.rawTitle ? ` · ${p.rawTitle}` : ''}`, fontSize: 11, fontWeight: 'normal', color: PALETTE.muted, offset: 4 },
+        layer: [
+          ...(band ? [windowBand(p.window)] : []),
+          { data: { values: raw }, mark: { type: 'line', strokeWidth: 0.9, color: s.colour, opacity: 0.55 }, encoding: { x, y } },
+          { data: { values: clean }, mark: { type: 'line', strokeWidth: 1.4, color: PALETTE.ink }, encoding: { x, y } },
+        ],
+      };
+    }),
   };
+}
+
+/** Raw-record spec: one small panel per example shot over the whole record, the window shaded, the noise-free signal on top. */
+export function rawTracesSpec(p: TracePlot): PlotSpec {
+  return recordPanels(p, (s) => ({ raw: s.raw, clean: s.clean }), 70, true);
+}
+
+/** Zoom on the carrier: every sample of a few carrier periods per example shot, with the noise-free signal. */
+export function zoomTracesSpec(p: TracePlot): PlotSpec {
+  return recordPanels(p, (s) => ({ raw: s.zoomRaw, clean: s.zoomClean }), 80, false);
 }
 
 /** Demodulated-record spec: all example shots together, each integrated value and the threshold. */
@@ -138,6 +164,40 @@ export function demodulatedSpec(p: TracePlot): PlotSpec {
       },
     ],
   };
+}
+
+/** Integrated values in the IQ plane: one cloud per prepared state, and the decision line. */
+export interface IqPlot {
+  xTitle: string;
+  yTitle: string;
+  states: { name: string; colour: string; points: { i: number; q: number }[] }[];
+  /** Two points of the decision line (display units), or null when the decision is not a line in the plane. */
+  line: { i: number; q: number }[] | null;
+  /** Equal spans on both axes, so that angles read true. */
+  domain: { i: [number, number]; q: [number, number] };
+}
+
+/** Side of the square IQ plot (px). */
+export const IQ_SIZE = 420;
+
+/** IQ-plane spec: the clouds of integrated (I, Q) per prepared state on equal axes, the decision line dashed. */
+export function iqScatterSpec(p: IqPlot): PlotSpec {
+  const names = p.states.map((s) => s.name);
+  const colour = { field: 'state', type: 'nominal', scale: { domain: names, range: p.states.map((s) => s.colour) }, legend: { title: 'prepared state', orient: 'right', direction: 'vertical', symbolOpacity: 1 } };
+  const x = { field: 'i', type: 'quantitative', title: p.xTitle, scale: { domain: p.domain.i, nice: false, zero: false } };
+  const y = { field: 'q', type: 'quantitative', title: p.yTitle, scale: { domain: p.domain.q, nice: false, zero: false } };
+  const layer: unknown[] = [{
+    data: { values: p.states.flatMap((s) => s.points.map((pt) => ({ state: s.name, ...pt }))) },
+    mark: { type: 'point', filled: true, size: 9, opacity: 0.4, clip: true, aria: false },
+    encoding: { x, y, color: colour },
+  }];
+  if (p.line) {
+    layer.push({
+      data: { values: p.line.map((pt, k) => ({ ...pt, k })) }, mark: { type: 'line', color: PALETTE.ink, strokeDash: [6, 4], strokeWidth: 1.5, clip: true },
+      encoding: { x, y, order: { field: 'k', type: 'quantitative' } },
+    });
+  }
+  return { width: IQ_SIZE, height: IQ_SIZE, layer };
 }
 
 /** Error along one swept value: simulated points with interval bars, one analytic line per cause. */

@@ -11,7 +11,7 @@ import { projectKernel } from '../../classify/project.ts';
 import type { Scenario } from '../../scenario/types.ts';
 import type { Grid } from '../../signal/grid.ts';
 import { displayUnit, showValue, withUnit } from './display.ts';
-import { demodulatedSpec, histogramSpec, rawTracesSpec, type TracePlot } from './plots.ts';
+import { demodulatedSpec, histogramSpec, iqScatterSpec, rawTracesSpec, zoomTracesSpec, type TracePlot } from './plots.ts';
 import type { PlotSpec } from './svg.ts';
 import { causeColour, stateColour } from './theme.ts';
 
@@ -32,6 +32,8 @@ export interface ExampleRecord {
   /** What the shot shows: "clean" or "jump in window". */
   kind: 'clean' | 'jump';
   intended: number;
+  /** State at the record start (after preparation and mapping). */
+  initial: number;
   atWindowEnd: number;
   /** Time of the first jump (s), NaN if none. */
   firstJump: number;
@@ -79,13 +81,44 @@ export function histogramView(c: PointModel, r: PointReading, values: Float64Arr
     };
   }).filter((_, i) => values[i]!.length > 0);
   return histogramSpec({
-    xTitle: withUnit('integrated value along the separation axis', unit), states,
-    threshold: r.threshold * unit.factor, domain: [lo * unit.factor, hi * unit.factor], yMax: yMax * 3,
+    xTitle: withUnit('integrated value along the separation axis', unit), states, binWidth: showValue(width, sc.signal.unit),
+    threshold: r.threshold * unit.factor, thresholdText: showValue(r.threshold, sc.signal.unit),
+    domain: [lo * unit.factor, hi * unit.factor], yMax: yMax * 3,
   });
 }
 
-/** Example-record plots (raw and demodulated), or null when the point has no example shots. */
-export function traceViews(c: PointModel, shots: readonly ExampleRecord[], r: PointReading): { raw: PlotSpec; demodulated: PlotSpec; note: string } | null {
+/** Most samples a zoom on the carrier shows per shot. */
+export const ZOOM_SAMPLES = 400;
+/** Carrier periods a zoom shows (fewer when they would hold more than ZOOM_SAMPLES samples). */
+export const ZOOM_PERIODS = 4;
+
+/**
+ * The noise-free record of a shot: the waveform of its state at the record start until its first
+ * jump (which switches at sample ⌈t·fs⌉, as the engines write it), then that of its state at the
+ * window end; each state's steady waveform (carrier and gain included).
+ */
+function noiseFreeRecord(c: PointModel, s: ExampleRecord): Float64Array {
+  const n = c.grid.samples;
+  const out = new Float64Array(n);
+  const jump = Number.isFinite(s.firstJump) ? Math.ceil(s.firstJump * c.grid.sampleRate) : n;
+  const before = c.waveforms[s.initial]!, after = c.waveforms[s.atWindowEnd]!;
+  for (let k = 0; k < n; k++) out[k] = k < jump ? before[k]! : after[k]!;
+  return out;
+}
+
+/** The samples a zoom on the carrier shows: a few carrier periods from the window start (null at baseband). */
+function zoomRange(c: PointModel, carrier: number): { lo: number; hi: number; periods: number } | null {
+  if (!(carrier > 0)) return null;
+  const fs = c.grid.sampleRate;
+  const perPeriod = fs / carrier;
+  const periods = Math.max(1, Math.min(ZOOM_PERIODS, Math.floor(ZOOM_SAMPLES / perPeriod)));
+  const lo = c.grid.windowLo;
+  const hi = Math.min(c.grid.samples, lo + Math.max(2, Math.min(ZOOM_SAMPLES, Math.ceil(periods * perPeriod) + 1)));
+  return { lo, hi, periods };
+}
+
+/** Example-record plots (raw, a zoom on the carrier, demodulated), or null when the point has no example shots. */
+export function traceViews(c: PointModel, shots: readonly ExampleRecord[], r: PointReading): { raw: PlotSpec; zoom: PlotSpec | null; zoomNote: string; demodulated: PlotSpec; note: string } | null {
   if (shots.length === 0) return null;
   const sc = c.scenario;
   const fs = c.grid.sampleRate, n = c.grid.samples;
@@ -99,6 +132,8 @@ export function traceViews(c: PointModel, shots: readonly ExampleRecord[], r: Po
   for (const s of shots) for (let k = 0; k < n; k++) size = Math.max(size, Math.abs(s.record[k]!));
   const signal = displayUnit(sc.signal.unit, Math.max(size, Math.abs(r.threshold)));
   const demod = new Float64Array(n), smooth = new Float64Array(n);
+  const zoom = zoomRange(c, carrier);
+  const at = (k: number) => (k / fs) * time.factor;
   const plot: TracePlot = {
     timeTitle: withUnit('time from the record start', time),
     rawTitle: signal.label || 'signal',
@@ -111,20 +146,80 @@ export function traceViews(c: PointModel, shots: readonly ExampleRecord[], r: Po
       }
       movingAverage(demod, 0, n, width, smooth);
       const raw = envelope(s.record, 0, n, 700);
+      const clean = noiseFreeRecord(c, s);
+      const cleanLine = envelope(clean, 0, n, 700);
       const dm = envelope(smooth, 0, n, 500);
       const name = sc.states[s.intended]!.name;
       const cause = CAUSES[s.jumpCause] ?? 'jump';
       const label = s.kind === 'clean'
         ? `${name} prepared, no jump`
         : `${name} prepared, ${cause} to ${sc.states[s.atWindowEnd]!.name} at ${showValue(s.firstJump, 's')}`;
+      const samples = (values: Float64Array, lo: number, hi: number) => Array.from({ length: hi - lo }, (_, j) => ({ t: at(lo + j), v: values[lo + j]! * signal.factor }));
       return {
         label, colour: s.kind === 'clean' ? stateColour(s.intended) : causeColour(cause),
-        raw: raw.index.map((k, j) => ({ t: (k / fs) * time.factor, v: raw.value[j]! * signal.factor })),
-        demod: dm.index.map((k, j) => ({ t: (k / fs) * time.factor, v: dm.value[j]! * signal.factor })),
+        raw: raw.index.map((k, j) => ({ t: at(k), v: raw.value[j]! * signal.factor })),
+        clean: cleanLine.index.map((k, j) => ({ t: at(k), v: cleanLine.value[j]! * signal.factor })),
+        zoomRaw: zoom ? samples(s.record, zoom.lo, zoom.hi) : [],
+        zoomClean: zoom ? samples(clean, zoom.lo, zoom.hi) : [],
+        demod: dm.index.map((k, j) => ({ t: at(k), v: dm.value[j]! * signal.factor })),
         value: (s.values[r.pipeline]!.inPhase * cos + s.values[r.pipeline]!.quadrature * sin) * signal.factor,
       };
     }),
   };
   const smoothing = carrier > 0 ? `a moving average over one carrier period (${showValue(width / fs, 's')})` : `a moving average over ${showValue(width / fs, 's')}`;
-  return { raw: rawTracesSpec(plot), demodulated: demodulatedSpec(plot), note: smoothing };
+  const zoomNote = zoom
+    ? `${zoom.periods} carrier period${zoom.periods === 1 ? '' : 's'} (${zoom.hi - zoom.lo} samples, ${showValue((zoom.hi - zoom.lo) / fs, 's')}) from the window start`
+    : '';
+  return { raw: rawTracesSpec(plot), zoom: zoom ? zoomTracesSpec(plot) : null, zoomNote, demodulated: demodulatedSpec(plot), note: smoothing };
+}
+
+/** Most points per prepared state in the IQ plane (every k-th shot when there are more). */
+export const IQ_POINTS = 400;
+
+/** Integrated I and Q of one state's shots. */
+export interface StateIq {
+  inPhase: Float64Array;
+  quadrature: Float64Array;
+}
+
+/**
+ * The IQ-plane scatter of a point: each prepared state's integrated (I, Q), at most IQ_POINTS
+ * each (every k-th shot), on equal axes, with the decision line I·cos α + Q·sin α = threshold
+ * when `decidesOnIq` (a threshold on the projected integrated value). Null when the pipeline has
+ * no Q output (baseband) or there is nothing to draw. `shown`/`total`: the shots drawn and read.
+ */
+export function iqView(c: PointModel, r: PointReading, iq: readonly StateIq[], decidesOnIq: boolean): { spec: PlotSpec; shown: number; total: number } | null {
+  if (c.pipelines[r.pipeline]!.kernels.quadrature === null) return null;
+  const sc = c.scenario;
+  const picked = iq.map((v) => {
+    const n = v.inPhase.length;
+    const step = Math.max(1, Math.ceil(n / IQ_POINTS));
+    const idx = Array.from({ length: Math.ceil(n / step) }, (_, j) => j * step);
+    return idx.map((k) => ({ i: v.inPhase[k]!, q: v.quadrature[k]! })).filter((pt) => Number.isFinite(pt.i) && Number.isFinite(pt.q));
+  });
+  const all = picked.flat();
+  if (all.length === 0) return null;
+  let iLo = Infinity, iHi = -Infinity, qLo = Infinity, qHi = -Infinity;
+  for (const pt of all) {
+    iLo = Math.min(iLo, pt.i); iHi = Math.max(iHi, pt.i); qLo = Math.min(qLo, pt.q); qHi = Math.max(qHi, pt.q);
+  }
+  const half = (1.06 * Math.max(iHi - iLo, qHi - qLo)) / 2 || Math.max(Math.abs(iHi), Math.abs(qHi), 1e-30);
+  const iMid = (iLo + iHi) / 2, qMid = (qLo + qHi) / 2;
+  const unit = displayUnit(sc.signal.unit, Math.max(Math.abs(iMid) + half, Math.abs(qMid) + half));
+  const f = unit.factor;
+  const cos = Math.cos(r.axisAngle), sin = Math.sin(r.axisAngle);
+  // the decision line: through threshold·(cos, sin), along (−sin, cos), long enough to cross the plot (clipped)
+  const reach = 4 * half + Math.hypot(iMid, qMid) + Math.abs(r.threshold);
+  const line = decidesOnIq && Number.isFinite(r.threshold)
+    ? [-1, 1].map((k) => ({ i: (r.threshold * cos - k * reach * sin) * f, q: (r.threshold * sin + k * reach * cos) * f }))
+    : null;
+  const states = sc.states.map((s, k) => ({ name: s.name, colour: stateColour(k), points: picked[k]!.map((pt) => ({ i: pt.i * f, q: pt.q * f })) }))
+    .filter((s) => s.points.length > 0);
+  return {
+    shown: all.length, total: iq.reduce((a, v) => a + v.inPhase.length, 0),
+    spec: iqScatterSpec({
+      xTitle: withUnit('I, integrated in-phase value', unit), yTitle: withUnit('Q, integrated quadrature value', unit), states, line,
+      domain: { i: [(iMid - half) * f, (iMid + half) * f], q: [(qMid - half) * f, (qMid + half) * f] },
+    }),
+  };
 }

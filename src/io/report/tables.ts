@@ -34,6 +34,24 @@ export function causeTable(budget: readonly BudgetRow[], point: number, pipeline
   return { header: ['prepared state', 'cause', 'wrong shots', 'shots', 'simulated', '95 % interval', 'analytic', 'agrees'], rows, marked, textColumns: 2 };
 }
 
+/** A fraction of shots: four decimals, or three significant digits in exponent form below 1 %. */
+function fraction(x: number): string {
+  if (!Number.isFinite(x)) return '—';
+  return x === 0 || x >= 0.01 ? x.toFixed(4) : probability(x);
+}
+
+/**
+ * The assignment matrix at one point: one row per prepared state, one column per reported
+ * outcome, each cell the fraction of that state's scored shots reported as that outcome.
+ */
+export function assignmentTable(states: readonly string[], outcomes: readonly string[], correct: readonly number[], matrix: readonly (readonly number[])[]): TableView {
+  return {
+    header: ['prepared state', 'correct outcome', ...outcomes.map((o) => `reported "${o}"`)],
+    rows: states.map((st, s) => [st, `"${outcomes[correct[s]!] ?? '?'}"`, ...outcomes.map((_, o) => fraction(matrix[s]?.[o] ?? NaN))]),
+    textColumns: 2,
+  };
+}
+
 /** Most rows shown in the table of every point. */
 export const MAX_POINT_ROWS = 400;
 

@@ -18,7 +18,7 @@ import type { SweepAxis, SweepSpec } from '../types.ts';
 import { integer, oneOf, section } from '../fields.ts';
 import type { ResolveContext } from '../context.ts';
 import { formatPath, type KeyPath } from '../issues.ts';
-import { parseQuantity, sameDimension, UnitSyntaxError, type Dimension } from '../units.ts';
+import { frequencyAsEnergy, parseQuantity, sameDimension, UnitSyntaxError, type Dimension } from '../units.ts';
 
 /** Most sweep points a run may have (the seeding gives each point its own stream). */
 export const MAX_SWEEP_POINTS = 10_000;
@@ -131,6 +131,25 @@ interface Read {
   dim: Dimension | null;
 }
 
+const ENERGY: Dimension = [0, 0, 1, 0, 0];
+const FREQUENCY: Dimension = [-1, 0, 0, 0, 0];
+
+/**
+ * Energies may be written as frequencies (h·f, as every energy key accepts): when the base value
+ * or any swept value is an energy, every frequency among them becomes its energy h·f.
+ */
+function asEnergies(reads: Read[], baseDim: Dimension | null): { reads: Read[]; baseDim: Dimension | null } {
+  if (![baseDim, ...reads.map((r) => r.dim)].some((d) => d !== null && sameDimension(d, ENERGY))) return { reads, baseDim };
+  return {
+    baseDim: baseDim !== null && sameDimension(baseDim, FREQUENCY) ? ENERGY : baseDim,
+    reads: reads.map((r) => {
+      if (r.dim === null) return r;
+      const q = frequencyAsEnergy({ value: r.value, dim: r.dim, plain: false });
+      return { value: q.value, dim: q.dim };
+    }),
+  };
+}
+
 /** Reads one written value: SI number and dimension (null for a plain number). */
 function readValue(v: number | string, path: KeyPath, ctx: ResolveContext): Read {
   try {
@@ -212,7 +231,9 @@ export function resolveSweep(doc: SweepDoc, ctx: ResolveContext): SweepSpec | un
     let dims: { dim: Dimension | null; at: KeyPath }[];
     let spacing: 'linear' | 'log' | 'list';
     if (entry.values !== undefined) {
-      const reads = entry.values.map((v, j) => readValue(v, [...at, 'values', j], ctx));
+      const read = asEnergies(entry.values.map((v, j) => readValue(v, [...at, 'values', j], ctx)), baseDim);
+      const reads = read.reads;
+      baseDim = read.baseDim;
       values = reads.map((r) => r.value);
       written = [...entry.values];
       dims = reads.map((r, j) => ({ dim: r.dim, at: [...at, 'values', j] }));
@@ -220,8 +241,9 @@ export function resolveSweep(doc: SweepDoc, ctx: ResolveContext): SweepSpec | un
     } else {
       const r = entry.range!;
       spacing = r.spacing ?? 'linear';
-      const from = readValue(r.from, [...at, 'range', 'from'], ctx);
-      const to = readValue(r.to, [...at, 'range', 'to'], ctx);
+      const read = asEnergies([readValue(r.from, [...at, 'range', 'from'], ctx), readValue(r.to, [...at, 'range', 'to'], ctx)], baseDim);
+      const [from, to] = read.reads as [Read, Read];
+      baseDim = read.baseDim;
       dims = [{ dim: from.dim, at: [...at, 'range', 'from'] }, { dim: to.dim, at: [...at, 'range', 'to'] }];
       if (spacing === 'log' && !(from.value > 0 && to.value > 0)) {
         ctx.fail([...at, 'range', from.value > 0 ? 'to' : 'from'], 'a value > 0 (log spacing)');
