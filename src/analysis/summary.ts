@@ -49,6 +49,8 @@ export interface PointSummary {
   /** separation/σ from clean simulated shots. */
   snr: number;
   sigma: number;
+  /** Per outcome: centre and spread of the integrated value (ValueSpread). */
+  outcomeValues: { mean: number; sigma: number }[];
   analyticSnr: number;
   analyticSigma: number;
   threshold: number;
@@ -93,10 +95,46 @@ function compare(cause: string, errors: number, shots: number, analytic: number,
   };
 }
 
+/**
+ * Centre and spread of the integrated value per outcome, the separation of the centres and the
+ * pooled σ, from which SNR = separation/σ. A run takes them from its clean shots (cleanSpread);
+ * recorded traces, whose clean shots nobody knows, from robust statistics of each labelled
+ * group (app/analyze.ts).
+ */
+export interface ValueSpread {
+  outcomes: { mean: number; sigma: number }[];
+  separation: number;
+  sigma: number;
+}
+
+/** The spread from a run's clean shots: each outcome's states weighted by the prepared mixture, σ pooled over every state. */
+export function cleanSpread(tally: Tally, outcomeOf: readonly number[], prepare: readonly number[]): ValueSpread {
+  let pooledM2 = 0, pooledDof = 0;
+  const groupMean = [0, 0], groupWeight = [0, 0], groupM2 = [0, 0], groupDof = [0, 0];
+  tally.clean.forEach((m, s) => {
+    if (m.n < 2) return;
+    const o = outcomeOf[s]!;
+    pooledM2 += m.m2;
+    pooledDof += m.n - 1;
+    if (o > 1) return;
+    const w = prepare[s]! || 1e-300;
+    groupMean[o]! += w * m.mean;
+    groupWeight[o]! += w;
+    groupM2[o]! += m.m2;
+    groupDof[o]! += m.n - 1;
+  });
+  const sigma = pooledDof > 0 ? Math.sqrt(pooledM2 / pooledDof) : NaN;
+  const outcomes = [0, 1].map((o) => ({
+    mean: groupWeight[o]! > 0 ? groupMean[o]! / groupWeight[o]! : NaN,
+    sigma: groupDof[o]! > 0 ? Math.sqrt(groupM2[o]! / groupDof[o]!) : NaN,
+  }));
+  return { outcomes, separation: Math.abs(outcomes[1]!.mean - outcomes[0]!.mean), sigma };
+}
+
 /** Builds the summary of one pipeline at one point. */
 export function summarise(
   pipeline: string, stateNames: readonly string[], outcomeOf: readonly number[], prepare: readonly number[],
-  tally: Tally, budget: Budget, threshold: number, highIsOne: boolean, banded = false,
+  tally: Tally, budget: Budget, threshold: number, highIsOne: boolean, banded = false, valueSpread: ValueSpread | null = null,
 ): PointSummary {
   const C = CAUSES.length;
   const causeNames = CAUSES.filter((_, c) => c !== CAUSE_NONE && CAUSES[c] !== 'discarded');
@@ -127,19 +165,8 @@ export function summarise(
     return compare(cause, meanCounts[c]!, totalShots, budget.mean.causes[c]!, budget.mean.alone[c]!);
   });
   const meanTotal = compare('total', totalErrors, totalShots, budget.mean.total, budget.mean.linearSum);
-  // simulated SNR from clean shots: separation of the outcome groups over the pooled σ
-  let pooledM2 = 0, pooledDof = 0;
-  const groupMean = [0, 0], groupWeight = [0, 0];
-  tally.clean.forEach((m, s) => {
-    if (m.n < 2) return;
-    pooledM2 += m.m2;
-    pooledDof += m.n - 1;
-    const w = prepare[s]! || 1e-300;
-    groupMean[outcomeOf[s]!]! += w * m.mean;
-    groupWeight[outcomeOf[s]!]! += w;
-  });
-  const sigma = pooledDof > 0 ? Math.sqrt(pooledM2 / pooledDof) : NaN;
-  const separation = Math.abs(groupMean[1]! / groupWeight[1]! - groupMean[0]! / groupWeight[0]!);
+  const spread = valueSpread ?? cleanSpread(tally, outcomeOf, prepare);
+  const { sigma, separation } = spread;
   // the errors of each prepared outcome: its states' shots pooled, and the analytic ones weighted by the mixture
   const outcomeErrors: [number, number] = [0, 0], outcomeShots: [number, number] = [0, 0];
   const analyticOutcome = [0, 0], outcomeWeight = [0, 0];
@@ -159,7 +186,7 @@ export function summarise(
     pipeline, shots: totalShots, states,
     meanError: meanTotal.simulated, meanErrors: totalErrors, meanCauses,
     analyticMean: budget.mean.total, analyticLinearSum: budget.mean.linearSum,
-    snr: separation / sigma, sigma, analyticSnr: budget.snr, analyticSigma: budget.sigma,
+    snr: separation / sigma, sigma, outcomeValues: spread.outcomes, analyticSnr: budget.snr, analyticSigma: budget.sigma,
     threshold, highIsOne, banded,
     discarded, discardFraction: totalShots > 0 ? discarded / totalShots : 0,
     postSelectedError: wilsonInterval(keptWrong, totalShots - discarded, REPORT_CONFIDENCE),

@@ -36,6 +36,8 @@ export function resultToJson(result: RunResult, extra: Record<string, unknown> =
     sigmaUnit: statisticUnit(p, i),
     analyticSigma: s.analyticSigma,
     analyticSigmaUnit: statisticUnit(p, i),
+    valueByOutcome: Object.fromEntries(p.compiled.scenario.outcomes.map((o, j) => [o, s.outcomeValues[j] ?? null])),
+    valueByOutcomeUnit: p.compiled.scenario.signal.unit,
     ...noiseJson(p.noise[i] ?? null, p.compiled.scenario.signal.unit),
     ...(p.clippedSamples !== undefined ? { clippedSamples: p.clippedSamples } : {}),
     threshold: s.threshold,

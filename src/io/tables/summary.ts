@@ -1,6 +1,7 @@
 /**
  * summary.arrow: one row per sweep point and pipeline — swept values, error per state with
- * intervals, assignment matrix, mean error, SNR (simulated and analytic), threshold.
+ * intervals, assignment matrix, mean error, SNR (simulated and analytic), the centre and spread
+ * of the integrated value per outcome, threshold.
  */
 import type { Table } from 'apache-arrow';
 import { buildTable, type ColumnSpec } from './columns.ts';
@@ -43,6 +44,10 @@ export function summaryColumns(points: readonly PointRows[], unit: string, swept
     col('analytic_snr', 'f64', '', (r) => r.s.analyticSnr),
     col('sigma', 'f64', unit, (r) => r.s.sigma),
     col('analytic_sigma', 'f64', unit, (r) => r.s.analyticSigma),
+    ...outcomes.flatMap((o, j) => [
+      col(`value_mean_${o}`, 'f64', unit, (r) => r.s.outcomeValues[j]?.mean ?? null),
+      col(`value_sigma_${o}`, 'f64', unit, (r) => r.s.outcomeValues[j]?.sigma ?? null),
+    ]),
     col('predicted_sigma', 'f64', unit, (r) => r.noise?.sigma ?? null),
     ...sources.flatMap((n) => [
       col(`predicted_sigma_${n}`, 'f64', unit, (r) => source(r, n)?.sigma ?? null),
