@@ -98,7 +98,10 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   const recordsSection: SectionView = { id: 'records', title: 'Example records', intro: [], figures: [], tables: [] };
   if (traces) {
     recordsSection.intro.push('Shots re-simulated from the embedded scenario on the point\'s auxiliary random stream (never the scored shots; the same every time): one clean shot per prepared state and, where the model has transitions, one whose state changed inside the window. Shaded: the integration window.');
-    pending.push({ section: recordsSection, spec: traces.raw, figure: { title: 'Raw records', caption: 'The digitised record as synthesised, carrier and noise included.' } });
+    const rawCaption = compiled.channels > 1
+      ? 'The digitised I and Q channels as synthesised, noise included, one panel per channel.'
+      : 'The digitised record as synthesised, carrier and noise included.';
+    pending.push({ section: recordsSection, spec: traces.raw, figure: { title: 'Raw records', caption: rawCaption } });
     pending.push({
       section: recordsSection, spec: traces.demodulated,
       figure: { title: 'Demodulated records', caption: `Each record multiplied by the demodulation reference and projected on the separation axis, smoothed by ${traces.note}. Dotted segments: each shot's integrated value over the window; dashed line: the threshold.` },

@@ -84,7 +84,8 @@ export const correlatedKind: NoiseSourceKind<CorrelatedSourceSpec> = {
     // a = e^(−dt/τc) and √(1 − a²) without cancellation for τc ≫ dt
     const decay = specs.map((s) => Math.exp(-1 / (fs * s.correlationTime)));
     const innovation = specs.map((s) => s.sigma * Math.sqrt(-Math.expm1(-2 / (fs * s.correlationTime))));
-    const weightOf = (s: number, k: number) => (specs[s]!.injection === 'sensor' ? point.sensorWeight[k]! : point.gain);
+    const n = point.grid.samples;
+    const realisationsOf = (s: number) => point.realisations[specs[s]!.injection];
     let normals = new Float64Array(0);
     const kind: CompiledNoiseKind = {
       sources: specs.map((s) => ({
@@ -100,16 +101,24 @@ export const correlatedKind: NoiseSourceKind<CorrelatedSourceSpec> = {
       },
       perShot: {
         covariance: (s, xa, xb, lo, hi) => specs[s]!.sigma ** 2 * exponentialBilinearForm(xa, xb, lo, hi, decay[s]!),
-        addShot(record, lo, hi, stream) {
-          if (normals.length < hi - lo) normals = new Float64Array(hi - lo);
+        addShot(record, lo, hi, streams) {
+          const m = hi - lo;
+          if (normals.length < m) normals = new Float64Array(m);
           for (let s = 0; s < specs.length; s++) {
-            stream.fillNormals(normals, 0, hi - lo);
             const a = decay[s]!, b = innovation[s]!;
-            let x = specs[s]!.sigma * normals[0]!;
-            record[lo] += weightOf(s, lo) * x;
-            for (let k = lo + 1; k < hi; k++) {
-              x = a * x + b * normals[k - lo]!;
-              record[k] += weightOf(s, k) * x;
+            for (const r of realisationsOf(s)) {
+              // the process in place of its normals: x_0 = σ·n_0, x_{k+1} = a·x_k + b·n_{k+1}
+              streams[r.lane]!.fillNormals(normals, 0, m);
+              let x = specs[s]!.sigma * normals[0]!;
+              normals[0] = x;
+              for (let j = 1; j < m; j++) {
+                x = a * x + b * normals[j]!;
+                normals[j] = x;
+              }
+              for (const c of r.channels) {
+                const at = c * n, w = r.weight;
+                for (let k = lo; k < hi; k++) record[at + k] += w[at + k]! * normals[k - lo]!;
+              }
             }
           }
         },
