@@ -108,10 +108,27 @@ export function warnDecimationAliasing(s: Scenario, ctx: ResolveContext): void {
   });
 }
 
+/**
+ * Warns when a pipeline gives a reference phase (an angle) on one baseband channel (carrier:
+ * none): with neither a carrier nor a second channel there is no quadrature to rotate, so the
+ * angle has no meaning and the decision is on the record itself. (On baseband I and Q it rotates
+ * the IQ plane, as with a carrier.)
+ */
+export function warnPhaseWithoutCarrier(s: Scenario, ctx: ResolveContext): void {
+  if (s.signal.carrier.shape !== 'none') return;
+  const fromList = valueAt(ctx.raw, ['pipelines']) !== undefined;
+  s.pipelines.forEach((p, i) => {
+    if (p.referencePhase === 'auto') return;
+    ctx.warn([...(fromList ? ['pipelines', i] : ['processing']), 'referencePhase'],
+      'an angle has no meaning on one baseband channel (carrier: none): there is no quadrature to rotate, and the decision is on the record itself; a reference phase needs a carrier, or carrier: baseband-iq for I and Q');
+  });
+}
+
 /** All cross-section plausibility warnings. */
 export function plausibilityWarnings(s: Scenario, ctx: ResolveContext): void {
   warnInseparableStates(s, ctx);
   warnThinCalibration(s, ctx);
   warnLikelyFlips(s, ctx);
   warnDecimationAliasing(s, ctx);
+  warnPhaseWithoutCarrier(s, ctx);
 }

@@ -20,7 +20,8 @@ const carrierSchema = z
       z.literal('none'),
       z.literal('baseband-iq'),
       section({
-        shape: oneOf(['sine', 'square']),
+        // baseband I and Q has no carrier: say how it is written when it turns up here
+        shape: z.enum(['sine', 'square'], { error: () => 'one of "sine", "square" (baseband I and Q has no carrier: write carrier: baseband-iq, without frequency or phase)' }),
         frequency: quantity('frequency', positive, 'Carrier frequency'),
         phase: quantity('angle', {}, 'Carrier phase (default 0)').optional(),
       }),
