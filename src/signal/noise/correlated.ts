@@ -28,6 +28,30 @@ export interface CorrelatedSourceSpec extends NoiseSourceSpec {
   correlationTime: number;
 }
 
+/**
+ * Adds weight[at + j]·x_j to record[at + j] for j < m, x the process x_0 = σ·n_0,
+ * x_{j+1} = a·x_j + b·n_{j+1} driven by normals[0 … m); with `keep`, x_j replaces n_j in normals.
+ */
+function addProcess(
+  record: Float64Array, at: number, m: number, normals: Float64Array, weight: Float64Array, sigma: number, a: number, b: number, keep: boolean,
+): void {
+  let x = sigma * normals[0]!;
+  record[at] += weight[at]! * x;
+  if (keep) {
+    normals[0] = x;
+    for (let j = 1; j < m; j++) {
+      x = a * x + b * normals[j]!;
+      normals[j] = x;
+      record[at + j] += weight[at + j]! * x;
+    }
+    return;
+  }
+  for (let j = 1; j < m; j++) {
+    x = a * x + b * normals[j]!;
+    record[at + j] += weight[at + j]! * x;
+  }
+}
+
 /** Most correlated sources per point. */
 export const MAX_CORRELATED_SOURCES = 8;
 
@@ -105,19 +129,14 @@ export const correlatedKind: NoiseSourceKind<CorrelatedSourceSpec> = {
           const m = hi - lo;
           if (normals.length < m) normals = new Float64Array(m);
           for (let s = 0; s < specs.length; s++) {
-            const a = decay[s]!, b = innovation[s]!;
             for (const r of realisationsOf(s)) {
-              // the process in place of its normals: x_0 = σ·n_0, x_{k+1} = a·x_k + b·n_{k+1}
               streams[r.lane]!.fillNormals(normals, 0, m);
-              let x = specs[s]!.sigma * normals[0]!;
-              normals[0] = x;
-              for (let j = 1; j < m; j++) {
-                x = a * x + b * normals[j]!;
-                normals[j] = x;
-              }
-              for (const c of r.channels) {
-                const at = c * n, w = r.weight;
-                for (let k = lo; k < hi; k++) record[at + k] += w[at + k]! * normals[k - lo]!;
+              // the first channel in the same pass as the process; the others from the process kept in `normals`
+              const [first, ...rest] = r.channels;
+              addProcess(record, first! * n + lo, m, normals, r.weight, specs[s]!.sigma, decay[s]!, innovation[s]!, rest.length > 0);
+              for (const c of rest) {
+                const at = c * n + lo, w = r.weight;
+                for (let j = 0; j < m; j++) record[at + j] += w[at + j]! * normals[j]!;
               }
             }
           }

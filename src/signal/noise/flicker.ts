@@ -226,7 +226,7 @@ export const flickerKind: NoiseSourceKind<FlickerSourceSpec> = {
       },
       withKernels: (kernels) => compiled(carry(kernels)),
       runtime(purpose, stream) {
-        // each source's timeline on every lane an entry reads it from
+        // each source's timeline on every lane an entry reads it from, made once
         const timelines = new Map<string, FlickerTimeline>();
         const timeline = (source: number, lane: number): FlickerTimeline => {
           const key = `${source}/${lane}`;
@@ -237,16 +237,17 @@ export const flickerKind: NoiseSourceKind<FlickerSourceSpec> = {
           }
           return t;
         };
+        const read = entries.map((e) => e.sources.map((source) => timeline(source, e.realisation.lane)));
         const windows = entries.map(() => new Float64Array(width + 1));
         return {
           shot(shot) {
             // shots beyond the planned ones (auxiliary shots, benchmarks) wrap around the timeline
             const J0 = (shot % capacity) * step + offset;
-            entries.forEach((e, i) => {
+            for (let i = 0; i < entries.length; i++) {
               const w = windows[i]!;
               w.fill(0);
-              for (const source of e.sources) timeline(source, e.realisation.lane).addRange(w, 0, J0, width);
-            });
+              for (const t of read[i]!) t.addRange(w, 0, J0, width);
+            }
           },
           addToRecord(record, lo, hi) {
             entries.forEach((e, i) => {
