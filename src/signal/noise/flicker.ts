@@ -24,7 +24,7 @@
 import type { NoiseInjection, NoiseSourceSpec } from '../../scenario/types.ts';
 import { SEED_BLOCK } from '../../random/streams.ts';
 import {
-  BASE_OVERSAMPLING, flickerFunctionalVariance, makeFlickerTimeline, planFlickerTimeline, type FlickerBand, type FlickerTimeline,
+  BASE_OVERSAMPLING, flickerFunctionalVariance, makeFlickerTimeline, planFlickerTimeline, type FlickerBand,
 } from '../flicker-timeline.ts';
 import { responsePowerGain } from '../response.ts';
 import type { CompiledNoiseKind, KernelPair, KindedValue, NoiseSourceKind } from './contract.ts';
@@ -226,18 +226,10 @@ export const flickerKind: NoiseSourceKind<FlickerSourceSpec> = {
       },
       withKernels: (kernels) => compiled(carry(kernels)),
       runtime(purpose, stream) {
-        // each source's timeline on every lane an entry reads it from, made once
-        const timelines = new Map<string, FlickerTimeline>();
-        const timeline = (source: number, lane: number): FlickerTimeline => {
-          const key = `${source}/${lane}`;
-          let t = timelines.get(key);
-          if (!t) {
-            t = makeFlickerTimeline(bands[source]!, (band, pair) => stream(flickerStreamIndex(purpose, source, band, pair), lane));
-            timelines.set(key, t);
-          }
-          return t;
-        };
-        const read = entries.map((e) => e.sources.map((source) => timeline(source, e.realisation.lane)));
+        // per entry, the timeline of each of its sources on the entry's lane (a source enters one injection point, so no two entries share one)
+        const read = entries.map((e) => e.sources.map((source) => makeFlickerTimeline(
+          bands[source]!, (band, pair) => stream(flickerStreamIndex(purpose, source, band, pair), e.realisation.lane),
+        )));
         const windows = entries.map(() => new Float64Array(width + 1));
         return {
           shot(shot) {
