@@ -16,6 +16,7 @@
  * exactly to the total and can be compared one by one with the simulated counts.
  */
 import { gaussianTail } from './special.ts';
+import { kernelPrefixSums } from './linear-statistic.ts';
 import { CAUSES, CAUSE_MAPPING, CAUSE_NOISE, CAUSE_PREPARATION } from './causes.ts';
 import { chainValues, onlyTerminalJumps, type ValuesByCause } from './chain-values.ts';
 import type { ResponseTables } from '../signal/response.ts';
@@ -33,6 +34,8 @@ export interface BudgetInput {
   noiseVariance: number;
   /** The analog response on the level path (its transients after jumps), or null/absent. */
   response?: ResponseTables | null;
+  /** Channels of the record (absent: 1); kernel, waveforms and response tables are channel-major. */
+  channels?: number;
   /** Rate matrix rate[from·N + to] (1/s) and the cause code of each jump. */
   rate: Float64Array;
   jumpCause: Uint8Array;
@@ -83,11 +86,7 @@ interface StartError {
 export function analyticBudget(input: BudgetInput): Budget {
   const n = input.waveforms.length;
   const { kernel, lo, hi } = input;
-  const prefix = input.waveforms.map((w) => {
-    const p = new Float64Array(hi - lo + 1);
-    for (let k = lo; k < hi; k++) p[k - lo + 1] = p[k - lo]! + kernel[k]! * w[k]!;
-    return p;
-  });
+  const prefix = input.waveforms.map((w) => kernelPrefixSums(kernel, w, lo, hi, input.channels ?? 1));
   const means = Float64Array.from(prefix, (p) => p[hi - lo]!);
   const sigma = Math.sqrt(input.noiseVariance);
   const wrong = (mean: number, outcome: number): number => {

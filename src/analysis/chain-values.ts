@@ -5,7 +5,8 @@
  * another).
  *
  * Model. The value is V = Σ_{k=lo}^{hi−1} d_{x_k}(k) with d_s(k) = K_k·w_s[k] (the projected
- * kernel times state s's waveform) and x_k the state at sample k. The engine switches at sample
+ * kernel times state s's waveform; on baseband I and Q summed over both channels, which switch
+ * together) and x_k the state at sample k. The engine switches at sample
  * ⌈t·fs⌉, so sample k shows x(k/fs): the path on the sample grid is exactly the chain sampled at
  * k/fs, with transition matrix exp(Q/fs). The first jump's cause is carried in an augmented state
  * (s, f): f = 0 before any jump, else the cause of the first jump (a generator on the augmented
@@ -34,6 +35,7 @@
  * are followed for their transient.
  */
 import { matrixExponential } from '../classify/matrix-exponential.ts';
+import { allChannels, foldedProducts } from '../signal/channel-fold.ts';
 import type { ResponseTables } from '../signal/response.ts';
 
 /** What the chain's value distribution needs (a subset of the budget's input). */
@@ -49,6 +51,8 @@ export interface ChainValueInput {
   jumpCause: Uint8Array;
   /** The analog response on the level path, or null/absent without one. */
   response?: ResponseTables | null;
+  /** Channels of the record (absent: 1); kernel, waveforms and response tables are channel-major. */
+  channels?: number;
 }
 
 /** Mass at value points: `values[i]` with probability `mass[i]`. */
@@ -80,7 +84,7 @@ export function onlyTerminalJumps(rate: Float64Array, states: number): boolean {
  * step (the caller picks about σ/16).
  */
 export function chainValues(input: ChainValueInput, start: number, step: number): ValuesByCause {
-  const { kernel, lo, hi, waveforms, rate, jumpCause } = input;
+  const { lo, hi, waveforms, rate, jumpCause } = input;
   const n = waveforms.length;
   const causes = [0];
   for (let i = 0; i < n * n; i++) if (rate[i]! > 0 && !causes.includes(jumpCause[i]!)) causes.push(jumpCause[i]!);
@@ -108,10 +112,11 @@ export function chainValues(input: ChainValueInput, start: number, step: number)
   const step1 = matrixExponential(scaled(dt), A);
   // the augmented state at the first sample followed
   const before = matrixExponential(scaled(first * dt), A);
-  // D_s(k) for k = lo … hi (0 before the window)
-  const prefix = waveforms.map((w) => {
+  // d_s(k), each sample's terms over the channels, and D_s(k) for k = lo … hi (0 before the window)
+  const terms = waveforms.map((w) => sampleTerms(input, w));
+  const prefix = terms.map((t) => {
     const p = new Float64Array(hi - lo + 1);
-    for (let k = lo; k < hi; k++) p[k - lo + 1] = p[k - lo]! + kernel[k]! * w[k]!;
+    for (let k = lo; k < hi; k++) p[k - lo + 1] = p[k - lo]! + t[k]!;
     return p;
   });
   const prefixAt = (s: number, k: number) => (k <= lo ? 0 : prefix[s]![k - lo]!);
@@ -124,7 +129,7 @@ export function chainValues(input: ChainValueInput, start: number, step: number)
     uMax = Math.max(uMax, vMax - dMin);
     if (k < hi) {
       let lowest = Infinity, highest = -Infinity;
-      for (let s = 0; s < n; s++) { const d = kernel[k]! * waveforms[s]![k]!; lowest = Math.min(lowest, d); highest = Math.max(highest, d); }
+      for (let s = 0; s < n; s++) { const d = terms[s]![k]!; lowest = Math.min(lowest, d); highest = Math.max(highest, d); }
       vMin += lowest; vMax += highest;
     }
   }
@@ -225,8 +230,9 @@ function addShifted(
 function responseTransients(input: ChainValueInput, r: ResponseTables, first: number): {
   value(from: number, to: number, j: number): number; bound: number;
 } {
-  const { kernel, lo, hi, sampleRate } = input;
+  const { lo, hi, sampleRate } = input;
   const a = Math.exp(-1 / (sampleRate * r.timeConstant));
+  const termI = sampleTerms(input, r.inPhase), termQ = sampleTerms(input, r.quadrature);
   const rho = -r.timeConstant * sampleRate * Math.expm1(-1 / (r.timeConstant * sampleRate));
   const length = hi - first + 1;
   // E(j) for j = first … hi: the kernel times gain·c (gain·s) from max(j, lo) on, decayed from j
@@ -236,11 +242,11 @@ function responseTransients(input: ChainValueInput, r: ResponseTables, first: nu
   for (let j = hi - 1; j >= first; j--) {
     const k = j - first;
     const inWindow = j >= lo;
-    eI[k] = (inWindow ? kernel[j]! * r.inPhase[j]! : 0) + a * eI[k + 1]!;
-    eQ[k] = (inWindow ? kernel[j]! * r.quadrature[j]! : 0) + a * eQ[k + 1]!;
+    eI[k] = (inWindow ? termI[j]! : 0) + a * eI[k + 1]!;
+    eQ[k] = (inWindow ? termQ[j]! : 0) + a * eQ[k + 1]!;
     const ring = Math.exp(-j / (sampleRate * r.timeConstant));
-    fI[k] = (inWindow ? kernel[j]! * r.inPhase[j]! * ring : 0) + fI[k + 1]!;
-    fQ[k] = (inWindow ? kernel[j]! * r.quadrature[j]! * ring : 0) + fQ[k + 1]!;
+    fI[k] = (inWindow ? termI[j]! * ring : 0) + fI[k + 1]!;
+    fQ[k] = (inWindow ? termQ[j]! * ring : 0) + fQ[k + 1]!;
   }
   let largestE = 0, largestL = 0;
   for (let k = 0; k < length; k++) largestE = Math.max(largestE, Math.hypot(eI[k]!, eQ[k]!));
@@ -255,4 +261,10 @@ function responseTransients(input: ChainValueInput, r: ResponseTables, first: nu
       return v;
     },
   };
+}
+
+/** The kernel's terms with a channel-major table x at each sample of [lo, hi), folded over the record's channels. */
+function sampleTerms(input: ChainValueInput, x: Float64Array): Float64Array {
+  const channels = input.channels ?? 1;
+  return foldedProducts(input.kernel, x, input.lo, input.hi, input.kernel.length / channels, allChannels(channels));
 }

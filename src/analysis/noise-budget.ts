@@ -42,17 +42,21 @@ export function noiseMixture(plan: NoisePlan, kernel: Float64Array, lo: number, 
     compiled.sources.forEach((info, s) => {
       const variance = prediction.sources[row++]!.variance;
       if (!compiled.twoLevel) return;
-      const { probability: p, step, switchingRate } = compiled.twoLevel(s, seenFrom(plan, info.injection, kernel, lo, hi), lo, hi);
-      const slow = switchingRate * window < SLOW_FLUCTUATOR && components.length < 2 ** MAX_MIXED;
-      if (!slow) {
-        shift += step * p;
-        return;
+      // each independent realisation is a fluctuator of its own (one per channel on the amplifier side of baseband I and Q)
+      const seen = seenFrom(plan, info.injection, kernel, lo, hi);
+      for (const x of seen) {
+        const { probability: p, step, switchingRate } = compiled.twoLevel(s, x, lo, hi);
+        const slow = switchingRate * window < SLOW_FLUCTUATOR && components.length < 2 ** MAX_MIXED;
+        if (!slow) {
+          shift += step * p;
+          continue;
+        }
+        gaussianVariance -= seen.length === 1 ? variance : compiled.variance(s, x, lo, hi, sampleRate);
+        components = components.flatMap((c) => [
+          { weight: c.weight * (1 - p), offset: c.offset },
+          { weight: c.weight * p, offset: c.offset + step },
+        ]).filter((c) => c.weight > 0);
       }
-      gaussianVariance -= variance;
-      components = components.flatMap((c) => [
-        { weight: c.weight * (1 - p), offset: c.offset },
-        { weight: c.weight * p, offset: c.offset + step },
-      ]).filter((c) => c.weight > 0);
     });
   }
   return {
@@ -64,13 +68,14 @@ export function noiseMixture(plan: NoisePlan, kernel: Float64Array, lo: number, 
 /** The analytic budget under the point's noise: the mixture of Barthel budgets, σ the predicted total. */
 export function budgetWithNoise(input: Omit<BudgetInput, 'noiseVariance'>, plan: NoisePlan): Budget {
   const mixture = noiseMixture(plan, input.kernel, input.lo, input.hi, input.sampleRate);
+  const chain = { response: plan.response, channels: plan.channels };
   const parts = mixture.components.map((c) => ({
     weight: c.weight,
-    budget: analyticBudget({ ...input, response: plan.response, noiseVariance: mixture.gaussianVariance, threshold: input.threshold - c.offset }),
+    budget: analyticBudget({ ...input, ...chain, noiseVariance: mixture.gaussianVariance, threshold: input.threshold - c.offset }),
   }));
   if (parts.length === 1 && mixture.components[0]!.offset === 0) {
     // Gaussian noise only: the plain budget with the total variance
-    return analyticBudget({ ...input, response: plan.response, noiseVariance: mixture.prediction.variance });
+    return analyticBudget({ ...input, ...chain, noiseVariance: mixture.prediction.variance });
   }
   const first = parts[0]!.budget;
   const blend = (pick: (b: Budget) => Float64Array | number): Float64Array | number => {

@@ -20,11 +20,18 @@
  * Noise correlated across shots (1/f) is predicted as the marginal variance of one shot's value
  * over the whole band (what the pooled σ of many shots estimates). Clipping is not predicted
  * (the run warns when it happened).
+ *
+ * Baseband I and Q (two channels; the kernel is channel-major, V = Σ_k K_I[k]·I_k + K_Q[k]·Q_k):
+ * white noise and quantisation are independent on every entry, so σ²·Σ K² runs over both
+ * channels; every other source adds the variances of its independent realisations
+ * (signal/injection.ts), one for sensor-side noise seen through x_k = K_I[k]·g·cos α +
+ * K_Q[k]·g·sin α, one per channel for amplifier-side noise seen through g·K_I and g·K_Q.
  */
 import { squaredSum } from '../signal/filter-function.ts';
 import { quantisationStep } from '../signal/digitizer.ts';
 import type { NoiseInjection } from '../scenario/types.ts';
 import type { NoisePlan } from '../signal/noise-plan.ts';
+import { seenThrough } from '../signal/injection.ts';
 
 /** One source's entry in the noise budget. */
 export interface NoiseSourceBudget {
@@ -55,17 +62,20 @@ export interface NoisePrediction {
   sigma: number;
 }
 
-/** Predicts the noise of Σ_k kernel[k]·record[k] over [lo, hi), source by source. */
+/** Predicts the noise of Σ_k kernel[k]·record[k] over [lo, hi) of each channel, source by source. */
 export function predictNoise(plan: NoisePlan, kernel: Float64Array, lo: number, hi: number, sampleRate: number): NoisePrediction {
   const sources: Omit<NoiseSourceBudget, 'sigma' | 'share'>[] = [];
-  const k2 = squaredSum(kernel, lo, hi);
+  const samples = kernel.length / plan.channels;
+  let k2 = squaredSum(kernel, lo, hi);
+  for (let at = samples; at < kernel.length; at += samples) k2 += squaredSum(kernel, at + lo, at + hi);
   for (const w of plan.white) {
     sources.push({ name: w.name, kind: 'white', injection: 'amplifier', density: w.density, densityUnit: '{unit}/√Hz', origin: w.origin, variance: w.perSampleVariance * k2 });
   }
   for (const { compiled } of plan.kinds) {
     compiled.sources.forEach((info, s) => {
-      const x = seenFrom(plan, info.injection, kernel, lo, hi);
-      sources.push({ ...info, variance: compiled.variance(s, x, lo, hi, sampleRate) });
+      let variance = 0;
+      for (const x of seenFrom(plan, info.injection, kernel, lo, hi)) variance += compiled.variance(s, x, lo, hi, sampleRate);
+      sources.push({ ...info, variance });
     });
   }
   if (plan.digitizer && plan.digitizer.codes > 0) {
@@ -86,11 +96,14 @@ export function predictNoise(plan: NoisePlan, kernel: Float64Array, lo: number, 
 }
 
 /**
- * The functional of the noise at an injection point: x_k = K_k·g·c_k for sensor-side noise (the
- * carrier modulates it like the signal), K_k·g for amplifier-side noise.
+ * The functionals of the noise at an injection point, one per independent realisation
+ * (signal/injection.ts): x_k = K_k·g·c_k for sensor-side noise (the carrier modulates it like the
+ * signal), K_k·g for amplifier-side noise; on baseband I and Q, Σ_c K_c[k]·g·u_c for sensor-side
+ * noise and g·K_I, g·K_Q for amplifier-side noise. Each is one channel long.
  */
-export function seenFrom(plan: Pick<NoisePlan, 'sensorWeight' | 'gain'>, injection: NoiseInjection, kernel: Float64Array, lo: number, hi: number): Float64Array {
-  const x = new Float64Array(kernel.length);
-  for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? plan.sensorWeight[k]! : plan.gain);
-  return x;
+export function seenFrom(
+  plan: Pick<NoisePlan, 'realisations' | 'channels'>, injection: NoiseInjection, kernel: Float64Array, lo: number, hi: number,
+): Float64Array[] {
+  const samples = kernel.length / plan.channels;
+  return plan.realisations[injection].map((r) => seenThrough(r, kernel, lo, hi, samples));
 }

@@ -9,6 +9,7 @@
  * Every component has the noise σ.
  */
 import { normalCdf } from './special.ts';
+import { kernelPrefixSums } from './linear-statistic.ts';
 
 /** What the mixture needs: the projected kernel, waveforms, rates and flips of one point. */
 export interface MixtureInput {
@@ -19,6 +20,8 @@ export interface MixtureInput {
   sampleRate: number;
   /** waveforms[s][k]: noise-free record of state s. */
   waveforms: readonly Float64Array[];
+  /** Channels of the record (absent: 1); kernel and waveforms are channel-major. */
+  channels?: number;
   /** Rate matrix rate[from·N + to] (1/s). */
   rate: Float64Array;
   preparation: readonly ({ probability: number; into: number } | null)[];
@@ -39,11 +42,7 @@ export function valueMixture(input: MixtureInput, state: number): ValueMixture {
   const n = input.waveforms.length;
   const { kernel, lo, hi } = input;
   const fs = input.sampleRate;
-  const prefix = input.waveforms.map((w) => {
-    const p = new Float64Array(hi - lo + 1);
-    for (let k = lo; k < hi; k++) p[k - lo + 1] = p[k - lo]! + kernel[k]! * w[k]!;
-    return p;
-  });
+  const prefix = input.waveforms.map((w) => kernelPrefixSums(kernel, w, lo, hi, input.channels ?? 1));
   const full = prefix.map((p) => p[hi - lo]!);
   const means: number[] = [];
   const weights: number[] = [];

@@ -155,7 +155,7 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
       bandHalfWidth: spec.ambiguousBand ? spec.ambiguousBand.value / 2 : 0, referencePhase,
     });
   }
-  const chain = compileChain(spec, grid, resolved.carrierFrequency, referencePhase);
+  const chain = compileChain(spec, grid, { frequency: resolved.carrierFrequency, channels: 1 }, referencePhase);
   const c = calibration(chain);
 
   // decide every row that did not calibrate

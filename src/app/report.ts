@@ -102,7 +102,10 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   const recordsSection: SectionView = { id: 'records', title: 'Example records', intro: [], figures: [], tables: [] };
   if (traces) {
     recordsSection.intro.push('Shots re-simulated from the embedded scenario on the point\'s auxiliary random stream (never the scored shots; the same every time): one clean shot per prepared state and, where the model has transitions, one whose state changed inside the window. Shaded: the integration window.');
-    pending.push({ section: recordsSection, spec: traces.raw, figure: { title: 'Raw records', caption: 'Faint: the digitised record as synthesised, carrier and noise included (a record longer than 1400 samples is drawn by the lowest and highest sample of each of 700 columns). Dark: the noise-free signal of the shot\'s state — before and after its first jump — with the carrier.' } });
+    const rawCaption = compiled.channels > 1
+      ? 'Faint: the digitised I and Q channels as synthesised, noise included, one panel per channel (a record longer than 1400 samples is drawn by the lowest and highest sample of each of 700 columns). Dark: the noise-free signal of the shot\'s state in that channel — before and after its first jump.'
+      : 'Faint: the digitised record as synthesised, carrier and noise included (a record longer than 1400 samples is drawn by the lowest and highest sample of each of 700 columns). Dark: the noise-free signal of the shot\'s state — before and after its first jump — with the carrier.';
+    pending.push({ section: recordsSection, spec: traces.raw, figure: { title: 'Raw records', caption: rawCaption } });
     if (traces.zoom) pending.push({ section: recordsSection, spec: traces.zoom, figure: { title: 'Raw records, zoom on the carrier', caption: `Every sample of ${traces.zoomNote} (faint, joined), and the noise-free signal of the shot's state (dark): the carrier under the noise of single samples, which the integration over the window averages down.` } });
     pending.push({
       section: recordsSection, spec: traces.demodulated,

@@ -37,11 +37,17 @@ export function projectRecords(
   return out;
 }
 
-/** A pipeline's kernels projected onto the axis, cos·K_I + sin·K_Q, on their support (zero elsewhere). */
+/**
+ * A pipeline's kernels projected onto the axis, cos·K_I + sin·K_Q, on their support [lo, hi) of
+ * each of the record's `channels` channels (channel-major; zero elsewhere).
+ */
 export function projectKernel(
-  k: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number }, axis: Axis,
+  k: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number }, axis: Axis, channels = 1,
 ): Float64Array {
   const kernel = new Float64Array(k.inPhase.length);
-  for (let j = k.lo; j < k.hi; j++) kernel[j] = k.inPhase[j]! * axis.cos + (k.quadrature ? k.quadrature[j]! * axis.sin : 0);
+  const samples = k.inPhase.length / channels;
+  for (let at = 0; at < k.inPhase.length; at += samples) {
+    for (let j = at + k.lo; j < at + k.hi; j++) kernel[j] = k.inPhase[j]! * axis.cos + (k.quadrature ? k.quadrature[j]! * axis.sin : 0);
+  }
   return kernel;
 }

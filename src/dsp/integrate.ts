@@ -42,10 +42,14 @@ export function dotRangePair(a: Float64Array, b: Float64Array, x: Float64Array, 
   return out;
 }
 
-/** Kernels of a linear chain on the record grid, nonzero only on [lo, hi). */
+/**
+ * Kernels of a linear chain on the record grid, nonzero only on [lo, hi) of each channel. They
+ * have the record's layout: channels × n entries, channel-major (signal/carrier.ts), so the value
+ * is Σ kernel·record over every entry.
+ */
 export interface LinearKernels {
   inPhase: Float64Array;
-  /** null at baseband (Q is identically zero). */
+  /** null at baseband with one channel (Q is identically zero). */
   quadrature: Float64Array | null;
   lo: number;
   hi: number;
@@ -53,17 +57,20 @@ export interface LinearKernels {
 
 /**
  * Kernels of "demodulate, then average over the window (boxcar)": weight 1/L on the L window
- * samples times the demodulation reference.
+ * samples of each channel times the demodulation reference.
  */
 export function boxcarKernels(
-  n: number, lo: number, hi: number, reference: { inPhase: Float64Array; quadrature: Float64Array } | null,
+  n: number, lo: number, hi: number, reference: { channels: number; inPhase: Float64Array; quadrature: Float64Array } | null,
 ): LinearKernels {
-  const inPhase = new Float64Array(n);
-  const quadrature = reference ? new Float64Array(n) : null;
+  const channels = reference ? reference.channels : 1;
+  const inPhase = new Float64Array(channels * n);
+  const quadrature = reference ? new Float64Array(channels * n) : null;
   const w = 1 / (hi - lo);
-  for (let k = lo; k < hi; k++) {
-    inPhase[k] = reference ? w * reference.inPhase[k]! : w;
-    if (quadrature && reference) quadrature[k] = w * reference.quadrature[k]!;
+  for (let at = 0; at < channels * n; at += n) {
+    for (let k = at + lo; k < at + hi; k++) {
+      inPhase[k] = reference ? w * reference.inPhase[k]! : w;
+      if (quadrature && reference) quadrature[k] = w * reference.quadrature[k]!;
+    }
   }
   return { inPhase, quadrature, lo, hi };
 }

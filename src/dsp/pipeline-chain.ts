@@ -18,8 +18,12 @@
  *
  * Steps 1–4 are linear in x, so value_I = Σ_m K_I[m]·x[m] with K_I[m] = 2cos θ_m·g[m], where
  * g = Hᵀu is the filter's transpose applied to the weights placed on the bin samples (u[t_b] = w_b):
- * `applyFilterAdjoint` filters the time-reversed u. plan/process.ts runs the same chain record by
- * record; test/plan/process.test.ts checks both agree.
+ * `applyFilterAdjoint` filters the time-reversed u. dsp/process-record.ts runs the same chain
+ * record by record; test/dsp/process-record.test.ts checks both agree.
+ *
+ * Baseband I and Q (two channels): step 1 is the identity followed by the rotation by the
+ * reference phase (demodulate.ts); the filter acts on I' and Q' alike, so the kernels are
+ * K[c·n + m] = ref[c·n + m]·g[m] on each channel c — the same formula on channel-major tables.
  */
 import { applyFilterAdjoint, designFilter, type DesignedFilter, type FilterSpec } from './filter-spec.ts';
 import { makeReference, type Reference } from './demodulate.ts';
@@ -30,7 +34,9 @@ import type { AmbiguousBand, PipelineSpec, WeightsKind } from '../scenario/types
 /** Everything the per-record processing of one pipeline needs. */
 export interface PipelineChain {
   sampleRate: number;
-  /** Demodulation reference on the record grid; null at baseband (no Q). */
+  /** Channels of the record (1, or 2 for baseband I and Q). */
+  channels: number;
+  /** Demodulation reference on the record grid; null at baseband with one channel (no Q). */
   reference: Reference | null;
   /** The designed low-pass, or null for none. */
   filter: DesignedFilter | null;
@@ -76,12 +82,18 @@ export function binSample(chain: PipelineChain, b: number): number {
   return chain.windowLo + (b + 1) * chain.factor - 1;
 }
 
+/** What demodulation needs to know of the record: its carrier frequency (0 without) and its channels (2: baseband I and Q). */
+export interface RecordCarrier {
+  frequency: number;
+  channels: number;
+}
+
 /**
- * Compiles a pipeline's chain on `grid` with the demodulation reference at `referencePhase`, and
- * with calibrated bin weights when given (else boxcar).
+ * Compiles a pipeline's chain on `grid` for records under `carrier`, with the demodulation
+ * reference at `referencePhase`, and with calibrated bin weights when given (else boxcar).
  */
 export function compileChain(
-  spec: PipelineSpec, grid: Grid, carrierFrequency: number, referencePhase: number, weights: Float64Array | null = null,
+  spec: PipelineSpec, grid: Grid, carrier: RecordCarrier, referencePhase: number, weights: Float64Array | null = null,
 ): PipelineChain {
   const fs = grid.sampleRate;
   const { lo, hi } = pipelineWindow(spec, grid);
@@ -107,8 +119,8 @@ export function compileChain(
     binWeights = new Float64Array(bins).fill(1 / bins);
   }
   return {
-    sampleRate: fs,
-    reference: makeReference(grid.samples, fs, carrierFrequency, referencePhase),
+    sampleRate: fs, channels: carrier.channels,
+    reference: makeReference(grid.samples, fs, carrier.frequency, referencePhase, carrier.channels),
     filter, factor, windowLo: lo, windowHi: hi, bins, processLo, processHi, binDuration: factor / fs,
     weights: spec.weights ?? 'boxcar', band: spec.ambiguousBand ?? null,
     binWeights, trained,
@@ -117,21 +129,23 @@ export function compileChain(
 
 /**
  * The kernels K_I, K_Q of a chain with weights `weights` per bin (default its binWeights) on a
- * record of n samples, nonzero on [processLo, processHi). The plain chain (no filter, D = 1,
- * uniform weights) is exactly `boxcarKernels` over the window.
+ * record of n samples per channel, nonzero on [processLo, processHi) of each channel. The plain
+ * chain (no filter, D = 1, uniform weights) is exactly `boxcarKernels` over the window.
  */
 export function chainKernels(chain: PipelineChain, n: number, weights: Float64Array = chain.binWeights): LinearKernels {
-  const { reference, processLo, processHi } = chain;
+  const { reference, processLo, processHi, channels } = chain;
   if (chain.filter === null && chain.factor === 1 && !chain.trained && weights === chain.binWeights) {
     return boxcarKernels(n, chain.windowLo, chain.windowHi, reference);
   }
   const g = chainAdjoint(chain, weights);
-  const inPhase = new Float64Array(n);
-  const quadrature = reference ? new Float64Array(n) : null;
-  for (let m = processLo; m < processHi; m++) {
-    const v = g[m - processLo]!;
-    inPhase[m] = reference ? v * reference.inPhase[m]! : v;
-    if (quadrature && reference) quadrature[m] = v * reference.quadrature[m]!;
+  const inPhase = new Float64Array(channels * n);
+  const quadrature = reference ? new Float64Array(channels * n) : null;
+  for (let at = 0; at < channels * n; at += n) {
+    for (let m = processLo; m < processHi; m++) {
+      const v = g[m - processLo]!;
+      inPhase[at + m] = reference ? v * reference.inPhase[at + m]! : v;
+      if (quadrature && reference) quadrature[at + m] = v * reference.quadrature[at + m]!;
+    }
   }
   return { inPhase, quadrature, lo: processLo, hi: processHi };
 }

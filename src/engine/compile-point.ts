@@ -5,7 +5,8 @@
  */
 import { makeChain, type Chain } from '../physics/chain.ts';
 import { cumulativeMixture } from '../physics/flips.ts';
-import { carrierTables, stateWaveform } from '../signal/carrier.ts';
+import { carrierTables, recordChannels, stateWaveform } from '../signal/carrier.ts';
+import { separationAngle } from '../signal/separation.ts';
 import { makeGrid, type Grid } from '../signal/grid.ts';
 import type { LinearKernels } from '../dsp/integrate.ts';
 import { chainKernels, compileChain, type PipelineChain } from '../dsp/pipeline-chain.ts';
@@ -28,6 +29,12 @@ export interface CompiledPipeline {
 export interface CompiledPoint {
   scenario: Scenario;
   grid: Grid;
+  /**
+   * Channels of the record: 1, or 2 for baseband I and Q. Every per-sample array of the point
+   * (record, waveforms, kernels, noise tables) holds channels × grid.samples entries,
+   * channel-major (signal/carrier.ts).
+   */
+  channels: number;
   /** waveforms[s][k]: noise-free output of state s at sample k (carrier and gain included). */
   waveforms: Float64Array[];
   /** Per-sample σ of the white noise at the output (gain included). */
@@ -48,30 +55,17 @@ export interface CompiledPoint {
   keepTraces: 'raw' | 'baseband' | null;
 }
 
-/** The mean level of each outcome group under the prepared mixture (for 'auto' phase). */
-export function outcomeMeans(scenario: Scenario): { re: number; im: number }[] {
-  return scenario.outcomes.map((_, o) => {
-    let re = 0, im = 0, w = 0;
-    scenario.states.forEach((s, i) => {
-      if (s.outcome !== o) return;
-      const p = scenario.prepare[i]! > 0 ? scenario.prepare[i]! : 1e-300;
-      re += p * s.level.re; im += p * s.level.im; w += p;
-    });
-    return { re: re / w, im: im / w };
-  });
-}
-
 /** The reference phase that puts the outcome separation on the I axis. */
 export function automaticReferencePhase(scenario: Scenario): number {
-  const [m0, m1] = outcomeMeans(scenario);
-  return scenario.signal.carrier.phase + Math.atan2(m1!.im - m0!.im, m1!.re - m0!.re);
+  return scenario.signal.carrier.phase + separationAngle(scenario);
 }
 
 /** Pipeline i of a (sensor-applied) scenario on `grid`, with calibrated bin weights when given. */
 function compilePipeline(scenario: Scenario, i: number, grid: Grid, weights: Float64Array | null): CompiledPipeline {
   const spec = scenario.pipelines[i]!;
   const referencePhase = spec.referencePhase === 'auto' ? automaticReferencePhase(scenario) : spec.referencePhase;
-  const chain = compileChain(spec, grid, scenario.signal.carrier.frequency, referencePhase, weights);
+  const carrier = { frequency: scenario.signal.carrier.frequency, channels: recordChannels(scenario.signal.carrier) };
+  const chain = compileChain(spec, grid, carrier, referencePhase, weights);
   return { spec, referencePhase, kernels: chainKernels(chain, grid.samples), chain };
 }
 
@@ -82,7 +76,8 @@ export function compilePoint(input: Scenario, options: PointOptions = {}): Compi
   const grid = makeGrid(scenario.timing);
   const { carrier, gain } = scenario.signal;
   const tables = carrierTables(carrier, grid.samples, grid.sampleRate);
-  const levelWaves = scenario.states.map((s) => stateWaveform(tables, s.level.re, s.level.im, gain, new Float64Array(grid.samples)));
+  const { channels } = tables;
+  const levelWaves = scenario.states.map((s) => stateWaveform(tables, s.level.re, s.level.im, gain, new Float64Array(channels * grid.samples)));
   const pipelines = scenario.pipelines.map((_, i) => compilePipeline(scenario, i, grid, options.weights?.[i] ?? null));
   const n = scenario.states.length;
   const jumpCause = new Uint8Array(n * n);
@@ -94,10 +89,10 @@ export function compilePoint(input: Scenario, options: PointOptions = {}): Compi
   const noise = compileNoise(scenario, grid, tables, synthLo, synthHi, pipelines.map((p) => p.kernels));
   const response = noise.response;
   const waveforms = response
-    ? levelWaves.map((w, s) => respondedWaveform(w, response, s, grid.sampleRate, new Float64Array(grid.samples)))
+    ? levelWaves.map((w, s) => respondedWaveform(w, response, s, grid.sampleRate, new Float64Array(channels * grid.samples)))
     : levelWaves;
   return {
-    scenario, grid, waveforms, whiteSigma: noise.whiteSigma, noise, levelWaves,
+    scenario, grid, channels, waveforms, whiteSigma: noise.whiteSigma, noise, levelWaves,
     chain: makeChain(n, scenario.transitions),
     prepareCumulative: cumulativeMixture(scenario.prepare),
     pipelines,

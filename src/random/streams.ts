@@ -21,8 +21,10 @@
  *
  * A block may also draw from its second lane, which starts 2^63 steps into its stretch (the
  * exact engine takes its normals there, so that its histories stay those of the trace engine,
- * which draws from the block's start): each lane draws below 2^38 words, so the two lanes of a
- * block, 2^63 apart, never meet each other or another block's.
+ * which draws from the block's start; the trace engine takes the second channel's noise of a
+ * baseband I and Q record there, and slow-noise streams their second channel's realisation):
+ * each lane draws below 2^38 words, so the two lanes of a block, 2^63 apart, never meet each
+ * other or another block's.
  *
  * Across different seeds the base states are unrelated points of the same period, so two
  * runs' streams are independent in the probabilistic sense only: for two stretches of 2^38
@@ -77,10 +79,15 @@ function cachedBase(seed: number): Uint32Array {
   return s;
 }
 
-/** Makes the stream of one seeding block of one sweep point. */
-export function makeStream(seed: number, point: number, purpose: StreamPurpose, block: number): RandomStream {
+/**
+ * Makes the stream of one seeding block of one sweep point: its start (lane 0), or its second
+ * lane (lane 1, 2^63 steps into its stretch; see the file comment).
+ */
+export function makeStream(seed: number, point: number, purpose: StreamPurpose, block: number, lane = 0): RandomStream {
   const s = Uint32Array.from(cachedBase(seed));
   jumpStreams(s, streamIndex(point, purpose, block));
+  if (lane === 1) jumpHalfStream(s);
+  else if (lane !== 0) throw new RangeError(`lane ${lane}: a stream has lanes 0 and 1`);
   return new RandomStream(s);
 }
 

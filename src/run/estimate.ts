@@ -4,6 +4,7 @@
  * with what the machine has free. The numbers are deliberately on the high side: a refused run
  * can be forced, a run that dies of memory exhaustion half-way helps nobody.
  */
+import { recordChannels } from '../signal/carrier.ts';
 import { makeGrid } from '../signal/grid.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { sourcesByKind } from '../signal/noise/registry.ts';
@@ -53,7 +54,7 @@ export interface TraceEstimate {
 /** The traces.arrow part of the estimate: every scored shot's record as Float32 (I and Q for baseband). */
 export function keptTracesEstimate(s: Scenario, kind: 'raw' | 'baseband'): TraceEstimate {
   const samples = makeGrid(s.timing).samples;
-  return { shots: s.shots, valuesPerShot: kind === 'raw' ? samples : 2 * samples, bytesPerValue: 4 };
+  return { shots: s.shots, valuesPerShot: kind === 'raw' ? recordChannels(s.signal.carrier) * samples : 2 * samples, bytesPerValue: 4 };
 }
 
 export interface EstimateOptions {
@@ -115,7 +116,8 @@ export function estimateRun(scenarios: readonly Scenario[], o: EstimateOptions =
   const disk: Record<string, number> = {};
   let compiled = 0, calibration = 0, batches = 0, rows = 0, arrowBatches = 0, samples = 0, seconds = 0;
   for (const s of scenarios) {
-    const n = makeGrid(s.timing).samples;
+    // entries of a record: samples × channels (two for baseband I and Q)
+    const n = makeGrid(s.timing).samples * recordChannels(s.signal.carrier);
     const p = s.pipelines.length;
     // waveforms (one per state), kernels (I and Q per pipeline), record scratch, carrier and
     // reference tables while compiling, and the record kernel's own copy of the waveforms,

@@ -53,7 +53,7 @@ export function pointBudgets(c: CompiledPoint, calibrations: readonly PipelineCa
     const k = p.kernels;
     // every noise source through the whole path, by the filter function (analysis/noise-budget.ts)
     const budget = classifierOf(p.spec).budget({
-      kernel: projectKernel(k, cal.axis), lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms,
+      kernel: projectKernel(k, cal.axis, c.channels), lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms,
       rate: c.chain.rate, jumpCause: c.jumpCause, prepare: sc.prepare,
       outcomeOf: sc.states.map((s) => s.outcome),
       preparation: sc.preparationError, mapping: sc.mappingError,
@@ -71,7 +71,7 @@ export function pointNoise(c: CompiledPoint, calibrations: readonly PipelineCali
   return c.pipelines.map((p, i) => {
     if (classifierOf(p.spec).readsBins) return null;
     const k = p.kernels;
-    return predictNoise(c.noise, projectKernel(k, calibrations[i]!.axis), k.lo, k.hi, c.grid.sampleRate);
+    return predictNoise(c.noise, projectKernel(k, calibrations[i]!.axis, c.channels), k.lo, k.hi, c.grid.sampleRate);
   });
 }
 

@@ -9,21 +9,7 @@ import type { Scenario, StateSpec } from './types.ts';
 import type { ResolveContext } from './context.ts';
 import { formatQuantity } from './units.ts';
 import { valueAt } from './issues.ts';
-
-/** Direction (rad) from the mean level of outcome 0 to that of outcome 1, prepare-weighted. */
-function separationPhase(s: Scenario): number {
-  const mean = (o: number) => {
-    let re = 0, im = 0, w = 0;
-    s.states.forEach((st, i) => {
-      if (st.outcome !== o) return;
-      const p = s.prepare[i]! > 0 ? s.prepare[i]! : 1e-300;
-      re += p * st.level.re; im += p * st.level.im; w += p;
-    });
-    return { re: re / w, im: im / w };
-  };
-  const a = mean(0), b = mean(1);
-  return Math.atan2(b.im - a.im, b.re - a.re);
-}
+import { separationAngle } from '../signal/separation.ts';
 
 /**
  * The states' levels projected on a pipeline's decision axis: the real levels at baseband,
@@ -31,7 +17,7 @@ function separationPhase(s: Scenario): number {
  */
 function projectedLevels(s: Scenario, referencePhase: number | 'auto'): number[] {
   const real = s.states.every((st) => st.level.im === 0);
-  const phase = real ? 0 : referencePhase === 'auto' ? separationPhase(s) : referencePhase - s.signal.carrier.phase;
+  const phase = real ? 0 : referencePhase === 'auto' ? separationAngle(s) : referencePhase - s.signal.carrier.phase;
   return s.states.map((st) => st.level.re * Math.cos(phase) + st.level.im * Math.sin(phase));
 }
 
@@ -122,10 +108,27 @@ export function warnDecimationAliasing(s: Scenario, ctx: ResolveContext): void {
   });
 }
 
+/**
+ * Warns when a pipeline gives a reference phase (an angle) on one baseband channel (carrier:
+ * none): with neither a carrier nor a second channel there is no quadrature to rotate, so the
+ * angle has no meaning and the decision is on the record itself. (On baseband I and Q it rotates
+ * the IQ plane, as with a carrier.)
+ */
+export function warnPhaseWithoutCarrier(s: Scenario, ctx: ResolveContext): void {
+  if (s.signal.carrier.shape !== 'none') return;
+  const fromList = valueAt(ctx.raw, ['pipelines']) !== undefined;
+  s.pipelines.forEach((p, i) => {
+    if (p.referencePhase === 'auto') return;
+    ctx.warn([...(fromList ? ['pipelines', i] : ['processing']), 'referencePhase'],
+      'an angle has no meaning on one baseband channel (carrier: none): there is no quadrature to rotate, and the decision is on the record itself; a reference phase needs a carrier, or carrier: baseband-iq for I and Q');
+  });
+}
+
 /** All cross-section plausibility warnings. */
 export function plausibilityWarnings(s: Scenario, ctx: ResolveContext): void {
   warnInseparableStates(s, ctx);
   warnThinCalibration(s, ctx);
   warnLikelyFlips(s, ctx);
   warnDecimationAliasing(s, ctx);
+  warnPhaseWithoutCarrier(s, ctx);
 }

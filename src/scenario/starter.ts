@@ -56,7 +56,7 @@ transitions:             # jumps during the record
 
 signal:
   unit: A
-  carrier: none          # baseband; or { shape: sine, frequency: 1 MHz, phase: 0 deg }
+  carrier: none          # baseband; or baseband-iq (I and Q channels); or { shape: sine, frequency: 1 MHz, phase: 0 deg }
   gain: 1
   noise:
     white: { density: 50 fA/rtHz }   # or { perSample: 112 pA }

@@ -31,10 +31,11 @@ export function describeScenario(s: Scenario): string {
   const window = `${length ? `window swept over ${sweptRange(length)}` : `${formatQuantity(t.windowLength, 's')} window`}${start ? ` starting ${sweptRange(start)} into the record` : ''}`;
   const recordSwept = swept('timing.recordLength');
   const record = recordSwept ? `a record swept over ${sweptRange(recordSwept)}` : `a ${formatQuantity(t.recordLength, 's')} record`;
+  const shape = s.signal.carrier.shape;
   const carrier =
-    s.signal.carrier.shape === 'none'
-      ? 'baseband'
-      : `${s.signal.carrier.shape} carrier ${at('signal.carrier.frequency', 'with its frequency', s.signal.carrier.frequency, 'Hz')}`;
+    shape === 'none' ? 'baseband'
+      : shape === 'baseband-iq' ? 'baseband I and Q'
+        : `${shape} carrier ${at('signal.carrier.frequency', 'with its frequency', s.signal.carrier.frequency, 'Hz')}`;
   return [
     plural(s.states.length, 'state'),
     `outcomes ${s.outcomes.map((o) => JSON.stringify(o)).join('/')}`,

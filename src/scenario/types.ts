@@ -39,11 +39,16 @@ export interface FlipSpec {
   origin: string;
 }
 
-export type CarrierShape = 'none' | 'sine' | 'square';
+/**
+ * How the level reaches the record: 'none' one real baseband channel; 'sine' or 'square' one
+ * channel modulated by a carrier; 'baseband-iq' two baseband channels, I = Re(level) and
+ * Q = Im(level), as recorded after an analog IQ demodulator.
+ */
+export type CarrierShape = 'none' | 'sine' | 'square' | 'baseband-iq';
 
 export interface CarrierSpec {
   shape: CarrierShape;
-  /** Hz; 0 for 'none'. */
+  /** Hz; 0 for 'none' and 'baseband-iq'. */
   frequency: number;
   /** rad. */
   phase: number;

@@ -11,6 +11,16 @@
  * operating point, so the carrier modulates it exactly like the signal); amplifier-side noise
  * and the white noise are added after the modulation. Then the digitizer clips and quantises.
  *
+ * Baseband I and Q (two channels, carrier.ts): each channel gets its own, independent
+ * realisation of the white noise and of every amplifier-side source, with the same spectrum
+ * (two amplifiers, or one IQ demodulator's two outputs). Sensor-side noise is one realisation
+ * entering along the separation direction u = e^(iα) of the outcomes (separation.ts):
+ * I += g·cos α·n, Q += g·sin α·n. Why along u: sensor-side noise moves the operating point, and a
+ * small move of the operating point moves the output the way the device's own small change does,
+ * along the line between the two states' responses (a dispersive readout: a small shift of the
+ * resonance moves the IQ point along the chord between the two state responses). That is
+ * g·(Re u·c_k − Im u·s_k), the carrier's rule with the level unit u instead of 1.
+ *
  * Timelines. Shot i of a purpose starts at i·shotPeriod on that purpose's own timeline (scored,
  * calibration and auxiliary shots do not share noise); each kind keeps its own (its streams:
  * noise/stream-layout.ts).
@@ -23,6 +33,8 @@ import { amplifierVoltageToCurrent, johnsonCurrentDensity, shotCurrentDensity } 
 import type { Scenario } from '../scenario/types.ts';
 import type { CompiledNoiseKind, KernelPair, NoiseSourceKind } from './noise/contract.ts';
 import { sourcesByKind } from './noise/registry.ts';
+import { separationAngle } from './separation.ts';
+import { injectionRealisations, type Realisations } from './injection.ts';
 
 /** One white source: its input-referred density and per-sample variance at the record. */
 export interface WhiteSource {
@@ -51,8 +63,12 @@ export interface NoisePlan {
   kinds: PlannedKind[];
   response: ResponseTables | null;
   digitizer: DigitizerTables | null;
-  /** Per record sample, the weight of sensor-side noise: gain·c_k. */
+  /** Channels of the record (carrier.ts): every per-sample table below holds channels × samples entries. */
+  channels: number;
+  /** Per record sample, the weight of sensor-side noise: gain·c_k (with a carrier), gain·(cos α | sin α) on I and Q. */
   sensorWeight: Float64Array;
+  /** How each injection point's sources reach the record: their independent realisations (injection.ts). */
+  realisations: Realisations;
 }
 
 /** The white sources of a (sensor-applied) scenario: given white noise and the components. */
@@ -93,8 +109,9 @@ export function compileNoise(
   let whiteVariance = 0;
   for (const w of white) whiteVariance += w.perSampleVariance;
 
-  const sensorWeight = new Float64Array(n);
-  for (let k = 0; k < n; k++) sensorWeight[k] = gain * tables.inPhase[k]!;
+  const { channels } = tables;
+  const sensorWeight = sensorWeights(scenario, tables, gain);
+  const realisations = injectionRealisations(channels, n, gain, sensorWeight);
 
   const rs = signal.response ?? null;
   let response: ResponseTables | null = null;
@@ -103,10 +120,13 @@ export function compileNoise(
     const levelIm = Float64Array.from(scenario.states, (s) => s.level.im);
     let largest = 0;
     for (let s = 0; s < levelRe.length; s++) largest = Math.max(largest, Math.hypot(levelRe[s]!, levelIm[s]!));
-    const quadrature = new Float64Array(n);
-    for (let k = 0; k < n; k++) quadrature[k] = gain * tables.quadrature[k]!;
+    const inPhase = new Float64Array(channels * n), quadrature = new Float64Array(channels * n);
+    for (let k = 0; k < channels * n; k++) {
+      inPhase[k] = gain * tables.inPhase[k]!;
+      quadrature[k] = gain * tables.quadrature[k]!;
+    }
     response = {
-      timeConstant: rs.timeConstant, fromZero: rs.from === 'zero', inPhase: sensorWeight, quadrature,
+      timeConstant: rs.timeConstant, fromZero: rs.from === 'zero', channels, inPhase, quadrature,
       levelRe, levelIm, negligible: Math.max(1e-300, 1e-16 * largest),
     };
   }
@@ -117,11 +137,24 @@ export function compileNoise(
   const kinds = sourcesByKind(signal.sources).map(({ kind, specs }) => ({
     kind,
     compiled: kind.compile(specs, {
-      grid, timing: scenario.timing, shots: scenario.shots, calibrationShots: scenario.calibrationShots, gain, sensorWeight,
+      grid, timing: scenario.timing, shots: scenario.shots, calibrationShots: scenario.calibrationShots, gain, channels, sensorWeight, realisations,
       synthLo, synthHi, responseTimeConstant: response?.timeConstant ?? null, kernels,
     }),
   }));
-  return { gain, white, whiteSigma: Math.sqrt(whiteVariance), kinds, response, digitizer, sensorWeight };
+  return { gain, white, whiteSigma: Math.sqrt(whiteVariance), kinds, response, digitizer, channels, sensorWeight, realisations };
+}
+
+/** Per record sample, the weight of sensor-side noise (see the file comment). */
+function sensorWeights(scenario: Scenario, tables: CarrierTables, gain: number): Float64Array {
+  const w = new Float64Array(tables.inPhase.length);
+  if (tables.channels === 1) {
+    for (let k = 0; k < w.length; k++) w[k] = gain * tables.inPhase[k]!;
+    return w;
+  }
+  const alpha = separationAngle(scenario);
+  const re = Math.cos(alpha), im = Math.sin(alpha);
+  for (let k = 0; k < w.length; k++) w[k] = gain * (re * tables.inPhase[k]! - im * tables.quadrature[k]!);
+  return w;
 }
 
 /** The plan with other pipeline kernels (calibrated weights): each kind remakes what depends on them. */

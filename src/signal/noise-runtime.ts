@@ -10,7 +10,7 @@
  * - `linearValue` gives those kinds' part of a pipeline's value directly (Σ_j G_j·w_j for 1/f:
  *   the same linear map as adding them to the record and integrating, at a fraction of the cost);
  * - `addShotNoise` adds the kinds drawn afresh for each shot (correlated noise) after the shot's
- *   white noise, from the shot's own stream.
+ *   white noise, from the shot's own streams (one per lane: signal/injection.ts).
  * Kinds are visited in registry order.
  */
 import { makeStream, type StreamPurpose } from '../random/streams.ts';
@@ -30,13 +30,13 @@ export interface NoiseRuntime {
   linearValue(pipeline: number, quadrature: boolean): number;
   /** Whether any kind has a linear path (else linearValue is 0 and addLinearToRecord does nothing). */
   readonly hasLinear: boolean;
-  /** Adds the current shot's noise of the kinds drawn per shot, from the shot's own `stream` (after its white noise). */
-  addShotNoise(record: Float64Array, lo: number, hi: number, stream: RandomStream): void;
+  /** Adds the current shot's noise of the kinds drawn per shot, from the shot's own `streams` (one per lane; after its white noise). */
+  addShotNoise(record: Float64Array, lo: number, hi: number, streams: readonly RandomStream[]): void;
 }
 
 /** Makes the noise runtime of a point's plan for one purpose's timeline. */
 export function makeNoiseRuntime(plan: NoisePlan, seed: number, point: number, purpose: StreamPurpose): NoiseRuntime {
-  const stream = (index: number) => makeStream(seed, point, 'slow-noise', index);
+  const stream = (index: number, lane: number) => makeStream(seed, point, 'slow-noise', index, lane);
   const all = plan.kinds.map((k) => ({ linear: k.compiled.linear, runtime: k.compiled.runtime(purpose, stream) }));
   const recordOnly: NoiseKindRuntime[] = all.filter((k) => !k.linear).map((k) => k.runtime);
   const linear: NoiseKindRuntime[] = all.filter((k) => k.linear).map((k) => k.runtime);
@@ -52,8 +52,8 @@ export function makeNoiseRuntime(plan: NoisePlan, seed: number, point: number, p
     addLinearToRecord(record, lo, hi) {
       for (const r of linear) r.addToRecord(record, lo, hi);
     },
-    addShotNoise(record, lo, hi, stream) {
-      for (const k of perShot) k.addShot(record, lo, hi, stream);
+    addShotNoise(record, lo, hi, streams) {
+      for (const k of perShot) k.addShot(record, lo, hi, streams);
     },
     linearValue(p, quadrature) {
       if (linear.length === 1) return linear[0]!.value!(p, quadrature);

@@ -8,6 +8,8 @@
  * The output sample is Re(y·e^(iθ_k))·gain = wave_state[k] + gain·(Re d·c_k − Im d·s_k).
  * Start: `settled` (y(0) = L(0), the level has been there for long) or `zero` (y(0) = 0, a ring-up).
  * Amplitude-domain relation: |H(f)|² = 1/(1 + (2πfτ)²), bandwidth (−3 dB) f_c = 1/(2πτ).
+ * On baseband I and Q (carrier.ts) the tables are channel-major and each channel is written in
+ * turn: the response of the complex level is the response of its real and imaginary parts.
  */
 import type { PathBuffer } from '../physics/chain.ts';
 
@@ -23,6 +25,8 @@ export interface ResponseTables {
   timeConstant: number;
   /** y(0) = 0 (ring-up) instead of the initial level. */
   fromZero: boolean;
+  /** Channels of the record; the tables hold channels × samples entries, channel-major. */
+  channels: number;
   /** gain·c_k and gain·s_k: the carrier's in-phase and quadrature tables times the gain. */
   inPhase: Float64Array;
   quadrature: Float64Array;
@@ -36,11 +40,12 @@ export interface ResponseTables {
 /**
  * Writes the noise-free responded signal of a shot into out[lo … hi): `waves[s]` is state s's
  * unresponded waveform (gain·Re(L_s·e^(iθ_k))); sample k at time k/fs takes the level path's
- * response at that instant (jumps at the path's times, as in trace.ts writeSignal).
+ * response at that instant (jumps at the path's times, as in trace.ts writeSignal). `offset` is
+ * the channel's first entry in out, the waves and the tables (0 for I, samples for Q).
  */
 export function writeRespondedSignal(
   out: Float64Array, lo: number, hi: number, waves: readonly Float64Array[], t: ResponseTables,
-  start: number, path: PathBuffer, sampleRate: number,
+  start: number, path: PathBuffer, sampleRate: number, offset = 0,
 ): void {
   const tau = t.timeConstant;
   const a = Math.exp(-1 / (sampleRate * tau));
@@ -59,10 +64,10 @@ export function writeRespondedSignal(
       let re = dRe * f, im = dIm * f;
       for (; k < until; k++) {
         if (Math.abs(re) + Math.abs(im) < t.negligible) {
-          for (; k < until; k++) out[k] = wave[k]!;
+          for (; k < until; k++) out[offset + k] = wave[offset + k]!;
           break;
         }
-        out[k] = wave[k]! + re * cI[k]! - im * cQ[k]!;
+        out[offset + k] = wave[offset + k]! + re * cI[offset + k]! - im * cQ[offset + k]!;
         re *= a;
         im *= a;
       }
@@ -81,7 +86,8 @@ export function writeRespondedSignal(
 
 /**
  * The no-jump responded waveform of one state (for the budget's means): gain·Re(y(t_k)·e^(iθ_k))
- * with y(t) = L·(1 − e^(−t/τ)) from zero, or L when settled. Writes into out and returns it.
+ * with y(t) = L·(1 − e^(−t/τ)) from zero, or L when settled, channel by channel. Writes into out
+ * and returns it.
  */
 export function respondedWaveform(wave: Float64Array, t: ResponseTables, state: number, sampleRate: number, out: Float64Array): Float64Array {
   if (!t.fromZero) {
@@ -89,11 +95,14 @@ export function respondedWaveform(wave: Float64Array, t: ResponseTables, state: 
     return out;
   }
   const a = Math.exp(-1 / (sampleRate * t.timeConstant));
-  let re = -t.levelRe[state]!, im = -t.levelIm[state]!;
-  for (let k = 0; k < out.length; k++) {
-    out[k] = wave[k]! + re * t.inPhase[k]! - im * t.quadrature[k]!;
-    re *= a;
-    im *= a;
+  const samples = out.length / t.channels;
+  for (let at = 0; at < out.length; at += samples) {
+    let re = -t.levelRe[state]!, im = -t.levelIm[state]!;
+    for (let k = at; k < at + samples; k++) {
+      out[k] = wave[k]! + re * t.inPhase[k]! - im * t.quadrature[k]!;
+      re *= a;
+      im *= a;
+    }
   }
   return out;
 }

@@ -9,11 +9,12 @@ import type { RandomStream } from '../random/stream.ts';
  * Writes the noise-free signal of a shot into out[lo … hi): samples before the first jump
  * follow `start`'s waveform, and so on. `waveforms[s]` is state s's waveform on the record
  * grid (carrier and gain included); sample k sits at time k/sampleRate and takes the state
- * occupied at that instant.
+ * occupied at that instant. `offset` is the channel's first entry in out and the waveforms
+ * (0 for I, samples for Q of a baseband IQ record, carrier.ts).
  */
 export function writeSignal(
   out: Float64Array, lo: number, hi: number, waveforms: readonly Float64Array[], start: number,
-  path: PathBuffer, sampleRate: number,
+  path: PathBuffer, sampleRate: number, offset = 0,
 ): void {
   let state = start;
   let k = lo;
@@ -22,7 +23,7 @@ export function writeSignal(
     const until = j < path.jumps ? Math.min(hi, Math.max(lo, Math.ceil(path.times[j]! * sampleRate))) : hi;
     if (until > k) {
       const wave = waveforms[state]!;
-      for (; k < until; k++) out[k] = wave[k]!;
+      for (; k < until; k++) out[offset + k] = wave[offset + k]!;
     }
     if (j < path.jumps) state = path.entered[j]!;
   }

@@ -28,6 +28,10 @@ const cases: { name: string; c: NoiseCase; ideal?: boolean }[] = [
     },
     ideal: true,
   },
+  // baseband I and Q, levels at 50°: the decision axis mixes both channels (signal/injection.ts)
+  { name: 'white noise on baseband I and Q', c: { carrier: 'baseband-iq', white: 1, levelAngle: 0.87 } },
+  { name: 'amplifier-side 1/f on baseband I and Q', c: { carrier: 'baseband-iq', levelAngle: 0.87, shotPeriod: 100e-6, signal: { sources: [flicker('amplifier', A, 100, 200e3)] } }, ideal: true },
+  { name: 'sensor-side 1/f on baseband I and Q', c: { carrier: 'baseband-iq', levelAngle: 0.87, shotPeriod: 100e-6, signal: { sources: [flicker('sensor', A, 100, 200e3)] } }, ideal: true },
   {
     name: 'white + both 1/f injections + gain 2.5',
     c: { carrier: 'sine', white: 0.3, shotPeriod: 100e-6, signal: { gain: 2.5, sources: [flicker('sensor', A, 100, 200e3), flicker('amplifier', 3 * A, 100, 100e3, 1.3)] } },
@@ -42,7 +46,8 @@ describe('simulated σ = filter-function prediction within 3 % (20 480 shots)', 
     expect(Math.abs(rel), `${name}: simulated σ ${run.sigma}, predicted ${predicted}, rel ${rel}, tol 0.03`).toBeLessThan(0.03);
     if (c.white && !c.signal) {
       const tau = 20e-6, S = (c.white * c.white) / (10e6 / 2);
-      const formula = Math.sqrt(c.carrier === 'none' ? S / (2 * tau) : S / tau);
+      // on I and Q each channel's white noise is integrated like one baseband channel: cos² + sin² = 1
+      const formula = Math.sqrt(c.carrier === 'none' || c.carrier === 'baseband-iq' ? S / (2 * tau) : S / tau);
       expect(Math.abs(predicted / formula - 1), `${name}: predicted ${predicted}, formula ${formula}`).toBeLessThan(1e-9);
     }
     if (ideal) {

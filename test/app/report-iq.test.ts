@@ -34,7 +34,7 @@ function model(quadrature: boolean): PointModel {
     scenario: { states: [{ name: 'a', level: { re: 0, im: 0 }, outcome: 0 }, { name: 'b', level: { re: 1e-10, im: 0 }, outcome: 1 }], signal: { unit: 'A' } } as unknown as PointModel['scenario'],
     grid: { samples: 10, sampleRate: 1e6, windowLo: 0, windowHi: 10 },
     pipelines: [{ referencePhase: 0, kernels: { inPhase: new Float64Array(10), quadrature: quadrature ? new Float64Array(10) : null, lo: 0, hi: 10 } }],
-    waveforms: [], chain: { rate: new Float64Array(4) },
+    waveforms: [], chain: { rate: new Float64Array(4) }, channels: 1,
   };
 }
 

@@ -3,7 +3,9 @@
  * (process.ts): demodulate, filter with state, decimate, weight. Both are the same linear map,
  * so the integrated values agree to rounding: |Δ| ≤ 1e−12 · Σ_m |K_m·x_m| (the scale of the
  * sum; common practice, no source). Also: the engine's kept bins equal process.ts on the same
- * shots, and the plain chain is exactly the old boxcar kernel.
+ * shots, and the plain chain is exactly the old boxcar kernel. On baseband I and Q (two channels,
+ * channel-major) the same holds for the identity demodulation and the rotation by the reference
+ * phase (demodulate.ts).
  */
 import { describe, expect, it } from 'vitest';
 import { compilePoint } from '../../src/engine/compile-point.ts';
@@ -29,9 +31,9 @@ const filters: { label: string; filter?: FilterSpec; decimate: number }[] = [
   { label: 'FIR 64 Blackman at 2 MHz, D = 3', filter: { kind: 'fir', taps: 64, cutoff: 2e6, window: 'blackman' }, decimate: 3 },
 ];
 
-const cases = filters.flatMap((f) => (['none', 'sine'] as const).map((carrier) => ({ ...f, carrier, name: `${f.label}, carrier ${carrier}` })));
+const cases = filters.flatMap((f) => (['none', 'sine', 'baseband-iq'] as const).map((carrier) => ({ ...f, carrier, name: `${f.label}, carrier ${carrier}` })));
 
-function pointFor(carrier: 'none' | 'sine', pipeline: Partial<PipelineSpec>, trainedWeights = false) {
+function pointFor(carrier: 'none' | 'sine' | 'baseband-iq', pipeline: Partial<PipelineSpec>, trainedWeights = false) {
   // 100 MS/s, 4 µs record, window 1–3.7 µs: the FIR/IIR read before the window start
   const sc = twoStateScenario({ carrier, recordLength: 4e-6, windowStart: 1e-6, windowLength: 2.7e-6, carrierFrequency: 7e6 });
   const spec: PipelineSpec = { name: 'p', referencePhase: 0.3, threshold: { method: 'midpoint', value: 0 }, ...pipeline };
@@ -50,19 +52,19 @@ describe('kernels equal the per-record chain (|Δ| ≤ 1e−12 of the sum scale)
     for (const trained of [false, true]) {
       const point = pointFor(carrier, { ...(filter ? { filter } : {}), decimate, weights: trained ? 'matched' : 'boxcar' }, trained);
       const { chain, kernels } = point.pipelines[0]!;
-      const n = point.grid.samples;
+      const n = point.grid.samples, entries = point.channels * n;
       const scratch = makeProcessScratch(chain, n);
       const binsI = new Float64Array(chain.bins);
       const binsQ = new Float64Array(chain.bins);
       for (const seed of [1, 2, 3]) {
-        // a record that is garbage outside [processLo, processHi): the chain must not read it
-        const record = xorshiftRecord(seed, n);
+        // a record that is garbage outside [processLo, processHi) of each channel: the chain must not read it
+        const record = xorshiftRecord(seed, entries);
         processRecord(chain, record, scratch, binsI, binsQ, 0);
         const parts: [Float64Array, Float64Array | null, Float64Array][] = [[kernels.inPhase, null, binsI]];
         if (kernels.quadrature) parts.push([kernels.quadrature, null, binsQ]);
         for (const [k, , bins] of parts) {
           let dot = 0, scale = 0;
-          for (let m = 0; m < n; m++) {
+          for (let m = 0; m < entries; m++) {
             dot += k[m]! * record[m]!;
             scale += Math.abs(k[m]! * record[m]!);
           }
@@ -70,9 +72,11 @@ describe('kernels equal the per-record chain (|Δ| ≤ 1e−12 of the sum scale)
           const tol = 1e-12 * scale;
           expect(Math.abs(direct - dot), `trained ${trained}, seed ${seed}: per-record ${direct}, kernel ${dot}, tol ${tol}`).toBeLessThanOrEqual(tol);
         }
-        // the kernel's support is [processLo, processHi)
-        for (let m = 0; m < chain.processLo; m++) expect(kernels.inPhase[m]).toBe(0);
-        for (let m = chain.processHi; m < n; m++) expect(kernels.inPhase[m]).toBe(0);
+        // the kernel's support is [processLo, processHi) of each channel
+        for (let at = 0; at < entries; at += n) {
+          for (let m = at; m < at + chain.processLo; m++) expect(kernels.inPhase[m]).toBe(0);
+          for (let m = at + chain.processHi; m < at + n; m++) expect(kernels.inPhase[m]).toBe(0);
+        }
       }
     }
   });

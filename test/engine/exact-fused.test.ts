@@ -127,6 +127,12 @@ describe('fused exact path', () => {
     ['outcome 1 below the threshold, preparation error, many wrong shots, a group of 1 and a short block', async () => twoStateScenario({ t1: 1e-6, levels: [1, 0], recordLength: 2e-6, sampleRate: 20e6, sigmaPerSample: 12, shots: 9 * K + 700, batchSize: 4 * K, preparationError: 0.1 })],
     ['flips both ways, band, pipeline window ending early, full groups', async () => ({ ...(await oneJump({ start: 0.5e-6, length: 1e-6 })), shots: 12 * K, batchSize: 4 * K })],
     ['flips both ways, band, 2 full groups in a batch', async () => ({ ...(await oneJump()), shots: 8 * K, batchSize: 8 * K })],
+    ['baseband I and Q (two channels folded into the prefix sums), relaxation, a group of 2 and a short block', async () => {
+      const s = twoStateScenario({ t1: 4e-6, carrier: 'baseband-iq', recordLength: 2e-6, sampleRate: 20e6, shots: 2 * K + 300, batchSize: 4 * K });
+      s.states[0]!.level = { re: 0.2, im: 0.7 };
+      s.states[1]!.level = { re: 0.9, im: -0.1 };
+      return s;
+    }],
   ] as [string, Make][])('WebAssembly kernel, %s: the same tally tree and paired counts to the bit', async (_name, make) => {
     const scenario = await make();
     expect(kernelRuns(scenario), 'the kernel takes this point').toBe(true);

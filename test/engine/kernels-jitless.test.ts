@@ -3,7 +3,8 @@
  * `node --jitless` (no WebAssembly, so the TypeScript loops run: engine/wasm/memory.ts
  * kernelsAvailable) writes byte-identical tables — the trace engine with its shots table, and
  * the exact engine's fused path (--no-shots-table), whose point here (relaxation only, no
- * response) runs the WebAssembly exact kernel normally. Exactness: common practice, no source.
+ * response) runs the WebAssembly exact kernel normally — and the trace engine on a baseband I and
+ * Q record, whose values add each channel's dot products. Exactness: common practice, no source.
  */
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync } from 'node:fs';
@@ -12,10 +13,13 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 
 const SCENARIO = 'test/fixtures/scenarios/small.yaml';
+const IQ = 'test/fixtures/scenarios/iq.yaml';
 
-function run(flags: string[], args: string[]): string {
+/** Runs `args` (the scenario first when it names one, else SCENARIO) with node `flags`; returns the folder. */
+function run(flags: string[], args: readonly string[]): string {
   const out = mkdtempSync(join(tmpdir(), 'singleshot-jitless-'));
-  execFileSync('node', [...flags, 'bin/singleshot.js', 'run', SCENARIO, '--out', out, '--force', '--quiet', '--no-report', ...args], { stdio: 'pipe' });
+  const [scenario, rest] = args[0]!.endsWith('.yaml') ? [args[0]!, args.slice(1)] : [SCENARIO, args];
+  execFileSync('node', [...flags, 'bin/singleshot.js', 'run', scenario, '--out', out, '--force', '--quiet', '--no-report', ...rest], { stdio: 'pipe' });
   return out;
 }
 
@@ -23,6 +27,7 @@ describe('WebAssembly kernels against the TypeScript loops, whole runs', () => {
   it.each([
     ['trace engine, shots table', ['--engine', 'traces'], ['shots.arrow', 'summary.arrow', 'budget.arrow', 'tallies.json']],
     ['exact engine, fused path', ['--engine', 'exact', '--no-shots-table'], ['summary.arrow', 'budget.arrow', 'tallies.json']],
+    ['trace engine on baseband I and Q (two channels per record)', [IQ, '--engine', 'traces', '--shots', '1024'], ['shots.arrow', 'summary.arrow', 'budget.arrow', 'tallies.json']],
   ])('%s: the same bytes with and without WebAssembly', (_name, args, files) => {
     const wasm = run([], args), ts = run(['--jitless', '--no-warnings'], args);
     for (const f of files) {

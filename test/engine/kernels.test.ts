@@ -95,6 +95,26 @@ describe('record kernel (WebAssembly)', () => {
     expect(out[1]).toBe(0);
   });
 
+  it('a record of two channels (baseband I and Q): each channel\'s dot products summed, channel 0 first, in both loops', () => {
+    const n = 700, lo = 11, hi = 650;
+    const pipes = [{ inPhase: wave(2 * n, 21), quadrature: wave(2 * n, 22), lo, hi }, { inPhase: wave(2 * n, 23), quadrature: null, lo, hi }];
+    const wasm = makeRecordLoops(n, [], pipes, undefined, 2), ts = makeRecordLoops(n, [], pipes, 0, 2);
+    expect(wasm).toBeInstanceOf(RecordKernel);
+    expect(wasm.record.length).toBe(2 * n);
+    wasm.record.set(wave(2 * n, 24));
+    ts.record.set(wasm.record);
+    const x = new Float64Array(2), y = new Float64Array(2), first = new Float64Array(2), second = new Float64Array(2);
+    for (let p = 0; p < 2; p++) {
+      wasm.values(p, x);
+      ts.values(p, y);
+      expect([Object.is(x[0], y[0]), Object.is(x[1], y[1])], `pipeline ${p}`).toEqual([true, true]);
+    }
+    dotRangePair(pipes[0]!.inPhase, pipes[0]!.quadrature!, wasm.record, lo, hi, first);
+    dotRangePair(pipes[0]!.inPhase, pipes[0]!.quadrature!, wasm.record, n + lo, n + hi, second);
+    wasm.values(0, x);
+    expect([Object.is(x[0], first[0]! + second[0]!), Object.is(x[1], first[1]! + second[1]!)]).toEqual([true, true]);
+  });
+
   it('past the size limit the TypeScript loops serve instead, with the same records and values', () => {
     const n = 1501, waves = [wave(n, 10), wave(n, 11), wave(n, 12)];
     const pipes = [{ inPhase: wave(n, 13), quadrature: wave(n, 14), lo: 3, hi: 1400 }, { inPhase: wave(n, 15), quadrature: null, lo: 0, hi: n }];

@@ -1,4 +1,5 @@
-"""Interoperability check: traces.arrow from `singleshot run --keep-traces raw|baseband` read with pyarrow.
+"""Interoperability check: traces.arrow from `singleshot run --keep-traces raw|baseband` read with pyarrow
+(raw traces of a baseband I and Q scenario hold its two channels, in_phase and quadrature).
 
 Usage: python3 test/python/check_traces.py TRACES_ARROW EXPECTED_SHOTS EXPECTED_SAMPLES
 Loads the record column(s) into a numpy (shots x samples) array, as the README shows, and checks
@@ -17,7 +18,8 @@ with pa.memory_map(path, "r") as source:
 
 meta = table.schema.metadata
 kind = meta[b"singleshot.trace_kind"].decode()
-columns = ["record"] if kind == "raw" else ["in_phase", "quadrature"]
+# raw traces of one channel are `record`; of baseband I and Q, and baseband traces, `in_phase` and `quadrature`
+columns = ["record"] if kind == "raw" and "record" in table.column_names else ["in_phase", "quadrature"]
 for name in columns:
     # the README's three lines: read the table, flatten the fixed-size lists, reshape
     column = table.column(name).combine_chunks()

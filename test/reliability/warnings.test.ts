@@ -48,11 +48,18 @@ const WARNINGS: [string, () => Doc, string, RegExp][] = [
     'preparationError.empty', /probability 0\.7 \(given probability\): at least half of these shots end up in "loaded"/],
   ['a filter cutoff above the Nyquist frequency after decimation', () => ({ ...starter(), processing: { filter: { butterworth: { order: 4, cutoff: '2 MHz' } }, decimate: 5 } }),
     'processing.filter.butterworth.cutoff', /2 MHz is above the Nyquist frequency after decimating by 5 \(1 MHz\)/],
+  ['a reference phase on one baseband channel', () => ({ ...starter(), processing: { referencePhase: '30 deg' } }),
+    'processing.referencePhase', /an angle has no meaning on one baseband channel \(carrier: none\).*carrier: baseband-iq for I and Q/],
 ];
 
 describe('plausibility warnings', () => {
   it.each([['starter', starter], ['demo', demo]])('the %s scenario has none', (_name, doc) => {
     expect(warningsOf(doc())).toEqual([]);
+  });
+
+  it('a reference phase on baseband I and Q draws no warning (it rotates the IQ plane)', () => {
+    const doc = { ...starter(), signal: { ...(starter().signal as Doc), carrier: 'baseband-iq' }, processing: { referencePhase: '30 deg' } };
+    expect(warningsOf(doc)).toEqual([]);
   });
 
   it.each(WARNINGS)('%s → a warning at %s', (_what, make, path, text) => {

@@ -18,7 +18,7 @@ const waves = levels.map((l) => Float64Array.from({ length: n }, (_, k) => l.re 
 
 function tables(fromZero: boolean): ResponseTables {
   return {
-    timeConstant: tau, fromZero, inPhase, quadrature,
+    timeConstant: tau, fromZero, channels: 1, inPhase, quadrature,
     levelRe: Float64Array.from(levels, (l) => l.re), levelIm: Float64Array.from(levels, (l) => l.im), negligible: 1e-18,
   };
 }

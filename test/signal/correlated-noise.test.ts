@@ -17,6 +17,7 @@ import { simulateBatch } from '../../src/engine/trace/batch.ts';
 import { simulateExactBatch } from '../../src/engine/exact/batch.ts';
 import { ksTwoSample } from '../support/ks.ts';
 import { makeGrid } from '../../src/signal/grid.ts';
+import { injectionRealisations } from '../../src/signal/injection.ts';
 
 const WINDOW = 20e-6;
 
@@ -42,13 +43,14 @@ describe('spectrum', () => {
     const timing = { sampleRate: fs, recordLength: n / fs, windowStart: 0, windowLength: n / fs, shotPeriod: n / fs };
     const grid = makeGrid(timing);
     const kind = correlatedKind.compile([{ kind: 'correlated', name: 'c', sigma, correlationTime: tau, injection: 'amplifier', inDetuning: false }], {
-      grid, timing, shots: 1, calibrationShots: 1, gain: 1, sensorWeight: new Float64Array(n).fill(1), synthLo: 0, synthHi: n, responseTimeConstant: null, kernels: [],
+      grid, timing, shots: 1, calibrationShots: 1, gain: 1, channels: 1, sensorWeight: new Float64Array(n).fill(1),
+      realisations: injectionRealisations(1, n, 1, new Float64Array(n).fill(1)), synthLo: 0, synthHi: n, responseTimeConstant: null, kernels: [],
     });
     const stream = makeStream(5, 0, 'aux', 3);
     let mean: Float64Array | null = null, freqs: Float64Array | null = null;
     for (let r = 0; r < records; r++) {
       const x = new Float64Array(n);
-      kind.perShot!.addShot(x, 0, n, stream);
+      kind.perShot!.addShot(x, 0, n, [stream]);
       const w = welchDensity(x, fs, { segmentLength: L, removeMean: false });
       mean ??= new Float64Array(w.density.length);
       freqs = w.frequencies;

@@ -8,13 +8,16 @@ import { flickerKind, type FlickerSourceSpec } from '../../src/signal/noise/flic
 import { telegraphKind, type TelegraphSourceSpec } from '../../src/signal/noise/telegraph.ts';
 import type { NoisePointContext } from '../../src/signal/noise/contract.ts';
 import { makeGrid } from '../../src/signal/grid.ts';
+import { injectionRealisations } from '../../src/signal/injection.ts';
 import { responsePowerGain } from '../../src/signal/response.ts';
 
 const timing = { sampleRate: 10e6, recordLength: 20e-6, windowStart: 0, windowLength: 20e-6, shotPeriod: 40e-6 };
 function context(): NoisePointContext {
   const grid = makeGrid(timing);
+  const sensorWeight = new Float64Array(grid.samples).fill(1);
   return {
-    grid, timing, shots: 4096, calibrationShots: 1024, gain: 1, sensorWeight: new Float64Array(grid.samples).fill(1),
+    grid, timing, shots: 4096, calibrationShots: 1024, gain: 1, channels: 1, sensorWeight,
+    realisations: injectionRealisations(1, grid.samples, 1, sensorWeight),
     synthLo: 0, synthHi: grid.samples, responseTimeConstant: null, kernels: [],
   };
 }

@@ -41,6 +41,7 @@ const SCENARIOS: [string, number | null, boolean][] = [
   [`${FIXTURES}/fused-mix.yaml`, null, true],
   [`${FIXTURES}/fused-two-state.yaml`, null, true],
   [`${FIXTURES}/shard-sweep.yaml`, null, true],
+  [`${FIXTURES}/iq.yaml`, null, true],
 ];
 
 const base = (file: string) => file.split('/').pop()!.replace(/\.yaml$/, '');
@@ -63,6 +64,8 @@ export function goldenRuns(): GoldenRun[] {
   // kept traces (the trace engine), raw and baseband
   runs.push({ id: 'small/keep-traces-raw', steps: [['run', `${FIXTURES}/small.yaml`, '--out', 'OUT', '--quiet', '--no-report', '--keep-traces', 'raw', '--shots', '2048']] });
   runs.push({ id: 'pipelines/keep-traces-baseband', steps: [['run', `${FIXTURES}/pipelines.yaml`, '--out', 'OUT', '--quiet', '--no-report', '--keep-traces', 'baseband', '--shots', '1024']] });
+  // baseband I and Q: both raw channels kept
+  runs.push({ id: 'iq/keep-traces-raw', steps: [['run', `${FIXTURES}/iq.yaml`, '--out', 'OUT', '--quiet', '--no-report', '--keep-traces', 'raw', '--shots', '2048']] });
   // analyze: recorded traces through a pipeline file, calibration stored and fresh
   runs.push({
     id: 'pipelines/analyze',

@@ -1,7 +1,7 @@
 /** Engine runs for the noise tests: a two-state scenario with extra noise, its simulated σ and the prediction. */
 import { compilePoint, type CompiledPoint } from '../../src/engine/compile-point.ts';
 import { makeScratch, simulateBatch } from '../../src/engine/trace/batch.ts';
-import { predictNoise, type NoisePrediction } from '../../src/analysis/noise-prediction.ts';
+import { predictNoise, seenFrom, type NoisePrediction } from '../../src/analysis/noise-prediction.ts';
 import { projectKernel } from '../../src/classify/project.ts';
 import { filterFunctionVariance } from '../../src/signal/filter-function.ts';
 import { responsePowerGain } from '../../src/signal/response.ts';
@@ -38,6 +38,8 @@ export interface NoiseCase extends TwoStateOptions {
   white?: number;
   shotPeriod?: number;
   signal?: Partial<SignalSpec>;
+  /** Rotates both levels by this angle (rad): on baseband I and Q the decision axis then mixes both channels. */
+  levelAngle?: number;
 }
 
 /** The scenario of a noise case: baseband or 1 MHz sine at 10 MS/s, 20 µs records by default. */
@@ -49,6 +51,8 @@ export function noiseScenario(c: NoiseCase): Scenario {
   sc.timing.shotPeriod = c.shotPeriod ?? sc.timing.recordLength;
   if (!c.white) sc.signal.white = null;
   Object.assign(sc.signal, c.signal ?? {});
+  const a = c.levelAngle ?? 0;
+  if (a !== 0) for (const s of sc.states) s.level = { re: s.level.re * Math.cos(a) - s.level.im * Math.sin(a), im: s.level.re * Math.sin(a) + s.level.im * Math.cos(a) };
   return sc;
 }
 
@@ -82,20 +86,25 @@ export function runNoise(sc: Scenario): NoiseRun {
     return m;
   });
   const k = point.pipelines[0]!.kernels;
-  const prediction = predictNoise(point.noise, projectKernel(k, { cos: 1, sin: 0 }), k.lo, k.hi, point.grid.sampleRate);
+  const prediction = predictNoise(point.noise, projectKernel(k, { cos: 1, sin: 0 }, point.channels), k.lo, k.hi, point.grid.sampleRate);
   return { point, sigma: Math.sqrt(m2 / dof), means, values, prediction };
 }
 
 /**
  * σ of a 1/f source through the ideal continuous filter function: ∫ A/f^α·|H_response(f)|²·|H(f)|² df,
  * H the I kernel times the gain (and the carrier for sensor-side noise) — independent of the
- * generator's blocks and grids (Wiener–Khinchin).
+ * generator's blocks and grids (Wiener–Khinchin). On baseband I and Q the variances of the
+ * source's independent realisations add (one per channel on the amplifier side, one along the
+ * separation on the sensor side: signal/injection.ts), each with its own H.
  */
 export function idealFlickerSigma(point: CompiledPoint, f: FlickerSourceSpec): number {
   const k = point.pipelines[0]!.kernels;
-  const x = new Float64Array(k.inPhase.length);
-  for (let j = k.lo; j < k.hi; j++) x[j] = k.inPhase[j]! * (f.injection === 'sensor' ? point.noise.sensorWeight[j]! : point.noise.gain);
+  const kernel = projectKernel(k, { cos: 1, sin: 0 }, point.channels);
   const tau = f.injection === 'sensor' ? point.noise.response?.timeConstant : undefined;
   const density = (fr: number) => (f.amplitude / fr ** f.exponent) * (tau ? responsePowerGain(tau, fr) : 1);
-  return Math.sqrt(filterFunctionVariance(density, x, k.lo, k.hi, point.grid.sampleRate, f.low, f.high));
+  let variance = 0;
+  for (const x of seenFrom(point.noise, f.injection, kernel, k.lo, k.hi)) {
+    variance += filterFunctionVariance(density, x, k.lo, k.hi, point.grid.sampleRate, f.low, f.high);
+  }
+  return Math.sqrt(variance);
 }

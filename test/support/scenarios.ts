@@ -6,7 +6,7 @@ export interface TwoStateOptions {
   recordLength?: number;
   windowStart?: number;
   windowLength?: number;
-  carrier?: 'none' | 'sine' | 'square';
+  carrier?: 'none' | 'sine' | 'square' | 'baseband-iq';
   carrierFrequency?: number;
   levels?: [number, number];
   /** Per-sample white σ (converted to a density). */
@@ -42,7 +42,7 @@ export function twoStateScenario(o: TwoStateOptions = {}): Scenario {
     mappingError: [null, null],
     transitions: o.t1 ? [{ from: 1, to: 0, rate: 1 / o.t1, kind: 'relaxation' }] : [],
     signal: {
-      carrier: { shape: carrier, frequency: carrier === 'none' ? 0 : (o.carrierFrequency ?? 1e6), phase: 0 },
+      carrier: { shape: carrier, frequency: carrier === 'none' || carrier === 'baseband-iq' ? 0 : (o.carrierFrequency ?? 1e6), phase: 0 },
       gain: 1, white: { density: sigma / Math.sqrt(fs / 2) }, unit: '',
     },
     pipelines: [{ name: 'main', referencePhase: 'auto', threshold: { method: 'midpoint', value: 0 } }],

@@ -7,6 +7,10 @@
  * - noise: the outputs of ALL pipelines (I and Q each) share one record, so their white parts
  *   are jointly Gaussian with covariance σ²·Σ_k K_a[k]·K_b[k]; they are drawn together through
  *   the Cholesky factor of that matrix, which keeps paired comparisons between pipelines valid.
+ * - baseband I and Q (two channels, channel-major kernels): the prefix sums fold each sample's
+ *   terms over the channels (a jump switches both at once), the white covariance sums over both
+ *   channels, and noise drawn per shot adds the covariance of each independent realisation
+ *   (signal/injection.ts); everything after the tables is the same for one channel or two.
  * Histories come from the same code and the same block streams as the trace engine
  * (history.ts), so both engines see identical histories; the distributions of the values agree
  * exactly (tests: test/engine/exact-engine.test.ts).
@@ -21,6 +25,7 @@
 import { choleskyLower } from '../../analysis/cholesky.ts';
 import { kernelPrefixSums, whiteCovariance, type SupportedKernel } from '../../analysis/linear-statistic.ts';
 import { seenFrom } from '../../analysis/noise-prediction.ts';
+import { allChannels, foldedProducts } from '../../signal/channel-fold.ts';
 import type { NoisePlan } from '../../signal/noise-plan.ts';
 import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../../random/streams.ts';
 import type { RandomStream } from '../../random/stream.ts';
@@ -72,10 +77,18 @@ export interface ExactResponse {
   decayQ: Float64Array[];
 }
 
-/** E[j] = Σ_{k ≥ lo+j} kernel[k]·carrier[k]·a^(k−lo−j) over k < hi, for j = 0 … hi−lo (E at hi is 0). */
-function decayedSuffixSums(kernel: Float64Array, carrier: Float64Array, lo: number, hi: number, a: number): Float64Array {
+/**
+ * E[j] = Σ_{k ≥ lo+j} t[k]·a^(k−lo−j) over k < hi, for j = 0 … hi−lo (E at hi is 0), with
+ * t[k] = Σ_c kernel[c·n + k]·carrier[c·n + k] the sample's terms over the record's channels.
+ */
+function decayedSuffixSums(kernel: Float64Array, carrier: Float64Array, lo: number, hi: number, a: number, channels: number): Float64Array {
   const e = new Float64Array(hi - lo + 1);
-  for (let k = hi - 1; k >= lo; k--) e[k - lo] = kernel[k]! * carrier[k]! + a * e[k - lo + 1]!;
+  if (channels === 1) {
+    for (let k = hi - 1; k >= lo; k--) e[k - lo] = kernel[k]! * carrier[k]! + a * e[k - lo + 1]!;
+    return e;
+  }
+  const t = foldedProducts(kernel, carrier, lo, hi, kernel.length / channels, allChannels(channels));
+  for (let k = hi - 1; k >= lo; k--) e[k - lo] = t[k]! + a * e[k - lo + 1]!;
   return e;
 }
 
@@ -90,11 +103,13 @@ function addPerShotCovariance(covariance: Float64Array, kernels: readonly Suppor
     const perShot = compiled.perShot;
     if (!perShot) continue;
     compiled.sources.forEach((info, s) => {
+      // per output, the functional of each independent realisation of the source (signal/injection.ts)
       const seen = kernels.map((k) => seenFrom(noise, info.injection, k.kernel, k.lo, k.hi));
       for (let a = 0; a < n; a++) {
         for (let b = 0; b <= a; b++) {
           const lo = Math.min(kernels[a]!.lo, kernels[b]!.lo), hi = Math.max(kernels[a]!.hi, kernels[b]!.hi);
-          const c = perShot.covariance(s, seen[a]!, seen[b]!, lo, hi);
+          const [first, ...rest] = seen[a]!.map((xa, r) => perShot.covariance(s, xa, seen[b]![r]!, lo, hi));
+          const c = rest.reduce((sum, x) => sum + x, first!);
           covariance[a * n + b] += c;
           if (a !== b) covariance[b * n + a] += c;
         }
@@ -115,16 +130,17 @@ export function exactTables(point: CompiledPoint): ExactTables {
   });
   const n = kernels.length;
   const states = point.waveforms.length;
+  const { channels } = point;
   const prefix: Float64Array[] = [];
   const full = new Float64Array(n * states);
   kernels.forEach((k, d) => {
     for (let s = 0; s < states; s++) {
-      const p = kernelPrefixSums(k.kernel, point.waveforms[s]!, k.lo, k.hi);
+      const p = kernelPrefixSums(k.kernel, point.waveforms[s]!, k.lo, k.hi, channels);
       prefix.push(p);
       full[d * states + s] = p[k.hi - k.lo]!;
     }
   });
-  const { factor } = choleskyLower(addPerShotCovariance(whiteCovariance(kernels, point.whiteSigma), kernels, point.noise), n);
+  const { factor } = choleskyLower(addPerShotCovariance(whiteCovariance(kernels, point.whiteSigma, channels), kernels, point.noise), n);
   const columns: number[] = [];
   for (let j = 0; j < n; j++) if (factor[j * n + j]! > 0) columns.push(j);
   const r = point.noise.response;
@@ -134,9 +150,9 @@ export function exactTables(point: CompiledPoint): ExactTables {
     const a = Math.exp(-1 / (fs * r.timeConstant));
     response = {
       timeConstant: r.timeConstant, fromZero: r.fromZero, levelRe: r.levelRe, levelIm: r.levelIm,
-      levelPrefix: kernels.flatMap((k) => point.levelWaves.map((w) => kernelPrefixSums(k.kernel, w, k.lo, k.hi))),
-      decayI: kernels.map((k) => decayedSuffixSums(k.kernel, r.inPhase, k.lo, k.hi, a)),
-      decayQ: kernels.map((k) => decayedSuffixSums(k.kernel, r.quadrature, k.lo, k.hi, a)),
+      levelPrefix: kernels.flatMap((k) => point.levelWaves.map((w) => kernelPrefixSums(k.kernel, w, k.lo, k.hi, channels))),
+      decayI: kernels.map((k) => decayedSuffixSums(k.kernel, r.inPhase, k.lo, k.hi, a, channels)),
+      decayQ: kernels.map((k) => decayedSuffixSums(k.kernel, r.quadrature, k.lo, k.hi, a, channels)),
     };
   }
   return {

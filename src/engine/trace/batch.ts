@@ -68,7 +68,7 @@ export function noiseRuntime(point: CompiledPoint, pointIndex: number, purpose: 
 
 export function makeScratch(point: CompiledPoint): BatchScratch {
   return {
-    record: new Float64Array(point.grid.samples), path: makePathBuffer(), store: makePathStore(SEED_BLOCK),
+    record: new Float64Array(point.channels * point.grid.samples), path: makePathBuffer(), store: makePathStore(SEED_BLOCK),
     history: historyTables(point), point,
   };
 }
@@ -94,19 +94,22 @@ export function makeShotBatch(point: CompiledPoint, pointIndex: number, purpose:
 }
 
 /**
- * Calls `body(stream, from, to)` for each seeding block of a batch: shots [from, to) of the batch
- * are one block and draw, in order, from that block's stream (see random/streams.ts).
+ * Calls `body(streams, from, to)` for each seeding block of a batch: shots [from, to) of the batch
+ * are one block and draw, in order, from that block's stream, streams[0] (see random/streams.ts);
+ * with `lanes` 2, the block's second lane is streams[1] (the second channel's noise of a
+ * baseband I and Q record, signal/injection.ts).
  */
 export function forEachBlock(
-  batch: ShotBatch, seed: number, body: (stream: RandomStream, from: number, to: number) => void,
+  batch: ShotBatch, seed: number, body: (streams: readonly RandomStream[], from: number, to: number) => void, lanes = 1,
 ): void {
   const blocks = new BlockStreams(seed, batch.point, batch.purpose, batch.firstShot / SEED_BLOCK);
-  // one stream object for the whole batch, moved to each block's start: the generator's
+  // one stream object per lane for the whole batch, moved to each block's start: the generator's
   // rejection scratch (grown to a record's length) is then allocated once per batch, not per block
-  const stream = blocks.current();
+  const streams = Array.from({ length: lanes }, () => blocks.current());
   for (let from = 0; from < batch.count; from += SEED_BLOCK) {
-    if (from > 0) blocks.advanceInto(stream);
-    body(stream, from, Math.min(batch.count, from + SEED_BLOCK));
+    if (from > 0) blocks.advanceInto(streams[0]!);
+    if (lanes > 1) blocks.laneInto(streams[1]!);
+    body(streams, from, Math.min(batch.count, from + SEED_BLOCK));
   }
 }
 
@@ -127,7 +130,7 @@ export function loadPath(store: PathStore, j: number, path: PathBuffer): void {
 /** The scratch's record loops for `point` (made again for another point); the record becomes theirs. */
 export function scratchKernel(point: CompiledPoint, scratch: BatchScratch): RecordLoops {
   if (scratch.kernelOf !== point || !scratch.kernel) {
-    scratch.kernel = makeRecordLoops(point.grid.samples, point.waveforms, point.pipelines.map((p) => p.kernels));
+    scratch.kernel = makeRecordLoops(point.grid.samples, point.waveforms, point.pipelines.map((p) => p.kernels), undefined, point.channels);
     scratch.kernelOf = point;
     scratch.record = scratch.kernel.record;
   }
@@ -138,7 +141,9 @@ export function scratchKernel(point: CompiledPoint, scratch: BatchScratch): Reco
  * Runs shots [batch·batchSize, batch·batchSize + count) of one point and purpose through the
  * trace engine. Each seeding block first draws its shots' histories (history.ts), then, shot by
  * shot, the record's noise; the result does not depend on the batch size (a multiple of
- * SEED_BLOCK).
+ * SEED_BLOCK). A record of two channels (baseband I and Q) is written channel by channel, the
+ * second channel's white and per-shot noise drawn from the block's second lane, so the first
+ * channel draws exactly what a one-channel record draws.
  */
 export function simulateBatch(
   point: CompiledPoint, pointIndex: number, purpose: StreamPurpose, batch: number, count: number,
@@ -150,21 +155,25 @@ export function simulateBatch(
   const { record, path, store } = scratch;
   const fs = point.grid.sampleRate;
   const lo = point.synthLo, hi = point.synthHi;
+  const { channels } = point, samples = point.grid.samples;
   const collector = makeShotCollector(point, pointIndex, purpose, out.firstShot, count);
   // noise beyond white (noise/sensor hook): slow noise from its own streams, response, digitizer
   const { response, digitizer } = point.noise;
   const slow = point.noise.kinds.length > 0 ? noiseRuntime(point, pointIndex, purpose, scratch) : null;
   let clipped = 0;
   const pair = new Float64Array(2);
-  forEachBlock(out, point.scenario.seed, (stream, from, to) => {
-    sampleHistories(tables, stream, out, from, to, store);
+  forEachBlock(out, point.scenario.seed, (streams, from, to) => {
+    sampleHistories(tables, streams[0]!, out, from, to, store);
     for (let i = from; i < to; i++) {
       loadPath(store, i - from, path);
       // the common shot (no jump, nothing but white noise): signal and noise in one pass
       const plain = !response && !slow && path.jumps === 0 && point.whiteSigma > 0;
-      if (plain) kernel.noiseOntoWaveform(stream, out.initial[i]!, lo, hi, point.whiteSigma);
-      else if (response) writeRespondedSignal(record, lo, hi, point.levelWaves, response, out.initial[i]!, path, fs);
-      else writeSignal(record, lo, hi, point.waveforms, out.initial[i]!, path, fs);
+      for (let c = 0; c < channels; c++) {
+        const at = c * samples;
+        if (plain) kernel.noiseOntoWaveform(streams[c]!, out.initial[i]!, at + lo, at + hi, point.whiteSigma);
+        else if (response) writeRespondedSignal(record, lo, hi, point.levelWaves, response, out.initial[i]!, path, fs, at);
+        else writeSignal(record, lo, hi, point.waveforms, out.initial[i]!, path, fs, at);
+      }
       if (slow) {
         // noise with a linear path (1/f) goes into the record only when the digitizer needs it
         // there; otherwise it enters each value through that path (signal/noise-runtime.ts)
@@ -172,9 +181,9 @@ export function simulateBatch(
         slow.addToRecord(record, lo, hi);
         if (digitizer) slow.addLinearToRecord(record, lo, hi);
       }
-      if (!plain) kernel.addNoise(stream, lo, hi, point.whiteSigma);
-      if (slow) slow.addShotNoise(record, lo, hi, stream);
-      if (digitizer) clipped += digitize(record, lo, hi, digitizer);
+      if (!plain) for (let c = 0; c < channels; c++) kernel.addNoise(streams[c]!, c * samples + lo, c * samples + hi, point.whiteSigma);
+      if (slow) slow.addShotNoise(record, lo, hi, streams);
+      if (digitizer) for (let c = 0; c < channels; c++) clipped += digitize(record, c * samples + lo, c * samples + hi, digitizer);
       const carried = slow !== null && slow.hasLinear && digitizer === null;
       for (let p = 0; p < point.pipelines.length; p++) {
         kernel.values(p, pair);
@@ -185,7 +194,7 @@ export function simulateBatch(
       if (carried && collector) slow.addLinearToRecord(record, lo, hi);
       collector?.shot(i, record, out.initial[i]!, path);
     }
-  });
+  }, channels);
   if (digitizer) out.clippedSamples = clipped;
   if (collector) {
     const kept = collector.result();

@@ -9,7 +9,9 @@
  * signal and white noise of the same σ, drawn from a stream of their own (purpose 'aux', block
  * index offset by TRACE_PADDING_BLOCKS), so keeping traces never changes the numbers of the
  * shots: a run gives the same outcomes with and without --keep-traces. Other noise sources
- * added by the engine inside [synthLo, synthHi) are not extended into the padding.
+ * added by the engine inside [synthLo, synthHi) are not extended into the padding. A record of
+ * two channels (baseband I and Q) keeps both: raw traces are the I and Q channels, the second
+ * channel's padding drawn from the padding stream's second lane.
  */
 import type { PathBuffer } from '../../physics/chain.ts';
 import { BlockStreams, SEED_BLOCK, type StreamPurpose } from '../../random/streams.ts';
@@ -28,9 +30,9 @@ export const TRACE_PADDING_BLOCKS = 2 ** 23;
 export interface KeptTraces {
   kind: 'raw' | 'baseband';
   samples: number;
-  /** raw: the record; baseband: the demodulated I. */
+  /** raw: the record (its I channel on baseband I and Q); baseband: the demodulated I. */
   data: Float32Array;
-  /** baseband: the demodulated Q (zeros without a carrier); raw: null. */
+  /** baseband: the demodulated Q (zeros without a carrier); raw: the Q channel on baseband I and Q, else null. */
   quadrature: Float32Array | null;
 }
 
@@ -58,20 +60,23 @@ export function makeShotCollector(
   });
   const scratches: (ProcessScratch | null)[] = point.pipelines.map((p, j) => (wanted[j] ? makeProcessScratch(p.chain, samples) : null));
 
+  const { channels } = point;
   let traces: KeptTraces | null = null;
   let full: Float64Array | null = null;
   let padding: BlockStreams | null = null;
-  let stream: RandomStream | null = null;
+  // the padding's streams: the block's, and its second lane for a second channel
+  let streams: RandomStream[] = [];
   const demodI = keep === 'baseband' ? new Float64Array(samples) : null;
   const demodQ = keep === 'baseband' ? new Float64Array(samples) : null;
   if (keep !== undefined) {
     traces = {
       kind: keep, samples, data: new Float32Array(count * samples),
-      quadrature: keep === 'baseband' ? new Float32Array(count * samples) : null,
+      quadrature: keep === 'baseband' || channels > 1 ? new Float32Array(count * samples) : null,
     };
-    full = new Float64Array(samples);
+    full = new Float64Array(channels * samples);
     padding = new BlockStreams(point.scenario.seed, pointIndex, 'aux', TRACE_PADDING_BLOCKS + firstShot / SEED_BLOCK);
-    stream = padding.current();
+    streams = Array.from({ length: channels }, () => padding!.current());
+    if (channels > 1) padding.laneInto(streams[1]!);
   }
   const lo = point.synthLo, hi = point.synthHi;
   const fs = point.grid.sampleRate;
@@ -84,16 +89,23 @@ export function makeShotCollector(
         if (kept) processRecord(point.pipelines[j]!.chain, record, scratches[j]!, kept.inPhase, kept.quadrature, i * kept.bins);
       }
       if (traces === null) return;
-      if (i > 0 && i % SEED_BLOCK === 0) stream = padding!.next();
+      if (i > 0 && i % SEED_BLOCK === 0) {
+        streams[0] = padding!.next();
+        if (channels > 1) padding!.laneInto(streams[1]!);
+      }
       const f = full!;
-      f.set(record.subarray(lo, hi), lo);
-      writeSignal(f, 0, lo, point.waveforms, initial, path, fs);
-      writeSignal(f, hi, samples, point.waveforms, initial, path, fs);
-      addWhiteNoise(f, 0, lo, point.whiteSigma, stream!);
-      addWhiteNoise(f, hi, samples, point.whiteSigma, stream!);
+      for (let c = 0; c < channels; c++) {
+        const base = c * samples;
+        f.set(record.subarray(base + lo, base + hi), base + lo);
+        writeSignal(f, 0, lo, point.waveforms, initial, path, fs, base);
+        writeSignal(f, hi, samples, point.waveforms, initial, path, fs, base);
+        addWhiteNoise(f, base, base + lo, point.whiteSigma, streams[c]!);
+        addWhiteNoise(f, base + hi, base + samples, point.whiteSigma, streams[c]!);
+      }
       const at = i * samples;
       if (traces.kind === 'raw') {
-        traces.data.set(f, at);
+        traces.data.set(f.subarray(0, samples), at);
+        if (channels > 1) traces.quadrature!.set(f.subarray(samples, 2 * samples), at);
         return;
       }
       demodulate(f, reference, 0, samples, demodI!, demodQ!);

@@ -8,6 +8,10 @@
  * RecordKernel copies the waveforms and kernels once into its instance's memory; `record` is a
  * view of that memory, so every other stage reads and writes the record as an ordinary
  * Float64Array.
+ *
+ * A record of several channels (baseband I and Q) is stored channel-major, channels × samples
+ * (signal/carrier.ts), and so are the waveforms and kernels: a value is the sum of each channel's
+ * dot products over its [lo, hi), channel 0 first.
  */
 import { dotRange, dotRangePair } from '../../dsp/integrate.ts';
 import type { RandomStream } from '../../random/stream.ts';
@@ -27,38 +31,44 @@ export interface PipelineKernels { inPhase: Float64Array; quadrature: Float64Arr
 
 /** The record loops of one point (either implementation). */
 export interface RecordLoops {
-  /** The record, `samples` long. */
+  /** The record, channels × samples long. */
   readonly record: Float64Array;
   noiseOntoWaveform(stream: RandomStream, wave: number, lo: number, hi: number, sigma: number): void;
   /** record[lo … hi) += sigma·N(0,1) from `stream` (RandomStream.addNormals); nothing when sigma ≤ 0. */
   addNoise(stream: RandomStream, lo: number, hi: number, sigma: number): void;
-  /** Pipeline p's integrated values into out[0] (I) and out[1] (Q, 0 at baseband). */
+  /** Pipeline p's integrated values into out[0] (I) and out[1] (Q, 0 at baseband), summed over the channels. */
   values(p: number, out: Float64Array): void;
 }
 
-/** Bytes of a RecordKernel's arrays (waveforms, I and Q kernels per pipeline, record). */
-function kernelBytes(samples: number, states: number, pipelines: number): number {
-  return (states + 1 + 2 * pipelines) * samples * 8;
+/** Bytes of a RecordKernel's arrays (waveforms, I and Q kernels per pipeline, record), each `entries` long. */
+function kernelBytes(entries: number, states: number, pipelines: number): number {
+  return (states + 1 + 2 * pipelines) * entries * 8;
 }
 
 /**
- * The record loops of a point: WebAssembly, or TypeScript when the arrays would not fit in a
- * WebAssembly memory (`maxBytes`, MAX_KERNEL_BYTES by default) or WebAssembly is unavailable.
+ * The record loops of a point whose record has `channels` channels of `samples` samples:
+ * WebAssembly, or TypeScript when the arrays would not fit in a WebAssembly memory (`maxBytes`,
+ * MAX_KERNEL_BYTES by default) or WebAssembly is unavailable.
  */
 export function makeRecordLoops(
-  samples: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[], maxBytes = MAX_KERNEL_BYTES,
+  samples: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[], maxBytes = MAX_KERNEL_BYTES, channels = 1,
 ): RecordLoops {
-  return kernelsAvailable() && kernelBytes(samples, waveforms.length, pipelines.length) <= maxBytes
-    ? new RecordKernel(samples, waveforms, pipelines)
-    : new TypeScriptRecordLoops(samples, waveforms, pipelines);
+  return kernelsAvailable() && kernelBytes(channels * samples, waveforms.length, pipelines.length) <= maxBytes
+    ? new RecordKernel(samples, waveforms, pipelines, channels)
+    : new TypeScriptRecordLoops(samples, waveforms, pipelines, channels);
 }
 
 /** The TypeScript loops, the reference of RecordKernel. */
 export class TypeScriptRecordLoops implements RecordLoops {
   readonly record: Float64Array;
+  /** One channel's values, added to the first's. */
+  private readonly more = new Float64Array(2);
 
-  constructor(samples: number, private readonly waveforms: readonly Float64Array[], private readonly pipelines: readonly PipelineKernels[]) {
-    this.record = new Float64Array(samples);
+  constructor(
+    private readonly samples: number, private readonly waveforms: readonly Float64Array[], private readonly pipelines: readonly PipelineKernels[],
+    channels = 1,
+  ) {
+    this.record = new Float64Array(channels * samples);
   }
 
   noiseOntoWaveform(stream: RandomStream, wave: number, lo: number, hi: number, sigma: number): void {
@@ -71,9 +81,19 @@ export class TypeScriptRecordLoops implements RecordLoops {
 
   values(p: number, out: Float64Array): void {
     const k = this.pipelines[p]!;
-    if (k.quadrature) dotRangePair(k.inPhase, k.quadrature, this.record, k.lo, k.hi, out);
+    this.channelValues(k, 0, out);
+    for (let at = this.samples; at < this.record.length; at += this.samples) {
+      this.channelValues(k, at, this.more);
+      out[0] += this.more[0]!;
+      out[1] += this.more[1]!;
+    }
+  }
+
+  /** The values of the channel that starts at entry `at`. */
+  private channelValues(k: PipelineKernels, at: number, out: Float64Array): void {
+    if (k.quadrature) dotRangePair(k.inPhase, k.quadrature, this.record, at + k.lo, at + k.hi, out);
     else {
-      out[0] = dotRange(k.inPhase, this.record, k.lo, k.hi);
+      out[0] = dotRange(k.inPhase, this.record, at + k.lo, at + k.hi);
       out[1] = 0;
     }
   }
@@ -89,8 +109,14 @@ export class RecordKernel implements RecordLoops {
   private readonly waves: number[];
   private readonly kernels: PlacedKernels[];
   private readonly recordAt: number;
+  /** Entries per channel, and the record's channels. */
+  private readonly samples: number;
+  private readonly channels: number;
 
-  constructor(samples: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[]) {
+  constructor(perChannel: number, waveforms: readonly Float64Array[], pipelines: readonly PipelineKernels[], channels = 1) {
+    const samples = channels * perChannel;
+    this.samples = perChannel;
+    this.channels = channels;
     const { buffer, exports } = instantiateKernels(kernelBytes(samples, waveforms.length, pipelines.length));
     this.exports = exports as unknown as Exports;
     this.state = i32Slot(buffer, 'stream');
@@ -124,14 +150,19 @@ export class RecordKernel implements RecordLoops {
 
   values(p: number, out: Float64Array): void {
     const k = this.kernels[p]!;
-    if (k.quadrature >= 0) {
-      this.exports.dotPair(k.inPhase, k.quadrature, this.recordAt, k.lo, k.hi);
-      out[0] = this.result[0]!;
-      out[1] = this.result[1]!;
-    } else {
-      this.exports.dot(k.inPhase, this.recordAt, k.lo, k.hi);
-      out[0] = this.result[0]!;
-      out[1] = 0;
+    this.channelValues(k, 0);
+    out[0] = this.result[0]!;
+    out[1] = k.quadrature >= 0 ? this.result[1]! : 0;
+    for (let c = 1; c < this.channels; c++) {
+      this.channelValues(k, c * this.samples);
+      out[0] += this.result[0]!;
+      out[1] += k.quadrature >= 0 ? this.result[1]! : 0;
     }
+  }
+
+  /** The dot products of the channel that starts at entry `at`, into the result slot. */
+  private channelValues(k: PlacedKernels, at: number): void {
+    if (k.quadrature >= 0) this.exports.dotPair(k.inPhase, k.quadrature, this.recordAt, at + k.lo, at + k.hi);
+    else this.exports.dot(k.inPhase, this.recordAt, at + k.lo, at + k.hi);
   }
 }

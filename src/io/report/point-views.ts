@@ -22,6 +22,8 @@ export const HISTOGRAM_BINS = 90;
 export interface PointModel {
   scenario: Pick<Scenario, 'states' | 'signal' | 'preparationError' | 'mappingError'>;
   grid: Pick<Grid, 'samples' | 'sampleRate' | 'windowLo' | 'windowHi'>;
+  /** Channels of the record (2: baseband I and Q); records, waveforms and kernels are channel-major. */
+  channels: number;
   pipelines: readonly { referencePhase: number; kernels: { inPhase: Float64Array; quadrature: Float64Array | null; lo: number; hi: number } }[];
   waveforms: readonly Float64Array[];
   chain: { rate: Float64Array };
@@ -62,9 +64,9 @@ export function histogramView(c: PointModel, r: PointReading, values: Float64Arr
   const width = (hi - lo) / HISTOGRAM_BINS;
   const unit = displayUnit(sc.signal.unit, Math.max(Math.abs(lo), Math.abs(hi)));
   const k = c.pipelines[r.pipeline]!.kernels;
-  const kernel = projectKernel(k, { cos: Math.cos(r.axisAngle), sin: Math.sin(r.axisAngle) });
+  const kernel = projectKernel(k, { cos: Math.cos(r.axisAngle), sin: Math.sin(r.axisAngle) }, c.channels);
   const input = {
-    kernel, lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms, rate: c.chain.rate,
+    kernel, lo: k.lo, hi: k.hi, sampleRate: c.grid.sampleRate, waveforms: c.waveforms, channels: c.channels, rate: c.chain.rate,
     preparation: sc.preparationError, mapping: sc.mappingError,
   };
   const xs = Float64Array.from({ length: 4 * HISTOGRAM_BINS + 1 }, (_, i) => lo + (i * (hi - lo)) / (4 * HISTOGRAM_BINS));
@@ -99,10 +101,11 @@ export const ZOOM_PERIODS = 4;
  */
 function noiseFreeRecord(c: PointModel, s: ExampleRecord): Float64Array {
   const n = c.grid.samples;
-  const out = new Float64Array(n);
+  const out = new Float64Array(c.channels * n);
   const jump = Number.isFinite(s.firstJump) ? Math.ceil(s.firstJump * c.grid.sampleRate) : n;
   const before = c.waveforms[s.initial]!, after = c.waveforms[s.atWindowEnd]!;
-  for (let k = 0; k < n; k++) out[k] = k < jump ? before[k]! : after[k]!;
+  // each channel's samples in turn (baseband I and Q: I then Q), the jump at the same time in both
+  for (let at = 0; at < out.length; at += n) for (let k = 0; k < n; k++) out[at + k] = k < jump ? before[at + k]! : after[at + k]!;
   return out;
 }
 
@@ -117,23 +120,28 @@ function zoomRange(c: PointModel, carrier: number): { lo: number; hi: number; pe
   return { lo, hi, periods };
 }
 
+/** The channels of a baseband I and Q record, for panel titles. */
+const IQ_CHANNELS = ['I channel', 'Q channel'] as const;
+
 /** Example-record plots (raw, a zoom on the carrier, demodulated), or null when the point has no example shots. */
 export function traceViews(c: PointModel, shots: readonly ExampleRecord[], r: PointReading): { raw: PlotSpec; zoom: PlotSpec | null; zoomNote: string; demodulated: PlotSpec; note: string } | null {
   if (shots.length === 0) return null;
   const sc = c.scenario;
   const fs = c.grid.sampleRate, n = c.grid.samples;
+  const { channels } = c;
   const time = displayUnit('s', n / fs);
   const pipeline = c.pipelines[r.pipeline]!;
   const carrier = sc.signal.carrier.frequency;
   const cos = Math.cos(r.axisAngle), sin = Math.sin(r.axisAngle);
-  const reference = makeReference(n, fs, carrier, pipeline.referencePhase);
+  const reference = makeReference(n, fs, carrier, pipeline.referencePhase, channels);
   const width = carrier > 0 ? Math.max(1, Math.round(fs / carrier)) : Math.max(1, Math.round((c.grid.windowHi - c.grid.windowLo) / 25));
   let size = 0;
-  for (const s of shots) for (let k = 0; k < n; k++) size = Math.max(size, Math.abs(s.record[k]!));
+  for (const s of shots) for (let k = 0; k < channels * n; k++) size = Math.max(size, Math.abs(s.record[k]!));
   const signal = displayUnit(sc.signal.unit, Math.max(size, Math.abs(r.threshold)));
   const demod = new Float64Array(n), smooth = new Float64Array(n);
   const zoom = zoomRange(c, carrier);
   const at = (k: number) => (k / fs) * time.factor;
+  const cleans: Float64Array[] = [];
   const plot: TracePlot = {
     timeTitle: withUnit('time from the record start', time),
     rawTitle: signal.label || 'signal',
@@ -141,12 +149,17 @@ export function traceViews(c: PointModel, shots: readonly ExampleRecord[], r: Po
     window: [(c.grid.windowLo / fs) * time.factor, (c.grid.windowHi / fs) * time.factor],
     threshold: r.threshold * signal.factor,
     shots: shots.map((s) => {
+      // Σ over the channels of the record times the reference projected on the axis (demodulate.ts)
       for (let k = 0; k < n; k++) {
         demod[k] = reference ? s.record[k]! * (reference.inPhase[k]! * cos + reference.quadrature[k]! * sin) : s.record[k]!;
+      }
+      for (let at = n; at < channels * n; at += n) {
+        for (let k = 0; k < n; k++) demod[k] += s.record[at + k]! * (reference!.inPhase[at + k]! * cos + reference!.quadrature[at + k]! * sin);
       }
       movingAverage(demod, 0, n, width, smooth);
       const raw = envelope(s.record, 0, n, 700);
       const clean = noiseFreeRecord(c, s);
+      cleans.push(clean);
       const cleanLine = envelope(clean, 0, n, 700);
       const dm = envelope(smooth, 0, n, 500);
       const name = sc.states[s.intended]!.name;
@@ -170,7 +183,26 @@ export function traceViews(c: PointModel, shots: readonly ExampleRecord[], r: Po
   const zoomNote = zoom
     ? `${zoom.periods} carrier period${zoom.periods === 1 ? '' : 's'} (${zoom.hi - zoom.lo} samples, ${showValue((zoom.hi - zoom.lo) / fs, 's')}) from the window start`
     : '';
-  return { raw: rawTracesSpec(plot), zoom: zoom ? zoomTracesSpec(plot) : null, zoomNote, demodulated: demodulatedSpec(plot), note: smoothing };
+  return {
+    raw: rawTracesSpec(channels > 1 ? perChannel(plot, shots, cleans, n, fs, time.factor, signal.factor) : plot),
+    zoom: zoom ? zoomTracesSpec(plot) : null, zoomNote, demodulated: demodulatedSpec(plot), note: smoothing,
+  };
+}
+
+/** The raw plot of a baseband I and Q record: one panel per shot and channel, each under its noise-free signal. */
+function perChannel(
+  plot: TracePlot, shots: readonly ExampleRecord[], cleans: readonly Float64Array[], n: number, fs: number, timeFactor: number, signalFactor: number,
+): TracePlot {
+  const line = (values: Float64Array, c: number) => {
+    const e = envelope(values, c * n, (c + 1) * n, 700);
+    return e.index.map((k, j) => ({ t: ((k - c * n) / fs) * timeFactor, v: e.value[j]! * signalFactor }));
+  };
+  return {
+    ...plot,
+    shots: plot.shots.flatMap((s, i) => IQ_CHANNELS.map((channel, c) => ({
+      ...s, label: `${s.label}, ${channel}`, raw: line(shots[i]!.record, c), clean: line(cleans[i]!, c),
+    }))),
+  };
 }
 
 /** Most points per prepared state in the IQ plane (every k-th shot when there are more). */

@@ -10,10 +10,13 @@
  *                                     first jump before the window end (relaxation/excitation/
  *                                     leakage), or none
  *   raw:      record                  FixedSizeList<Float32>[samples], the digitised record
+ *             in_phase, quadrature    instead, for a record of baseband I and Q (carrier
+ *                                     baseband-iq): its two digitised channels
  *   baseband: in_phase, quadrature    FixedSizeList<Float32>[samples] each: the record times
  *                                     2cos θ and −2sin θ with the first pipeline's reference
  *                                     (not filtered); without a carrier in_phase = the record
- *                                     and quadrature = 0
+ *                                     and quadrature = 0; on baseband I and Q the channels
+ *                                     rotated by the reference phase
  * Schema metadata: the provenance of every table, plus singleshot.trace_kind, sample_rate (Hz),
  * carrier_frequency (Hz), carrier_phase (rad), reference_phase (rad, of the first pipeline),
  * window_start / window_length (s), outcomes (JSON list, outcome 0 first) and calibration (JSON:
@@ -23,6 +26,7 @@
 import { Field, FixedSizeList, Float32, Float64, makeData, RecordBatch, Schema, Struct, Uint32 } from 'apache-arrow';
 import { attributeCause, CAUSE_NOISE, CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
 import type { Scenario } from '../../scenario/types.ts';
+import { recordChannels } from '../../signal/carrier.ts';
 import { DEFAULT_CLASSIFIER } from '../../classify/registry.ts';
 import {
   dictionaryData, makeDictionaryColumn, nullableFloat64Data, uint32Data, unitField, type DictionaryColumn,
@@ -35,6 +39,8 @@ export interface TracesLayout {
   schema: Schema;
   kind: 'raw' | 'baseband';
   samples: number;
+  /** Record columns: `record`, or `in_phase` and `quadrature`. */
+  columns: number;
   states: DictionaryColumn;
   outcomes: DictionaryColumn;
   causes: DictionaryColumn;
@@ -82,7 +88,7 @@ export function tracesLayout(
   const outcomes = makeDictionaryColumn(2, scenario.outcomes);
   const causes = makeDictionaryColumn(3, [...CAUSES]);
   const list = () => new FixedSizeList(samples, new Field('sample', new Float32(), false));
-  const recordFields = kind === 'raw'
+  const recordFields = kind === 'raw' && recordChannels(scenario.signal.carrier) === 1
     ? [unitField('record', list(), unit)]
     : [unitField('in_phase', list(), unit), unitField('quadrature', list(), unit)];
   const meta = new Map(metadata);
@@ -106,7 +112,7 @@ export function tracesLayout(
     unitField('cause', causes.type, null),
     ...recordFields,
   ], meta);
-  return { schema, kind, samples, states, outcomes, causes };
+  return { schema, kind, samples, columns: recordFields.length, states, outcomes, causes };
 }
 
 /** The record batch of one scored shot batch (which must carry `traces`). */
@@ -131,7 +137,7 @@ export function traceRecordBatch(layout: TracesLayout, b: BatchRows, outcomeOf: 
     child: makeData({ type: new Float32(), length: n * layout.samples, nullCount: 0, data: values }),
   });
   const fields = layout.schema.fields;
-  const records = layout.kind === 'raw'
+  const records = layout.columns === 1
     ? [listData(traces.data, fields[fields.length - 1]!)]
     : [listData(traces.data, fields[fields.length - 2]!), listData(traces.quadrature!, fields[fields.length - 1]!)];
   const children = [

@@ -18,15 +18,17 @@ const carrierSchema = z
   .union(
     [
       z.literal('none'),
+      z.literal('baseband-iq'),
       section({
-        shape: oneOf(['sine', 'square']),
+        // baseband I and Q has no carrier: say how it is written when it turns up here
+        shape: z.enum(['sine', 'square'], { error: () => 'one of "sine", "square" (baseband I and Q has no carrier: write carrier: baseband-iq, without frequency or phase)' }),
         frequency: quantity('frequency', positive, 'Carrier frequency'),
         phase: quantity('angle', {}, 'Carrier phase (default 0)').optional(),
       }),
     ],
-    { error: () => '"none" or a mapping {shape, frequency, phase}' },
+    { error: () => '"none", "baseband-iq" or a mapping {shape, frequency, phase}' },
   )
-  .meta({ description: '"none" (baseband) or a sine or square carrier' });
+  .meta({ description: '"none" (one baseband channel), "baseband-iq" (I and Q recorded as two baseband channels) or a sine or square carrier' });
 
 const whiteSchema = section({
   density: signalQuantity('noiseDensity', { min: 0 }, 'One-sided amplitude density').optional(),
@@ -61,13 +63,13 @@ export interface SignalInputs {
   hasSensor?: boolean;
 }
 
-/** Resolves the carrier, noise and unit; makes levels real at baseband; warns on aliasing. */
+/** Resolves the carrier, noise and unit; makes levels real on one baseband channel; warns on aliasing. */
 export function resolveSignal(doc: SignalDoc, ctx: ResolveContext, inputs: SignalInputs): SignalSpec {
   const s = doc ?? {};
   const at = ['signal'];
   const carrier: CarrierSpec =
-    s.carrier === undefined || s.carrier === 'none'
-      ? { shape: 'none', frequency: 0, phase: 0 }
+    s.carrier === undefined || s.carrier === 'none' || s.carrier === 'baseband-iq'
+      ? { shape: s.carrier ?? 'none', frequency: 0, phase: 0 }
       : { shape: s.carrier.shape, frequency: s.carrier.frequency, phase: s.carrier.phase ?? 0 };
 
   const uses = [...inputs.uses];
@@ -93,11 +95,11 @@ export function resolveSignal(doc: SignalDoc, ctx: ResolveContext, inputs: Signa
     inputs.states.forEach((st, i) => {
       const scale = Math.max(Math.abs(st.level.re), Math.abs(st.level.im));
       if (Math.abs(st.level.im) > 1e-12 * scale) {
-        ctx.fail(['states', i, 'level'], 'a real level (complex levels need a carrier)');
+        ctx.fail(['states', i, 'level'], 'a real level (complex levels need a carrier, or signal.carrier: baseband-iq for I and Q recorded as two baseband channels)');
       }
       st.level.im = 0;
     });
-  } else {
+  } else if (carrier.shape !== 'baseband-iq') {
     const { sampleRate, windowLength } = inputs.timing;
     const f = carrier.frequency;
     const key = [...at, 'carrier', 'frequency'];

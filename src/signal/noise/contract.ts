@@ -13,12 +13,17 @@
  *
  * Where a source enters (record sample k, gain g, carrier table c_k): sensor-side noise n moves
  * the operating point and is modulated like the signal, g·c_k·n(t_k); amplifier-side noise is
- * added after the modulation, g·n(t_k) (signal/noise-plan.ts).
+ * added after the modulation, g·n(t_k) (signal/noise-plan.ts). On baseband I and Q the record has
+ * two channels, and a source reaches it as independent realisations (signal/injection.ts): one
+ * for sensor-side noise, entering both channels; one per channel for amplifier-side noise. The
+ * variance and covariance below are of one realisation through a one-channel functional x; the
+ * callers sum them over the realisations.
  */
 import type { NoiseInjection, NoiseSourceSpec, TimingSpec } from '../../scenario/types.ts';
 import type { RandomStream } from '../../random/stream.ts';
 import type { StreamPurpose } from '../../random/streams.ts';
 import type { Grid } from '../grid.ts';
+import type { Realisations } from '../injection.ts';
 
 /** Bounds of a number (the scenario's range, with its wording in messages). */
 export interface ConfigRange {
@@ -103,9 +108,13 @@ export interface NoisePointContext {
   shots: number;
   calibrationShots: number;
   gain: number;
-  /** Weight of sensor-side noise at each record sample: gain·c_k. */
+  /** Channels of the record (1, or 2 for baseband I and Q), each of grid.samples samples, channel-major. */
+  channels: number;
+  /** Weight of sensor-side noise at each record entry: gain·c_k (noise-plan.ts). */
   sensorWeight: Float64Array;
-  /** The samples the engine synthesises, [synthLo, synthHi). */
+  /** How each injection point's sources reach the record (signal/injection.ts). */
+  realisations: Realisations;
+  /** The samples the engine synthesises on each channel, [synthLo, synthHi). */
   synthLo: number;
   synthHi: number;
   /** Time constant of the analog response (s), or null without one. */
@@ -114,7 +123,7 @@ export interface NoisePointContext {
   kernels: readonly KernelPair[];
 }
 
-/** A pipeline's kernels on the record grid. */
+/** A pipeline's kernels on the record grid (channel-major like the record), nonzero on [lo, hi) of each channel. */
 export interface KernelPair {
   inPhase: Float64Array;
   quadrature: Float64Array | null;
@@ -147,7 +156,7 @@ export interface TwoLevel {
 export interface NoiseKindRuntime {
   /** Draws shot `shot`'s noise (index within its purpose). */
   shot(shot: number): void;
-  /** Adds the current shot's noise to record[lo … hi). */
+  /** Adds the current shot's noise to record[lo … hi) of each channel. */
   addToRecord(record: Float64Array, lo: number, hi: number): void;
   /**
    * The current shot's part of pipeline p's I (or Q) value, without the record (kinds with a
@@ -160,8 +169,12 @@ export interface NoiseKindRuntime {
 export interface PerShotNoise {
   /** Covariance of Σ_k xa[k]·n_s(t_k) and Σ_k xb[k]·n_s(t_k) over [lo, hi) for source s, x seen from its injection point. */
   covariance(s: number, xa: Float64Array, xb: Float64Array, lo: number, hi: number): number;
-  /** Adds one shot's noise of every source to record[lo … hi), drawing from `stream` (the shot's own). */
-  addShot(record: Float64Array, lo: number, hi: number, stream: RandomStream): void;
+  /**
+   * Adds one shot's noise of every source to record[lo … hi) of each channel, drawing each
+   * realisation from `streams[lane]` (the shot's own streams: its block's stream and, for the
+   * second channel's realisations, the block's second lane).
+   */
+  addShot(record: Float64Array, lo: number, hi: number, streams: readonly RandomStream[]): void;
 }
 
 /** A kind's sources of one point, compiled. */
@@ -183,8 +196,11 @@ export interface CompiledNoiseKind {
   perShot?: PerShotNoise;
   /** The kind with other pipeline kernels (calibrated weights): what depends on them is made again. */
   withKernels(kernels: readonly KernelPair[]): CompiledNoiseKind;
-  /** The runtime on one purpose's timeline; `stream(index)` is the point's slow-noise stream `index`. */
-  runtime(purpose: StreamPurpose, stream: (index: number) => RandomStream): NoiseKindRuntime;
+  /**
+   * The runtime on one purpose's timeline; `stream(index, lane)` is the point's slow-noise stream
+   * `index` (lane 0), or its second lane (lane 1: the realisation of the second channel).
+   */
+  runtime(purpose: StreamPurpose, stream: (index: number, lane: number) => RandomStream): NoiseKindRuntime;
 }
 
 /** A kind of noise source (see the file comment). */

@@ -28,6 +28,30 @@ export interface CorrelatedSourceSpec extends NoiseSourceSpec {
   correlationTime: number;
 }
 
+/**
+ * Adds weight[at + j]·x_j to record[at + j] for j < m, x the process x_0 = σ·n_0,
+ * x_{j+1} = a·x_j + b·n_{j+1} driven by normals[0 … m); with `keep`, x_j replaces n_j in normals.
+ */
+function addProcess(
+  record: Float64Array, at: number, m: number, normals: Float64Array, weight: Float64Array, sigma: number, a: number, b: number, keep: boolean,
+): void {
+  let x = sigma * normals[0]!;
+  record[at] += weight[at]! * x;
+  if (keep) {
+    normals[0] = x;
+    for (let j = 1; j < m; j++) {
+      x = a * x + b * normals[j]!;
+      normals[j] = x;
+      record[at + j] += weight[at + j]! * x;
+    }
+    return;
+  }
+  for (let j = 1; j < m; j++) {
+    x = a * x + b * normals[j]!;
+    record[at + j] += weight[at + j]! * x;
+  }
+}
+
 /** Most correlated sources per point. */
 export const MAX_CORRELATED_SOURCES = 8;
 
@@ -84,7 +108,8 @@ export const correlatedKind: NoiseSourceKind<CorrelatedSourceSpec> = {
     // a = e^(−dt/τc) and √(1 − a²) without cancellation for τc ≫ dt
     const decay = specs.map((s) => Math.exp(-1 / (fs * s.correlationTime)));
     const innovation = specs.map((s) => s.sigma * Math.sqrt(-Math.expm1(-2 / (fs * s.correlationTime))));
-    const weightOf = (s: number, k: number) => (specs[s]!.injection === 'sensor' ? point.sensorWeight[k]! : point.gain);
+    const n = point.grid.samples;
+    const realisationsOf = (s: number) => point.realisations[specs[s]!.injection];
     let normals = new Float64Array(0);
     const kind: CompiledNoiseKind = {
       sources: specs.map((s) => ({
@@ -100,16 +125,19 @@ export const correlatedKind: NoiseSourceKind<CorrelatedSourceSpec> = {
       },
       perShot: {
         covariance: (s, xa, xb, lo, hi) => specs[s]!.sigma ** 2 * exponentialBilinearForm(xa, xb, lo, hi, decay[s]!),
-        addShot(record, lo, hi, stream) {
-          if (normals.length < hi - lo) normals = new Float64Array(hi - lo);
+        addShot(record, lo, hi, streams) {
+          const m = hi - lo;
+          if (normals.length < m) normals = new Float64Array(m);
           for (let s = 0; s < specs.length; s++) {
-            stream.fillNormals(normals, 0, hi - lo);
-            const a = decay[s]!, b = innovation[s]!;
-            let x = specs[s]!.sigma * normals[0]!;
-            record[lo] += weightOf(s, lo) * x;
-            for (let k = lo + 1; k < hi; k++) {
-              x = a * x + b * normals[k - lo]!;
-              record[k] += weightOf(s, k) * x;
+            for (const r of realisationsOf(s)) {
+              streams[r.lane]!.fillNormals(normals, 0, m);
+              // the first channel in the same pass as the process; the others from the process kept in `normals`
+              const [first, ...rest] = r.channels;
+              addProcess(record, first! * n + lo, m, normals, r.weight, specs[s]!.sigma, decay[s]!, innovation[s]!, rest.length > 0);
+              for (const c of rest) {
+                const at = c * n + lo, w = r.weight;
+                for (let j = 0; j < m; j++) record[at + j] += w[at + j]! * normals[j]!;
+              }
             }
           }
         },

@@ -24,10 +24,11 @@
 import type { NoiseInjection, NoiseSourceSpec } from '../../scenario/types.ts';
 import { SEED_BLOCK } from '../../random/streams.ts';
 import {
-  BASE_OVERSAMPLING, flickerFunctionalVariance, makeFlickerTimeline, planFlickerTimeline, type FlickerBand, type FlickerTimeline,
+  BASE_OVERSAMPLING, flickerFunctionalVariance, makeFlickerTimeline, planFlickerTimeline, type FlickerBand,
 } from '../flicker-timeline.ts';
 import { responsePowerGain } from '../response.ts';
 import type { CompiledNoiseKind, KernelPair, KindedValue, NoiseSourceKind } from './contract.ts';
+import { seenThrough, type Realisation } from '../injection.ts';
 import { flickerStreamIndex, MAX_FLICKER_SOURCES } from './stream-layout.ts';
 
 /** A 1/f source as the scenario holds it. */
@@ -84,16 +85,30 @@ export function carryKernel(f: Pick<FlickerGrid, 'index' | 'fraction' | 'width'>
   return g;
 }
 
-/** Per injection point, per pipeline: its I and Q kernels carried onto the window (null where no source enters, or Q at baseband). */
-type Carried = Record<NoiseInjection, { inPhase: Float64Array; quadrature: Float64Array | null }[] | null>;
+/** A pipeline's I and Q kernels carried onto the window (Q null at baseband). */
+type CarriedPair = { inPhase: Float64Array; quadrature: Float64Array | null };
 
-/** record[k] += w[j]·below[k] + w[j + 1]·above[k], j = index[k]: the window interpolated onto the record. */
+/**
+ * One realisation of an injection point's 1/f noise (signal/injection.ts): the sum of that
+ * injection's sources on their timelines of the realisation's lane, entering the record with the
+ * realisation's weights.
+ */
+interface Entry {
+  realisation: Realisation;
+  /** The sources that enter through it. */
+  sources: number[];
+  /** Per record entry: the realisation's weight times the interpolation weights 1 − u_k and u_k. */
+  below: Float64Array;
+  above: Float64Array;
+}
+
+/** record[at + k] += w[j]·below[at + k] + w[j + 1]·above[at + k], j = index[k]: the window interpolated onto channel `at / samples` of the record. */
 function addInterpolatedNoise(
-  record: Float64Array, lo: number, hi: number, w: Float64Array, index: Int32Array, below: Float64Array, above: Float64Array,
+  record: Float64Array, at: number, lo: number, hi: number, w: Float64Array, index: Int32Array, below: Float64Array, above: Float64Array,
 ): void {
   for (let k = lo; k < hi; k++) {
     const j = index[k]!;
-    record[k] += w[j]! * below[k]! + w[j + 1]! * above[k]!;
+    record[at + k] += w[j]! * below[at + k]! + w[j + 1]! * above[at + k]!;
   }
 }
 
@@ -149,7 +164,7 @@ export const flickerKind: NoiseSourceKind<FlickerSourceSpec> = {
   secondsPerSample: (specs) => specs.length * FLICKER_SECONDS_PER_SAMPLE,
 
   compile(specs, point) {
-    const { timing, grid, sensorWeight, gain, synthLo, synthHi } = point;
+    const { timing, grid, synthLo, synthHi } = point;
     const period = timing.shotPeriod;
     const fs = grid.sampleRate;
     const highest = Math.max(...specs.map((s) => s.high));
@@ -176,32 +191,28 @@ export const flickerKind: NoiseSourceKind<FlickerSourceSpec> = {
       fraction[k] = p - j;
     }
     const tables: FlickerGrid = { step, baseRate, offset, width, index, fraction, capacity };
-    const uses = (injection: NoiseInjection) => specs.some((s) => s.injection === injection);
-    const weights = (injection: NoiseInjection, side: 'below' | 'above'): Float64Array | null => {
-      if (!uses(injection)) return null;
-      const w = new Float64Array(n);
-      for (let k = synthLo; k < synthHi; k++) {
-        const g = injection === 'sensor' ? sensorWeight[k]! : gain;
-        w[k] = g * (side === 'below' ? 1 - fraction[k]! : fraction[k]!);
-      }
-      return w;
-    };
-    const below = { sensor: weights('sensor', 'below'), amplifier: weights('amplifier', 'below') };
-    const above = { sensor: weights('sensor', 'above'), amplifier: weights('amplifier', 'above') };
-    const carry = (kernels: readonly KernelPair[]): Carried => {
-      const carried = (injection: NoiseInjection) => {
-        if (!uses(injection)) return null;
-        const weighted = (kernel: Float64Array, lo: number, hi: number) => {
-          const x = new Float64Array(kernel.length);
-          for (let k = lo; k < hi; k++) x[k] = kernel[k]! * (injection === 'sensor' ? sensorWeight[k]! : gain);
-          return carryKernel(tables, x, lo, hi);
-        };
-        return kernels.map((k) => ({ inPhase: weighted(k.inPhase, k.lo, k.hi), quadrature: k.quadrature ? weighted(k.quadrature, k.lo, k.hi) : null }));
-      };
-      return { sensor: carried('sensor'), amplifier: carried('amplifier') };
-    };
+    const entries: Entry[] = INJECTIONS.flatMap((injection) => {
+      const sources = specs.flatMap((s, i) => (s.injection === injection ? [i] : []));
+      if (sources.length === 0) return [];
+      return point.realisations[injection].map((realisation) => {
+        const below = new Float64Array(realisation.weight.length), above = new Float64Array(realisation.weight.length);
+        for (const c of realisation.channels) {
+          const at = c * n, w = realisation.weight;
+          for (let k = synthLo; k < synthHi; k++) {
+            below[at + k] = w[at + k]! * (1 - fraction[k]!);
+            above[at + k] = w[at + k]! * fraction[k]!;
+          }
+        }
+        return { realisation, sources, below, above };
+      });
+    });
+    // per entry, per pipeline: the kernels each realisation sees, carried onto the window
+    const carry = (kernels: readonly KernelPair[]): CarriedPair[][] => entries.map(({ realisation: r }) => kernels.map((k) => ({
+      inPhase: carryKernel(tables, seenThrough(r, k.inPhase, k.lo, k.hi, n), k.lo, k.hi),
+      quadrature: k.quadrature ? carryKernel(tables, seenThrough(r, k.quadrature, k.lo, k.hi, n), k.lo, k.hi) : null,
+    })));
 
-    const compiled = (carried: Carried): CompiledNoiseKind => ({
+    const compiled = (carried: CarriedPair[][]): CompiledNoiseKind => ({
       sources: specs.map((s) => ({
         name: s.name, kind: 'flicker', injection: s.injection, density: Math.sqrt(s.amplitude), densityUnit: '{unit}/√Hz at 1 Hz', origin: `1/f^${s.exponent} on [${s.low}, ${s.high}] Hz`,
       })),
@@ -215,34 +226,33 @@ export const flickerKind: NoiseSourceKind<FlickerSourceSpec> = {
       },
       withKernels: (kernels) => compiled(carry(kernels)),
       runtime(purpose, stream) {
-        const timelines: FlickerTimeline[] = specs.map((_, source) => makeFlickerTimeline(
-          bands[source]!, (band, pair) => stream(flickerStreamIndex(purpose, source, band, pair)),
-        ));
-        const windows: Record<NoiseInjection, Float64Array> = { sensor: new Float64Array(width + 1), amplifier: new Float64Array(width + 1) };
+        // per entry, the timeline of each of its sources on the entry's lane (a source enters one injection point, so no two entries share one)
+        const read = entries.map((e) => e.sources.map((source) => makeFlickerTimeline(
+          bands[source]!, (band, pair) => stream(flickerStreamIndex(purpose, source, band, pair), e.realisation.lane),
+        )));
+        const windows = entries.map(() => new Float64Array(width + 1));
         return {
           shot(shot) {
             // shots beyond the planned ones (auxiliary shots, benchmarks) wrap around the timeline
             const J0 = (shot % capacity) * step + offset;
-            for (const injection of INJECTIONS) {
-              if (!below[injection]) continue;
-              const w = windows[injection];
+            for (let i = 0; i < entries.length; i++) {
+              const w = windows[i]!;
               w.fill(0);
-              specs.forEach((s, i) => { if (s.injection === injection) timelines[i]!.addRange(w, 0, J0, width); });
+              for (const t of read[i]!) t.addRange(w, 0, J0, width);
             }
           },
           addToRecord(record, lo, hi) {
-            for (const injection of INJECTIONS) {
-              const b = below[injection], a = above[injection];
-              if (b && a) addInterpolatedNoise(record, lo, hi, windows[injection], index, b, a);
-            }
+            entries.forEach((e, i) => {
+              for (const c of e.realisation.channels) addInterpolatedNoise(record, c * n, lo, hi, windows[i]!, index, e.below, e.above);
+            });
           },
           value(p, quadrature) {
             let v = 0;
-            for (const injection of INJECTIONS) {
-              const c = carried[injection]?.[p];
-              const g = c ? (quadrature ? c.quadrature : c.inPhase) : null;
+            for (let i = 0; i < entries.length; i++) {
+              const c = carried[i]![p]!;
+              const g = quadrature ? c.quadrature : c.inPhase;
               if (!g) continue;
-              const w = windows[injection];
+              const w = windows[i]!;
               let s0 = 0, s1 = 0;
               let j = 0;
               for (; j + 1 < g.length; j += 2) {

@@ -9,7 +9,9 @@
  *   telegraph (telegraph.ts): bit 23 = 1 | purpose (2) | seeding block (21)
  *
  * `purpose` is the purpose of the shots the noise belongs to: scored, calibration and auxiliary
- * shots each have their own timeline.
+ * shots each have their own timeline. On baseband I and Q the second channel's own realisation of
+ * amplifier-side noise (signal/injection.ts) draws from the second lane of the same index
+ * (random/streams.ts `makeStream(…, lane 1)`), so the layout needs no field for it.
  */
 import type { StreamPurpose } from '../../random/streams.ts';
 import { PAIRS_PER_BAND } from '../flicker-timeline.ts';

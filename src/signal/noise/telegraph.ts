@@ -8,7 +8,9 @@
  * Variance of Σ_k x_k·n(t_k): a²·π(1 − π)·Σ_k Σ_k' x_k x_k' e^(−λ|t_k − t_k'|), π = up/λ,
  * λ = up + down; one-sided spectrum 4a²·π(1 − π)·λ/(λ² + (2πf)²) (Machlup 1954).
  * Steps are not smoothed by the analog response (fluctuators switch far more slowly than any
- * bandwidth of interest).
+ * bandwidth of interest). On baseband I and Q an amplifier-side fluctuator is one per channel
+ * (signal/injection.ts): the second channel's come from a second timeline on the second lanes of
+ * the same streams.
  */
 import type { NoiseInjection, NoiseSourceSpec } from '../../scenario/types.ts';
 import { SEED_BLOCK } from '../../random/streams.ts';
@@ -16,6 +18,7 @@ import { exponentialQuadraticForm } from '../filter-function.ts';
 import { stationaryOccupation } from '../telegraph.ts';
 import { makeTelegraphRecord, makeTelegraphTimeline, type Fluctuator } from '../telegraph-timeline.ts';
 import type { CompiledNoiseKind, KindedValue, NoiseSourceKind } from './contract.ts';
+import type { Realisation } from '../injection.ts';
 import { telegraphStreamIndex } from './stream-layout.ts';
 
 /** A fluctuator as the scenario holds it. */
@@ -81,8 +84,9 @@ export const telegraphKind: NoiseSourceKind<TelegraphSourceSpec> = {
   compile(specs, point) {
     const fluctuators: Fluctuator[] = specs.map((t) => ({ amplitude: t.amplitude, rateUp: t.rateUp, rateDown: t.rateDown }));
     const injections: NoiseInjection[] = specs.map((t) => t.injection);
-    const { sensorWeight, gain, timing } = point;
+    const { timing } = point;
     const sampleRate = point.grid.sampleRate;
+    const n = point.grid.samples;
     const kind: CompiledNoiseKind = {
       sources: specs.map((t) => ({
         name: t.name, kind: 'telegraph', injection: t.injection, density: t.amplitude, densityUnit: '{unit}',
@@ -111,37 +115,43 @@ export const telegraphKind: NoiseSourceKind<TelegraphSourceSpec> = {
       },
       withKernels: () => kind,
       runtime(purpose, stream) {
-        const timeline = makeTelegraphTimeline(
+        // one timeline per lane a realisation draws from (the second: the second channel's amplifier-side fluctuators)
+        const lanes = Math.max(...injections.map((inj) => Math.max(...point.realisations[inj].map((r) => r.lane)))) + 1;
+        const timelines = Array.from({ length: lanes }, (_, lane) => makeTelegraphTimeline(
           fluctuators, { period: timing.shotPeriod, recordLength: timing.recordLength, shotsPerBlock: SEED_BLOCK },
-          (block) => stream(telegraphStreamIndex(purpose, block)),
-        );
-        const r = makeTelegraphRecord(fluctuators.length);
+          (block) => stream(telegraphStreamIndex(purpose, block), lane),
+        ));
+        const records = timelines.map(() => makeTelegraphRecord(fluctuators.length));
+        // per lane, per fluctuator: the realisation that lane carries (null: its switches there are skipped)
+        const carriedBy: (Realisation | null)[][] = records.map((_, lane) => injections.map((inj) => point.realisations[inj].find((r) => r.lane === lane) ?? null));
         return {
           shot(shot) {
-            timeline.record(shot, r);
+            for (let lane = 0; lane < lanes; lane++) timelines[lane]!.record(shot, records[lane]!);
           },
           addToRecord(record, lo, hi) {
-            let e = 0;
-            for (let fi = 0; fi < fluctuators.length; fi++) {
-              const a = fluctuators[fi]!.amplitude;
-              const sensor = injections[fi] === 'sensor';
-              let state = r.start[fi]!;
-              let k = lo;
-              for (;;) {
-                const switching = e < r.count && r.which[e] === fi;
-                const until = switching ? Math.min(hi, Math.max(lo, Math.ceil(r.times[e]! * sampleRate))) : hi;
-                if (state === 1 && until > k) {
-                  if (sensor) {
-                    for (let q = k; q < until; q++) record[q] += a * sensorWeight[q]!;
-                  } else {
-                    const v = a * gain;
-                    for (let q = k; q < until; q++) record[q] += v;
+            for (let lane = 0; lane < lanes; lane++) {
+              const r = records[lane]!;
+              let e = 0;
+              for (let fi = 0; fi < fluctuators.length; fi++) {
+                const realisation = carriedBy[lane]![fi]!;
+                const a = fluctuators[fi]!.amplitude;
+                let state = r.start[fi]!;
+                let k = lo;
+                for (;;) {
+                  const switching = e < r.count && r.which[e] === fi;
+                  const until = switching ? Math.min(hi, Math.max(lo, Math.ceil(r.times[e]! * sampleRate))) : hi;
+                  if (realisation && state === 1 && until > k) {
+                    const w = realisation.weight;
+                    for (const c of realisation.channels) {
+                      const at = c * n;
+                      for (let q = at + k; q < at + until; q++) record[q] += a * w[q]!;
+                    }
                   }
+                  if (until > k) k = until;
+                  if (!switching) break;
+                  state = 1 - state;
+                  e++;
                 }
-                if (until > k) k = until;
-                if (!switching) break;
-                state = 1 - state;
-                e++;
               }
             }
           },
