@@ -33,13 +33,18 @@ export interface PipelineCalibration {
   model: unknown;
 }
 
-/** What calibration reads of a compiled point (engine/compile-point.ts's CompiledPoint has it all). */
-export interface CalibrationView extends DeviceView {
+/** What calibration reads of a point: its states' outcomes and its pipelines (engine/compile-point.ts's CompiledPoint has it all). */
+export interface CalibrationView {
+  scenario: { states: readonly { outcome: number }[] };
   pipelines: readonly { spec: PipelineSpec; chain: PipelineChain; kernels: { quadrature: Float64Array | null } }[];
 }
 
-/** Calibrates every pipeline of a point from its calibration batches. */
-export function calibrate(point: CalibrationView, batches: readonly ShotColumns[]): PipelineCalibration[] {
+/**
+ * Calibrates every pipeline of a point from its calibration batches. `device` is the simulated
+ * device a classifier may start its model from; null for recorded traces (analyze), whose
+ * "states" are the two labelled outcomes.
+ */
+export function calibrate(point: CalibrationView, batches: readonly ShotColumns[], device: DeviceView | null): PipelineCalibration[] {
   const outcomeOf = point.scenario.states.map((s) => s.outcome);
   return point.pipelines.map((pipeline, p) => {
     const axis = calibrationAxis(pipeline, p, batches, outcomeOf);
@@ -52,7 +57,7 @@ export function calibrate(point: CalibrationView, batches: readonly ShotColumns[
     if (classifier.readsBins || chain.weights !== 'boxcar') {
       const records = gatherRecords(spec.name, chain, p, outcomeOf, batches, axis);
       if (classifier.readsBins) {
-        model = classifier.fit!(records, chain, axis, point);
+        model = classifier.fit!(records, chain, axis, device);
         const statistic = classifier.statistic!(model);
         values = new Float64Array(records.count);
         for (let i = 0; i < records.count; i++) values[i] = statistic(records.projected, i * records.bins, records.bins);

@@ -72,7 +72,7 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
     if (pending.length === 0) return;
     const i = pending[0]!.point;
     const uncalibrated = compilePoint(points[i]!.scenario);
-    results.push(setUpPoint(i, points[i]!, calibrate(uncalibrated, pending), uncalibrated));
+    results.push(setUpPoint(i, points[i]!, calibrate(uncalibrated, pending, uncalibrated), uncalibrated));
     pending = [];
   };
   for await (const b of executor.run(calibrationPlans, calibrationTasks)) {

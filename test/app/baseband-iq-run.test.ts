@@ -35,11 +35,11 @@ describe('the baseband I and Q demo', () => {
     expect(json.points[0]!.agreement).toBe(true);
     expect(Math.abs(json.points[0]!.snr / json.points[0]!.analyticSnr - 1)).toBeLessThan(0.05);
     const page = readFileSync(join(out, 'report.html'), 'utf8');
-    // histogram, raw records, demodulated records (no sweep)
-    expect(page.match(/<svg[^>]*class="marks"/g) ?? []).toHaveLength(3);
+    // histogram, IQ plane, raw records, demodulated records (no sweep; no carrier to zoom on)
+    expect(page.match(/<svg[^>]*class="marks"/g) ?? []).toHaveLength(4);
     expect(page).toContain('I channel');
     expect(page).toContain('Q channel');
-    expect(page).toContain('The digitised I and Q channels as synthesised');
+    expect(page).toContain('the digitised I and Q channels as synthesised');
     expect((await buildReport(out)).warnings).toEqual([]);
   }, 120_000);
 });

@@ -34,7 +34,7 @@ describe('likelihood calibration (baseband, block average of D = 10)', () => {
     sc.pipelines = [{ name: 'hmm', referencePhase: 'auto', threshold: { method: 'midpoint', value: 0 }, classifier: 'likelihood', decimate: 10 }];
     const point = compilePoint(sc);
     const batch = simulateBatch(point, 0, 'calibrate', 0, 4096, makeScratch(point));
-    const cal = calibrate(point, [batch])[0]!;
+    const cal = calibrate(point, [batch], point)[0]!;
     const sigma = 2 / Math.sqrt(10);
     const stored = cal.model as HmmClassifierSpec;
     expect(Math.abs(stored.sigma / sigma - 1), `σ per bin ${stored.sigma} vs ${sigma}`).toBeLessThan(0.02);

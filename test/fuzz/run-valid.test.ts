@@ -31,7 +31,7 @@ const CHEAP_SECONDS = 0.4;
  * - the optimal threshold is ±∞ (never NaN) when the best rule reports one outcome for every
  *   calibration shot (e.g. a mapping error of probability 1), as optimalThreshold documents.
  */
-const ALLOWED_NON_FINITE = /^(states\.\d+\.(error\.(rate|low|high)|assignment\.\d+|causes\.\d+\.(simulated|wide)\.(rate|low|high))|(snr|sigma|analyticSnr|analyticSigma))$/;
+const ALLOWED_NON_FINITE = /^(states\.\d+\.(error\.(rate|low|high)|assignment\.\d+|causes\.\d+\.(simulated|wide)\.(rate|low|high))|(snr|sigma|analyticSnr|analyticSigma)|outcomeValues\.\d+\.(mean|sigma))$/;
 
 /** Paths of non-finite summary numbers that the rules above do not explain. */
 function unexplainedNonFinite(summary: object, zeroShot: Set<number>, noiseFree: boolean, fewClean: boolean): string[] {
@@ -42,7 +42,8 @@ function unexplainedNonFinite(summary: object, zeroShot: Set<number>, noiseFree:
       if (!ALLOWED_NON_FINITE.test(path)) return true;
       const state = /^states\.(\d+)\./.exec(path);
       if (state) return !zeroShot.has(Number(state[1]));
-      if (path === 'snr' || path === 'sigma') return !(noiseFree || fewClean);
+      // an outcome whose states have fewer than two clean shots has no clean centre or spread
+      if (path === 'snr' || path === 'sigma' || path.startsWith('outcomeValues.')) return !(noiseFree || fewClean);
       return !noiseFree;
     });
 }

@@ -61,6 +61,16 @@ describe('every problem of a file at once', () => {
     }
   });
 
+  it('complex levels without a carrier beside a bad lifetime: both, in the order of the file', async () => {
+    const file = 'test/fixtures/messages/complex-levels-and-a-bad-lifetime.yaml';
+    const r = await runCli(['check', file]);
+    expect(r.code).toBe(2);
+    expect(r.stderr.trimEnd().split('\n'), r.stderr).toEqual([
+      `singleshot: ${file}: states[0].level: expected a real level (complex levels need a carrier, or signal.carrier: baseband-iq for I and Q recorded as two baseband channels), found a mapping`,
+      `singleshot: ${file}: transitions[0].lifetime: expected a time > 0, found "-3 us"`,
+    ]);
+  });
+
   it('schema problems and section problems together, in the order of the document', () => {
     const doc = base();
     doc.shots = 'many';                                     // schema: not an integer
