@@ -1,85 +1,92 @@
 /**
- * `singleshot analyze TRACES.arrow --pipeline FILE --out DIR [--labels COLUMN]` as a library
- * function: run one pipeline (analyze-pipeline.ts) on the records of an Arrow table
- * (record-table.ts), calibrate it (stored calibration, labelled rows, or nothing), decide every
- * other row, score against a label column if given, and write shots.arrow, summary.arrow and
- * run.json like `run`. Calibration rows are never scored.
+ * `singleshot analyze RECORDS --out DIR [--pipeline FILE] [--labels LABELS]` as a library
+ * function: a lab's records (any format io/records/open.ts reads: Arrow, Parquet, .npy/.npz,
+ * HDF5; real, or complex I and Q) through one pipeline exactly as a run decides simulated shots
+ * (run/analyze-records.ts), written as a run writes its folder: shots.arrow, summary.arrow in the
+ * run's columns and meanings, noise.arrow (the records' noise spectrum), traces.arrow (a few
+ * example records) and run.json; `singleshot report` reads the folder.
  *
- * Each record goes through the honest per-record chain (plan/process.ts): demodulate, filter
- * from rest, decimate, weight — so a pipeline run here on traces written by
- * `run --keep-traces raw` with the run's stored calibration reproduces the run's outcomes shot
- * for shot (the Float32 rounding of the records moves a value by ~1e−7 of its size, which only
- * flips a shot lying that close to the threshold).
+ * The pipeline file is optional: without one the pipeline is the scenario default (boxcar over
+ * the record window, reference phase `auto`, midpoint threshold). A pipeline that must be
+ * calibrated (auto phase on a carrier or on I and Q, a calibrated threshold, matched or optimal
+ * weights, a classifier with a model) calibrates on the first 20 % of the labelled rows (the
+ * pipeline file's `calibration: {labels, fraction}` says otherwise), or on the calibration a run
+ * stored with its traces (`calibration: stored`); calibration rows are never in the summary.
+ *
+ * Each record goes through the honest per-record chain (dsp/process-record.ts), so a pipeline run
+ * here on traces written by `run --keep-traces raw`, with the run's stored calibration, reproduces
+ * the run's outcomes shot for shot (the Float32 rounding of the records moves a value by ~1e−7 of
+ * its size, which flips only a shot lying that close to the threshold).
  */
 import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { tableToIPC, Bool, Float64, makeData, RecordBatch, Schema, Struct, Uint32, type Table } from 'apache-arrow';
+import { tableToIPC } from 'apache-arrow';
 import { InputError } from '../errors.ts';
 import { makeGrid } from '../signal/grid.ts';
-import { compileChain, type PipelineChain } from '../dsp/pipeline-chain.ts';
-import { integrateBins, makeProcessScratch, processRecord } from '../dsp/process-record.ts';
-import { projectRecords } from '../classify/project.ts';
-import { separationAxis, type Axis } from '../classify/project.ts';
-import { classifyByThreshold, midpointThreshold, optimalThreshold, type ThresholdRule } from '../classify/threshold.ts';
-import { weightsFromLabelled } from '../classify/labelled-weights.ts';
-import { wilsonInterval, type RateInterval } from '../analysis/intervals.ts';
-import { REPORT_CONFIDENCE } from '../analysis/summary.ts';
-import { readPipelineFile, resolveAnalysis, type ResolvedAnalysis } from '../scenario/pipeline-file.ts';
-import { labelColumn, metadataNumber, optionalIntegerColumn, readArrowTable, recordColumn, type RecordColumn } from '../io/record-table.ts';
-import type { StoredCalibration } from '../io/tables/traces.ts';
-import { ArrowFileStream } from '../io/arrow-sink.ts';
-import { boolData, dictionaryData, float64Data, makeDictionaryColumn, uint32Data, unitField } from '../io/arrow-columns.ts';
+import { compileChain } from '../dsp/pipeline-chain.ts';
+import { analyzeRecords, type CalibrationPlan, type RecordAnalysis } from '../run/analyze-records.ts';
+import { recordsSpectrum } from '../engine/recorded/spectrum.ts';
+import { classifierOf } from '../classify/registry.ts';
+import type { PipelineCalibration } from '../classify/calibrate.ts';
+import type { PointSummary } from '../analysis/summary.ts';
+import { defaultPipelineFile, readPipelineFile, resolveAnalysis, type AnalyzeFile, type ResolvedAnalysis } from '../scenario/pipeline-file.ts';
+import { locateRecords, openLabels, openRecords } from '../io/records/open.ts';
+import type { LabelSet, RecordSet } from '../io/records/record-set.ts';
+import { storedCalibrationOf } from '../io/records/stored-calibration.ts';
+import { writeRecordedShots } from '../io/tables/recorded-shots.ts';
+import { writeRecordedNoise, writeExampleRecords } from '../io/tables/recorded-records.ts';
+import { summaryColumns } from '../io/tables/summary.ts';
 import { buildTable } from '../io/tables/columns.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
-import { writeManifest } from '../io/manifest.ts';
-import { META_PREFIX, tableMetadata, type RunProvenance } from '../io/metadata.ts';
+import { writeAnalysisManifest } from '../io/manifest.ts';
+import { analysisMetadata } from '../io/metadata.ts';
 import { prepareOutputDir } from '../io/output-dir.ts';
-import { CLASSIFIERS } from '../classify/registry.ts';
+import { join } from 'node:path';
 
 export interface AnalyzeOptions {
-  tracesPath: string;
-  pipelinePath: string;
-  outDir: string;
-  /** Label column to score against (outcome labels per row). */
+  /** The records: FILE or FILE:NAME (io/records/open.ts). */
+  records: string;
+  /** The pipeline file (YAML or JSON); absent: the default pipeline. */
+  pipelinePath?: string;
+  /** Labels to score against: a file (FILE or FILE:NAME) or a NAME in the records' file. */
   labels?: string;
+  /** Signal units per stored unit (e.g. volts per ADC count); default 1 (times the file's own scale). */
+  scale?: number;
+  /** The records' sample rate (Hz), where neither the pipeline file nor the file says it. */
+  sampleRate?: number;
+  /** The records' carrier (Hz), where neither the pipeline file nor the file says it; 0 for none. */
+  carrierFrequency?: number;
+  outDir: string;
   force?: boolean;
+  /** Aborting it stops the analysis between batches of records (RunInterrupted). */
+  signal?: AbortSignal;
 }
 
-/** The decision of every row (255 where the row calibrated and was not scored). */
 export interface AnalyzeResult {
   pipeline: string;
+  /** The pipeline's classifier. */
+  classifier: string;
+  source: string;
   rows: number;
+  complex: boolean;
+  /** Rows used to calibrate (decided, never in the summary). */
   calibrationRows: number;
+  /** Labelled rows in the summary. */
+  scoredRows: number;
+  /** How the pipeline was calibrated, in words. */
+  calibratedBy: string;
+  bins: number;
+  referencePhase: number;
+  calibration: PipelineCalibration;
+  /** The run's summary of the scored rows (null without labels). */
+  summary: PointSummary | null;
+  outcomes: readonly [string, string];
+  /** The unit of the integrated values ('' for plain numbers). */
+  unit: string;
   outcome: Uint8Array;
   value: Float64Array;
+  /** 1 where the row fell inside the ambiguous band. */
   discarded: Uint8Array;
-  /** Scoring against labels, when --labels was given. */
-  scores: AnalyzeScores | null;
-  rule: ThresholdRule;
-  axis: Axis;
-  bins: number;
   files: string[];
-}
-
-/** Errors against the label column among the scored, labelled rows. */
-export interface AnalyzeScores {
-  shots: number;
-  errors: number;
-  error: RateInterval;
-  byOutcome: { outcome: string; shots: number; errors: number; error: RateInterval }[];
-  discarded: number;
-  discardFraction: number;
-  postSelectedError: RateInterval;
-  discardsAsFailuresError: RateInterval;
-}
-
-/** How the pipeline is calibrated for this table. */
-interface Calibration {
-  axis: Axis;
-  rule: ThresholdRule;
-  weights: Float64Array;
-  bandHalfWidth: number;
-  referencePhase: number;
 }
 
 function readText(path: string): string {
@@ -91,292 +98,145 @@ function readText(path: string): string {
   }
 }
 
-function metadataOutcomes(table: Table): string[] | null {
-  const text = table.schema.metadata.get(`${META_PREFIX}outcomes`);
-  if (text === undefined) return null;
-  try {
-    const v: unknown = JSON.parse(text);
-    return Array.isArray(v) && v.length === 2 ? v.map(String) : null;
-  } catch {
-    return null;
-  }
+/** Whether the pipeline decides with anything a calibration must supply. */
+function needsCalibration(r: ResolvedAnalysis, complex: boolean): string | null {
+  const p = r.pipeline;
+  if (p.referencePhase === 'auto' && (r.carrierFrequency > 0 || complex)) return 'referencePhase: auto (the separation axis)';
+  if (p.threshold.method !== 'fixed' && !classifierOf(p).readsBins) return `threshold: ${p.threshold.method}`;
+  if ((p.weights ?? 'boxcar') !== 'boxcar') return `weights: ${p.weights}`;
+  if (classifierOf(p).readsBins) return `classifier: ${classifierOf(p).name}`;
+  if (p.ambiguousBand?.kind === 'fraction') return 'ambiguousBand: {fraction} (a fraction of the calibrated separation)';
+  return null;
 }
 
-/** Runs the analysis and writes the tables; see the file comment. */
+/** Labels checked against the records: one per row. */
+function checkedLabels(set: LabelSet, records: RecordSet): LabelSet {
+  if (set.values.length !== records.rows) {
+    throw new InputError(set.source, '', `${records.rows} labels, one per record of ${records.source}`, `${set.values.length}`);
+  }
+  return set;
+}
+
+/** The first `fraction` of the labelled rows of `labels`. */
+function firstLabelledRows(labels: Uint8Array, fraction: number): Uint8Array {
+  const rows = new Uint8Array(labels.length);
+  const labelled: number[] = [];
+  for (let r = 0; r < labels.length; r++) if (labels[r] !== 255) labelled.push(r);
+  const take = Math.ceil(fraction * labelled.length);
+  for (let j = 0; j < take; j++) rows[labelled[j]!] = 1;
+  return rows;
+}
+
+/** Runs the analysis and writes the folder; see the file comment. */
 export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResult> {
-  const file = readPipelineFile(readText(o.pipelinePath), o.pipelinePath);
-  const table = readArrowTable(o.tracesPath);
-  const columnName = file.doc.column ?? 'record';
-  const records = recordColumn(o.tracesPath, table, columnName);
-  const meta = (k: string) => metadataNumber(table, `${META_PREFIX}${k}`);
-  const resolved = resolveAnalysis(file, {
-    samples: records.samples, sampleRate: meta('sample_rate'), carrierFrequency: meta('carrier_frequency'),
-    carrierPhase: meta('carrier_phase'), windowStart: meta('window_start'), windowLength: meta('window_length'),
-  }, o.tracesPath, columnName);
-  const outcomes = (file.doc.outcomes?.map(String) ?? metadataOutcomes(table) ?? null);
-  const scoreLabels = o.labels === undefined ? null : labelColumn(o.tracesPath, table, o.labels, outcomes);
-  const grid = { ...makeGrid(resolved.timing), samples: records.samples };
-
-  const calibrationRows = new Uint8Array(records.rows);
-  let calibration: (chain: PipelineChain) => Calibration;
-  let referencePhase: number;
-  const spec = resolved.pipeline;
-  const cal = file.doc.calibration;
-  if (cal === 'stored') {
-    const stored = storedFor(o.tracesPath, table, spec.name, file.doc.name !== undefined);
-    referencePhase = stored.referencePhase;
-    calibration = (chain) => {
-      if (stored.weights !== null && stored.weights.length !== chain.bins) {
-        throw new InputError(o.pipelinePath, 'calibration', `the pipeline of the stored calibration (its "${stored.name}" has ${stored.weights.length} weights, this file gives ${chain.bins} bins: use the run's filter, decimate and window)`, '"stored"');
-      }
-      return {
-        axis: { cos: Math.cos(stored.axisAngle), sin: Math.sin(stored.axisAngle) },
-        rule: { threshold: stored.threshold, highIsOne: stored.highIsOne },
-        weights: stored.weights ? Float64Array.from(stored.weights) : chain.binWeights,
-        bandHalfWidth: stored.bandHalfWidth, referencePhase,
-      };
-    };
-  } else if (cal !== undefined) {
-    const labels = labelColumn(o.tracesPath, table, cal.labels, outcomes);
-    const labelled: number[] = [];
-    for (let r = 0; r < records.rows; r++) if (labels[r] !== 255) labelled.push(r);
-    const take = Math.ceil((cal.fraction ?? 0.2) * labelled.length);
-    for (let j = 0; j < take; j++) calibrationRows[labelled[j]!] = 1;
-    referencePhase = spec.referencePhase === 'auto' ? resolved.carrierPhase : spec.referencePhase;
-    calibration = (chain) => calibrateOnRows(o.tracesPath, cal.labels, records, chain, labels, calibrationRows, spec.threshold, referencePhase, resolved);
-  } else {
-    if (spec.referencePhase === 'auto' || spec.threshold.method !== 'fixed' || (spec.weights ?? 'boxcar') !== 'boxcar') {
-      throw new InputError(o.pipelinePath, 'calibration', 'a calibration ("stored" or {labels: COLUMN}) unless the pipeline has a fixed threshold, a fixed referencePhase and boxcar weights', 'none');
-    }
-    if (spec.ambiguousBand?.kind === 'fraction') throw new InputError(o.pipelinePath, 'ambiguousBand', '{width: level} without a calibration (a fraction needs calibrated means)', 'fraction');
-    referencePhase = spec.referencePhase;
-    calibration = (chain) => ({
-      axis: { cos: 1, sin: 0 }, rule: { threshold: spec.threshold.value, highIsOne: true }, weights: chain.binWeights,
-      bandHalfWidth: spec.ambiguousBand ? spec.ambiguousBand.value / 2 : 0, referencePhase,
-    });
-  }
-  const chain = compileChain(spec, grid, { frequency: resolved.carrierFrequency, channels: 1 }, referencePhase);
-  const c = calibration(chain);
-
-  // decide every row that did not calibrate
-  const scratch = makeProcessScratch(chain, records.samples);
-  const record = new Float64Array(records.samples);
-  const binsI = new Float64Array(chain.bins), binsQ = new Float64Array(chain.bins);
-  const n = records.rows;
-  const inPhase = new Float64Array(n), quadrature = new Float64Array(n), value = new Float64Array(n).fill(NaN);
-  const outcome = new Uint8Array(n).fill(255), discarded = new Uint8Array(n);
-  for (let r = 0; r < n; r++) {
-    if (calibrationRows[r]) continue;
-    processRecord(chain, records.row(r, record), scratch, binsI, binsQ, 0);
-    inPhase[r] = integrateBins(binsI, 0, c.weights);
-    quadrature[r] = chain.reference ? integrateBins(binsQ, 0, c.weights) : 0;
-    value[r] = inPhase[r]! * c.axis.cos + quadrature[r]! * c.axis.sin;
-    outcome[r] = classifyByThreshold(value[r]!, c.rule.threshold, c.rule.highIsOne);
-    discarded[r] = Math.abs(value[r]! - c.rule.threshold) < c.bandHalfWidth ? 1 : 0;
-  }
-  const scores = scoreLabels ? scoreRows(scoreLabels, outcome, discarded, outcomes ?? ['0', '1']) : null;
-
-  // tables
-  prepareOutputDir(o.outDir, o.force ?? false);
-  const provenance: RunProvenance = { scenario: file.canonical, seed: 0, engine: 'analyze', shard: '1/1' };
-  const files: string[] = [];
-  writeManifest(o.outDir, { complete: false, seed: 0, engine: 'analyze', shard: '1/1', files, scenario: file.canonical });
-  writeShots(join(o.outDir, 'shots.arrow'), tableMetadata('shots', provenance), outcomes ?? ['0', '1'], spec.name,
-    { inPhase, quadrature, value, outcome, discarded, labels: scoreLabels, calibrationRows });
-  files.push('shots.arrow');
-  const summary = buildTable(summaryColumns(spec.name, n, calibrationRows, chain, c, scores), tableMetadata('summary', provenance));
-  writeFileAtomic(join(o.outDir, 'summary.arrow'), tableToIPC(summary, 'file'));
-  files.push('summary.arrow');
-  writeManifest(o.outDir, { complete: true, seed: 0, engine: 'analyze', shard: '1/1', files, scenario: file.canonical });
-  const calibrated = calibrationRows.reduce((a, x) => a + x, 0);
-  return { pipeline: spec.name, rows: n, calibrationRows: calibrated, outcome, value, discarded, scores, rule: c.rule, axis: c.axis, bins: chain.bins, files };
-}
-
-/** The stored calibration of pipeline `name` (point 0 when the table mixes points). */
-function storedFor(path: string, table: Table, name: string, named: boolean): StoredCalibration['pipelines'][number] {
-  const text = table.schema.metadata.get(`${META_PREFIX}calibration`);
-  let stored: StoredCalibration[] | null = null;
+  const file: AnalyzeFile = o.pipelinePath === undefined ? defaultPipelineFile() : readPipelineFile(readText(o.pipelinePath), o.pipelinePath);
+  // a pipeline file's column names the records in a table that the argument does not name
+  const spec = file.doc.column !== undefined && locateRecords(o.records).inner === undefined ? `${o.records}:${file.doc.column}` : o.records;
+  const records = await openRecords(spec, o.scale ?? 1);
   try {
-    stored = text === undefined ? null : (JSON.parse(text) as StoredCalibration[]);
-  } catch {
-    stored = null;
+    return await analyzeOpen(o, file, records);
+  } finally {
+    records.close();
   }
-  if (!stored || !Array.isArray(stored) || stored.length === 0 || !Array.isArray(stored[0]!.pipelines)) {
-    throw new InputError(path, `metadata ${META_PREFIX}calibration`, 'a stored calibration (written by run --keep-traces)', 'none');
-  }
-  const points = optionalIntegerColumn(table, 'point');
-  if (points && points.some((p) => p !== points[0]) && stored.length > 1) {
-    throw new InputError(path, 'column "point"', 'records of one sweep point (each point has its own calibration)', 'several points');
-  }
-  const point = stored.find((s) => s.point === (points?.[0] ?? stored![0]!.point)) ?? stored[0]!;
-  const list = point.pipelines;
-  const found = list.find((p) => p.name === name) ?? (!named && list.length === 1 ? list[0] : undefined);
-  if (!found) throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a calibration of pipeline "${name}" (stored: ${list.map((p) => `"${p.name}"`).join(', ')}); set name in the pipeline file`, 'none');
-  const classifier = CLASSIFIERS.find((k) => k.name === found.classifier);
-  if (!classifier || classifier.readsBins) {
-    throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a pipeline that decides on its integrated value ("${found.name}" uses the ${found.classifier} classifier)`, found.classifier);
-  }
-  return found;
 }
 
-/** Calibrates on the flagged rows from their labels (see the file comment of analyze-pipeline.ts). */
-function calibrateOnRows(
-  path: string, labelName: string, records: RecordColumn, chain0: PipelineChain, labels: Uint8Array, rows: Uint8Array,
-  threshold: ResolvedAnalysis['pipeline']['threshold'], referencePhase: number, resolved: ResolvedAnalysis,
-): Calibration {
-  const chain = chain0;
-  const picked: number[] = [];
-  for (let r = 0; r < rows.length; r++) if (rows[r]) picked.push(r);
-  const count = picked.length;
-  const bins = chain.bins;
-  const binsI = new Float64Array(count * bins), binsQ = chain.reference ? new Float64Array(count * bins) : null;
-  const scratch = makeProcessScratch(chain, records.samples);
-  const record = new Float64Array(records.samples);
-  const calLabels = new Uint8Array(count);
-  picked.forEach((r, j) => {
-    processRecord(chain, records.row(r, record), scratch, binsI, binsQ, j * bins);
-    calLabels[j] = labels[r]!;
+async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: RecordSet): Promise<AnalyzeResult> {
+  const at = records.attributes;
+  const resolved = resolveAnalysis(file, {
+    samples: records.samples, sampleRate: o.sampleRate ?? at.sampleRate ?? null,
+    carrierFrequency: o.carrierFrequency ?? (records.complex ? 0 : at.carrierFrequency ?? null), carrierPhase: at.carrierPhase ?? null,
+    windowStart: at.windowStart ?? null, windowLength: at.windowLength ?? null,
+  }, records.source);
+  if (records.complex && resolved.carrierFrequency > 0) {
+    throw new InputError(file.file, 'carrier', 'no carrier for complex records (I and Q are baseband channels, already demodulated)', `${resolved.carrierFrequency} Hz`);
+  }
+  const givenOutcomes = file.doc.outcomes?.map(String) ?? null;
+  const score = o.labels === undefined ? null : checkedLabels(await openLabels(o.labels, records.source, givenOutcomes), records);
+  const cal = file.doc.calibration;
+  const calibrationLabels = cal !== undefined && cal !== 'stored' ? checkedLabels(await openLabels(cal.labels, records.source, givenOutcomes), records) : null;
+  const named = score ?? calibrationLabels;
+  const outcomes = (givenOutcomes ?? named?.names ?? ['0', '1']) as [string, string];
+  const grid = { ...makeGrid(resolved.timing), samples: records.samples };
+  const carrier = { frequency: resolved.carrierFrequency, phase: resolved.carrierPhase, channels: records.complex ? 2 : 1 };
+
+  // how the pipeline is calibrated
+  let plan: CalibrationPlan;
+  let calibratedBy: string;
+  const needs = needsCalibration(resolved, records.complex);
+  if (cal === 'stored') {
+    const stored = storedCalibrationOf(records, resolved.pipeline.name, file.doc.name !== undefined);
+    const bins = compileChain(resolved.pipeline, grid, carrier, stored.referencePhase).bins;
+    if (stored.calibration.weights !== null && stored.calibration.weights.length !== bins) {
+      throw new InputError(file.file, 'calibration', `the pipeline of the stored calibration (its "${stored.name}" has ${stored.calibration.weights.length} weights, this pipeline gives ${bins} bins: use the run's filter, decimate and window)`, '"stored"');
+    }
+    plan = { kind: 'given', calibration: stored.calibration, referencePhase: stored.referencePhase };
+    calibratedBy = `the calibration stored with the records (pipeline "${stored.name}")`;
+  } else if (calibrationLabels || (needs !== null && score)) {
+    const labels = (calibrationLabels ?? score)!;
+    const fraction = cal !== undefined ? cal.fraction ?? 0.2 : 0.2;
+    plan = { kind: 'rows', rows: firstLabelledRows(labels.values, fraction) };
+    calibratedBy = `the first ${Math.round(fraction * 100)} % of the rows labelled in ${labels.source}`;
+  } else if (needs !== null) {
+    throw new InputError(file.file, 'calibration', `a calibration for ${needs}: labels (--labels, or calibration: {labels: …} in a pipeline file) or "stored"; or a pipeline that needs none (fixed threshold, fixed referencePhase, boxcar weights)`, 'none');
+  } else {
+    const p = resolved.pipeline;
+    plan = {
+      kind: 'given', referencePhase: p.referencePhase as number,
+      calibration: {
+        axis: { cos: 1, sin: 0 }, rule: { threshold: p.threshold.value, highIsOne: true }, outcomeMeans: [NaN, NaN], weights: null,
+        bandHalfWidth: p.ambiguousBand ? p.ambiguousBand.value / 2 : 0, model: null,
+      },
+    };
+    calibratedBy = 'nothing (a fixed threshold on I of a fixed reference phase)';
+  }
+
+  const analysis = await analyzeRecords({
+    source: records, labels: score?.values ?? null, outcomes, spec: resolved.pipeline, grid, carrier, plan, signal: o.signal,
   });
-  // axis from the mean I/Q of each label (the boxcar over the bins)
-  const sums = [[0, 0, 0], [0, 0, 0]];
-  for (let j = 0; j < count; j++) {
-    const s = sums[calLabels[j]!]!;
-    s[0]! += integrateBins(binsI, j * bins, chain.binWeights);
-    s[1]! += binsQ ? integrateBins(binsQ, j * bins, chain.binWeights) : 0;
-    s[2]!++;
-  }
-  if (sums[0]![2] === 0 || sums[1]![2] === 0) {
-    throw new InputError(path, `column "${labelName}"`, 'calibration rows of both outcomes (raise calibration.fraction or check the labels)', `only outcome ${sums[0]![2] === 0 ? 1 : 0}`);
-  }
-  const axis = binsQ === null ? { cos: 1, sin: 0 }
-    : separationAxis(sums[0]![0]! / sums[0]![2]!, sums[0]![1]! / sums[0]![2]!, sums[1]![0]! / sums[1]![2]!, sums[1]![1]! / sums[1]![2]!);
-  const projected = projectRecords(binsI, binsQ, axis);
-  let weights = chain.binWeights;
-  if (chain.weights !== 'boxcar') {
-    try {
-      weights = weightsFromLabelled(chain.weights, projected, bins, calLabels);
-    } catch (e) {
-      throw new InputError(path, `column "${labelName}"`, `enough calibration rows for ${chain.weights} weights over ${bins} bins`, (e as Error).message);
-    }
-  }
-  const values: [number[], number[]] = [[], []];
-  for (let j = 0; j < count; j++) values[calLabels[j]!]!.push(integrateBins(projected, j * bins, weights));
-  const mean = (v: number[]) => v.reduce((a, x) => a + x, 0) / v.length;
-  const m0 = mean(values[0]), m1 = mean(values[1]);
-  let rule: ThresholdRule;
-  if (threshold.method === 'midpoint') rule = midpointThreshold(m0, m1);
-  else if (threshold.method === 'fixed') rule = { threshold: threshold.value, highIsOne: m1 >= m0 };
-  else {
-    const best = optimalThreshold(Float64Array.from(values[0]), Float64Array.from(values[1]));
-    rule = { threshold: best.threshold, highIsOne: best.highIsOne };
-  }
-  const band = resolved.pipeline.ambiguousBand ?? null;
-  const bandHalfWidth = band === null ? 0 : band.kind === 'width' ? band.value / 2 : (band.value * Math.abs(m1 - m0)) / 2;
-  return { axis, rule, weights, bandHalfWidth, referencePhase };
-}
-
-function scoreRows(labels: Uint8Array, outcome: Uint8Array, discarded: Uint8Array, outcomeNames: readonly string[]): AnalyzeScores {
-  const shots = [0, 0], errors = [0, 0];
-  let disc = 0, discWrong = 0;
-  for (let r = 0; r < labels.length; r++) {
-    const l = labels[r]!;
-    if (l > 1 || outcome[r] === 255) continue;
-    shots[l]!++;
-    const wrong = outcome[r] !== l;
-    if (wrong) errors[l]!++;
-    if (discarded[r]) {
-      disc++;
-      if (wrong) discWrong++;
-    }
-  }
-  const total = shots[0]! + shots[1]!, wrong = errors[0]! + errors[1]!;
+  const unit = at.unit ?? '';
+  const files = writeFolder(o, file, records, score, outcomes, unit, analysis, resolved);
+  const scoredRows = analysis.summary?.shots ?? 0;
   return {
-    shots: total, errors: wrong, error: wilsonInterval(wrong, total, REPORT_CONFIDENCE),
-    byOutcome: [0, 1].map((o) => ({ outcome: outcomeNames[o]!, shots: shots[o]!, errors: errors[o]!, error: wilsonInterval(errors[o]!, shots[o]!, REPORT_CONFIDENCE) })),
-    discarded: disc, discardFraction: total > 0 ? disc / total : 0,
-    postSelectedError: wilsonInterval(wrong - discWrong, total - disc, REPORT_CONFIDENCE),
-    discardsAsFailuresError: wilsonInterval(wrong - discWrong + disc, total, REPORT_CONFIDENCE),
+    pipeline: resolved.pipeline.name, classifier: classifierOf(resolved.pipeline).name, source: records.source, rows: records.rows, complex: records.complex,
+    calibrationRows: analysis.calibrationRows, scoredRows, calibratedBy, bins: analysis.chain.bins,
+    referencePhase: analysis.referencePhase, calibration: analysis.calibration, summary: analysis.summary, outcomes, unit,
+    outcome: analysis.decisions.outcome, value: analysis.decisions.value, discarded: analysis.decisions.discarded, files,
   };
 }
 
-interface ShotColumns {
-  inPhase: Float64Array;
-  quadrature: Float64Array;
-  value: Float64Array;
-  outcome: Uint8Array;
-  discarded: Uint8Array;
-  labels: Uint8Array | null;
-  calibrationRows: Uint8Array;
-}
-
-/** shots.arrow of analyze: one row per decided (non-calibration) row, in batches of 65 536. */
-function writeShots(path: string, metadata: Map<string, string>, outcomes: readonly string[], pipeline: string, s: ShotColumns): void {
-  const dict = makeDictionaryColumn(1, outcomes);
-  const fields = [
-    unitField('row', new Uint32(), null), unitField('in_phase', new Float64(), null), unitField('quadrature', new Float64(), null),
-    unitField('value', new Float64(), null), unitField('outcome', dict.type, null), unitField('discarded', new Bool(), null),
-    ...(s.labels ? [unitField('label', dict.type, null, true), unitField('correct', new Bool(), null, true)] : []),
-  ];
-  const schema = new Schema(fields, new Map([...metadata, [`${META_PREFIX}pipeline`, pipeline]]));
-  const stream = new ArrowFileStream(path, schema);
-  try {
-    const decided: number[] = [];
-    for (let r = 0; r < s.outcome.length; r++) if (!s.calibrationRows[r]) decided.push(r);
-    for (let from = 0; from < decided.length || from === 0; from += 65536) {
-      const rows = decided.slice(from, from + 65536);
-      const pick = <T extends Float64Array | Uint8Array>(a: T, make: (n: number) => T): T => {
-        const out = make(rows.length);
-        rows.forEach((r, j) => { out[j] = a[r]!; });
-        return out;
-      };
-      const f64 = (a: Float64Array) => float64Data(pick(a, (k) => new Float64Array(k)));
-      const u8 = (a: Uint8Array) => pick(a, (k) => new Uint8Array(k));
-      const children = [
-        uint32Data(Uint32Array.from(rows)), f64(s.inPhase), f64(s.quadrature), f64(s.value),
-        dictionaryData(dict, u8(s.outcome)), boolData(u8(s.discarded)),
-      ];
-      if (s.labels) {
-        // unlabelled rows (255) get null label and correct
-        const label = u8(s.labels);
-        const valid = new Uint8Array((rows.length + 7) >> 3);
-        let nulls = 0;
-        label.forEach((l, j) => { if (l <= 1) valid[j >> 3]! |= 1 << (j & 7); else nulls++; });
-        const correct = Uint8Array.from(label, (l, j) => (l <= 1 && l === s.outcome[rows[j]!] ? 1 : 0));
-        const nullBitmap = nulls > 0 ? valid : undefined;
-        children.push(
-          makeData({ type: dict.type, length: rows.length, nullCount: nulls, nullBitmap, data: Uint8Array.from(label, (l) => (l <= 1 ? l : 0)), dictionary: dict.dictionary }),
-          makeData({ type: new Bool(), length: rows.length, nullCount: nulls, nullBitmap, data: boolData(correct).values }),
-        );
-      }
-      stream.write(new RecordBatch(schema, makeData({ type: new Struct(fields), length: rows.length, nullCount: 0, children })));
-      if (decided.length === 0) break;
-    }
-    stream.finish();
-  } catch (e) {
-    stream.abort();
-    throw e;
+/** Writes the tables and run.json; returns the files written. */
+function writeFolder(
+  o: AnalyzeOptions, file: AnalyzeFile, records: RecordSet, score: LabelSet | null, outcomes: readonly [string, string], unit: string,
+  a: RecordAnalysis, resolved: ResolvedAnalysis,
+): string[] {
+  prepareOutputDir(o.outDir, o.force ?? false);
+  const provenance = { pipeline: file.canonical, records: records.source, labels: score?.source ?? null };
+  const files: string[] = [];
+  const d = a.decisions;
+  writeRecordedShots(join(o.outDir, 'shots.arrow'), analysisMetadata('shots', provenance), {
+    pipeline: resolved.pipeline.name, outcomes, unit, labels: score?.values ?? null,
+    calibration: a.calibrationMask ?? new Uint8Array(records.rows),
+    inPhase: d.inPhase, quadrature: d.quadrature, value: d.value, statistic: d.statistic, outcome: d.outcome, discarded: d.discarded,
+  });
+  files.push('shots.arrow');
+  if (a.summary) {
+    const cal = a.calibration;
+    const point = {
+      index: 0, parameters: {}, scenario: { states: outcomes.map((name) => ({ name })), outcomes },
+      summaries: [a.summary], comparisons: [], noise: [null], calibrations: [cal],
+      compiled: { pipelines: [{ spec: { name: resolved.pipeline.name, classifier: resolved.pipeline.classifier }, referencePhase: a.referencePhase }] },
+    };
+    const summary = buildTable(summaryColumns([point], unit), analysisMetadata('summary', provenance));
+    writeFileAtomic(join(o.outDir, 'summary.arrow'), tableToIPC(summary, 'file'));
+    files.push('summary.arrow');
   }
-}
-
-function summaryColumns(
-  pipeline: string, rows: number, calibrationRows: Uint8Array, chain: PipelineChain, c: Calibration, scores: AnalyzeScores | null,
-) {
-  const calibrated = calibrationRows.reduce((a, x) => a + x, 0);
-  const f = (name: string, v: number | null) => ({ name, kind: 'f64' as const, unit: '', values: [v] });
-  const u = (name: string, v: number) => ({ name, kind: 'u32' as const, unit: null, values: [v] });
-  return [
-    { name: 'pipeline', kind: 'str' as const, unit: null, values: [pipeline] },
-    u('rows', rows), u('calibration_rows', calibrated), u('decided_rows', rows - calibrated),
-    u('scored_shots', scores?.shots ?? 0),
-    f('mean_error', scores?.error.rate ?? null), f('mean_error_low', scores?.error.low ?? null), f('mean_error_high', scores?.error.high ?? null),
-    ...(scores?.byOutcome ?? []).flatMap((b) => [
-      f(`error_${b.outcome}`, b.error.rate), f(`error_${b.outcome}_low`, b.error.low), f(`error_${b.outcome}_high`, b.error.high),
-    ]),
-    f('discard_fraction', scores?.discardFraction ?? null),
-    f('post_selected_error', scores?.postSelectedError.rate ?? null),
-    f('discards_as_failures_error', scores?.discardsAsFailuresError.rate ?? null),
-    f('threshold', c.rule.threshold), { name: 'high_is_one', kind: 'bool' as const, unit: null, values: [c.rule.highIsOne] },
-    { ...f('axis_angle', Math.atan2(c.axis.sin, c.axis.cos)), unit: 'rad' }, { ...f('reference_phase', c.referencePhase), unit: 'rad' },
-    u('bins', chain.bins), { ...f('sample_rate', chain.sampleRate), unit: 'Hz' },
-  ];
+  const spectrum = recordsSpectrum(records, score?.values ?? null, resolved.timing.sampleRate);
+  if (spectrum) {
+    writeRecordedNoise(join(o.outDir, 'noise.arrow'), analysisMetadata('noise', provenance), spectrum, outcomes, unit);
+    files.push('noise.arrow');
+  }
+  writeExampleRecords(join(o.outDir, 'traces.arrow'), analysisMetadata('traces', provenance), records, score?.values ?? null, outcomes, unit, resolved.timing);
+  files.push('traces.arrow');
+  writeAnalysisManifest(o.outDir, { complete: true, files, analysis: provenance });
+  return files;
 }

@@ -29,7 +29,8 @@ import { readManifest, writeManifest, MANIFEST, type Manifest } from '../io/mani
 import { META_PREFIX, TOOL_VERSION, type RunProvenance } from '../io/metadata.ts';
 import { prepareOutputDir } from '../io/output-dir.ts';
 import { writeResultTables } from './result-tables.ts';
-import { encodeData, readTallies, runTallies, TALLIES, writeTallies, type PointTallies, type RunTallies } from './tallies.ts';
+import { readTallies, runTallies, TALLIES, writeTallies, type PointTallies, type RunTallies } from './tallies.ts';
+import { encodeData } from '../io/plain-data.ts';
 import { expandPoints } from './run-to-directory.ts';
 import { writeReport } from './report.ts';
 

@@ -12,7 +12,9 @@ import type { Scenario } from '../scenario/types.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
 import { probability, short, showValue } from '../io/report/display.ts';
 import { noiseSpectrumView } from '../io/report/noise-view.ts';
-import { renderPage, type Card, type Figure, type SectionView } from '../io/report/page.ts';
+import { renderPage, type BuiltReport, type Card, type Figure, type SectionView } from '../io/report/page.ts';
+import { readAnyManifest } from '../io/manifest.ts';
+import { buildAnalysisReport } from './analysis-report.ts';
 import { histogramView, traceViews, type PointReading } from '../io/report/point-views.ts';
 import { exampleShots, resimulatedValues } from '../engine/trace/examples.ts';
 import { readPointValues, readRunTables, type RunTables, type SummaryRow } from '../io/report/read-run.ts';
@@ -21,14 +23,7 @@ import { describeParameters, heatMapView, sweepLineViews } from '../io/report/sw
 import { causeTable, pointsTable, refinementOf } from '../io/report/tables.ts';
 import { iqAndAssignment } from './report-iq.ts';
 
-/** The page and what the plotting library said while drawing it. */
-export interface BuiltReport {
-  html: string;
-  /** Compiler and renderer warnings (a clean report has none). */
-  warnings: string[];
-  /** Number of plots drawn. */
-  plots: number;
-}
+export type { BuiltReport };
 
 /** The scenario of one point of the run, rebuilt from the embedded document and the point's swept values. */
 export function pointScenario(t: RunTables, row: SummaryRow, gridPoints: number): Scenario {
@@ -54,8 +49,10 @@ function interval(r: { low: number; high: number }): string {
   return `95 % interval [${probability(r.low)}, ${probability(r.high)}]`;
 }
 
-/** Builds the report page of a finished run folder. */
+/** Builds the report page of a finished run folder (or of an analysis folder: analysis-report.ts). */
 export async function buildReport(dir: string): Promise<BuiltReport> {
+  const manifest = readAnyManifest(dir, true);
+  if ('kind' in manifest && manifest.kind === 'analysis') return buildAnalysisReport(dir, manifest);
   const t = readRunTables(dir);
   const spec = t.scenario.sweep;
   const axes = spec?.axes ?? [];

@@ -50,6 +50,8 @@ export interface ClassifierKind<Model = unknown> {
   needsDevice: string | null;
   /** Fits its model from labelled calibration records (kinds that read bins); `device` is null for recorded traces. */
   fit?(records: CalibrationRecords, chain: PipelineChain, axis: Axis, device: DeviceView | null): Model;
+  /** What is wrong with a model read back from a file (a stored calibration), or null when it is whole (kinds with a model). */
+  modelProblem?(model: unknown): string | null;
   /** The statistic its fitted model decides on (kinds that read bins). */
   statistic?(model: Model): BinStatistic;
   /** The decision rule on its statistic, from the calibration statistics of each intended outcome and their means. */

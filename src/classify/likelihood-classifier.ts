@@ -55,6 +55,20 @@ export const likelihoodClassifier: ClassifierKind<HmmClassifierSpec> = {
     return device ? fitWithDevice(r, chain, axis, device) : fitFromRecords(r);
   },
 
+  modelProblem(model) {
+    const m = model as Partial<Record<keyof HmmClassifierSpec, unknown>> | null;
+    const finite = (x: unknown) => x instanceof Float64Array && x.every(Number.isFinite);
+    if (m === null || typeof m !== 'object') return 'a model object';
+    if (!Array.isArray(m.means) || m.means.length < 2 || !m.means.every(finite)) return 'finite means of every state';
+    if (!(m.transition instanceof Float64Array) || !(m.prior instanceof Float64Array) || !(m.outcomeOfState instanceof Uint8Array)) return 'transition, prior and outcomeOfState arrays';
+    try {
+      makeHmmClassifier(m as HmmClassifierSpec);
+    } catch (e) {
+      return (e as Error).message.replace(/^makeHmmClassifier: /, '');
+    }
+    return null;
+  },
+
   statistic(model) {
     const hmm = makeHmmClassifier(model);
     return (bins, offset, count) => hmm.logLikelihoodRatio(bins, offset, count);

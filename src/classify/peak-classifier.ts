@@ -39,6 +39,11 @@ export const peakClassifier: ClassifierKind<PeakModel> = {
     return { side: n1 > 0 && n0 > 0 && sum1 / n1 < sum0 / n0 ? -1 : 1 };
   },
 
+  modelProblem(model) {
+    const side = (model as { side?: unknown } | null)?.side;
+    return side === 1 || side === -1 ? null : 'a side of 1 or -1';
+  },
+
   statistic(model) {
     if (model.side === 1) {
       return (bins, offset, count) => {

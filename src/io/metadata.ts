@@ -34,3 +34,16 @@ export function tableMetadata(table: string, p: RunProvenance): Map<string, stri
     [`${META_PREFIX}scenario`, p.scenario],
   ]);
 }
+
+/** Schema metadata of a table of `analyze`: what it ran on instead of a scenario and a seed. */
+export function analysisMetadata(table: string, p: { pipeline: string; records: string; labels: string | null }): Map<string, string> {
+  return new Map([
+    [`${META_PREFIX}table`, table],
+    [`${META_PREFIX}version`, TOOL_VERSION],
+    [`${META_PREFIX}engine`, 'analyze'],
+    [`${META_PREFIX}shard`, '1/1'],
+    [`${META_PREFIX}pipeline_file`, p.pipeline],
+    [`${META_PREFIX}records`, p.records],
+    ...(p.labels !== null ? [[`${META_PREFIX}labels`, p.labels] as [string, string]] : []),
+  ]);
+}

@@ -61,6 +61,8 @@ export interface RecordAnalysis {
   referencePhase: number;
   calibration: PipelineCalibration;
   calibrationRows: number;
+  /** 1 where the row calibrated (null: nothing was calibrated from rows). */
+  calibrationMask: Uint8Array | null;
   decisions: RecordDecisions;
   /** The summary of the labelled rows that did not calibrate (null without labels). */
   summary: PointSummary | null;
@@ -139,5 +141,5 @@ export async function analyzeRecords(a: RecordAnalysisInput): Promise<RecordAnal
     ? summarise(spec.name, a.outcomes, [0, 1], [0.5, 0.5], tally, unavailableBudget(2), calibration.rule.threshold, calibration.rule.highIsOne,
       chain.band !== null, robustSpread([Float64Array.from(tallied[0]), Float64Array.from(tallied[1])]))
     : null;
-  return { chain, referencePhase, calibration, calibrationRows, decisions: d, summary };
+  return { chain, referencePhase, calibration, calibrationRows, calibrationMask: calibrating, decisions: d, summary };
 }

@@ -3,16 +3,19 @@
  * scenario's `processing` (filter, decimate, window, weights, threshold, ambiguousBand,
  * referencePhase), plus what the records need:
  *   name         pipeline name (default "main"; picks the stored calibration of that pipeline)
- *   column       the column of sample lists (default "record")
+ *   column       the column of sample lists in an Arrow or Parquet file (default "record", else
+ *                the pair in_phase/quadrature)
  *   sampleRate   Hz (default: the table's singleshot.sample_rate metadata)
  *   carrier      "none" | {frequency, phase} (default: singleshot.carrier_frequency/_phase, else none)
  *   recordWindow {start, length}: the window the pipeline's own window must end in (default:
  *                singleshot.window_start/_length, else the whole record)
  *   outcomes     [label0, label1]: how string labels map to outcomes (default singleshot.outcomes)
  *   calibration  "stored" (the calibration `run --keep-traces` wrote into the metadata) |
- *                {labels: COLUMN, fraction: f}: the first f (default 0.2) of the rows labelled
- *                in COLUMN calibrate, and are not scored | absent: nothing to calibrate (fixed
- *                threshold, boxcar weights, a fixed referencePhase)
+ *                {labels: LABELS, fraction: f}: the first f (default 0.2) of the rows labelled
+ *                in LABELS (a file, FILE:NAME, or a NAME beside the records) calibrate, and are
+ *                not scored | absent: the labels of --labels when the pipeline needs a
+ *                calibration, else nothing (fixed threshold, boxcar weights, fixed referencePhase)
+ * Every classifier applies: one that needs a model fits it from the calibration rows alone.
  */
 import { z } from 'zod';
 import { InputError } from '../errors.ts';
@@ -23,7 +26,6 @@ import { label, name, number, quantity, section, text } from './fields.ts';
 import { chainToPipeline, checkPipelines, MAIN_PIPELINE, pipelineChainShape } from './sections/processing.ts';
 import type { PipelineSpec, TimingSpec } from './types.ts';
 import { canonicalJson } from './canonical.ts';
-import { CLASSIFIERS, classifierNamed, DEFAULT_CLASSIFIER } from '../classify/registry.ts';
 
 const positive = { min: 0, minExclusive: true } as const;
 
@@ -62,17 +64,15 @@ export function readPipelineFile(text: string, file: string): AnalyzeFile {
   const raw = parseScenarioText(text, file);
   const parsed = analyzeSchema.safeParse(raw, { reportInput: true, error: fallbackMessage });
   if (!parsed.success) throw zodErrorToInputError(file, parsed.error);
-  const classifier = classifierNamed(parsed.data.classifier ?? DEFAULT_CLASSIFIER);
-  // analyze decides on each record's integrated value (app/analyze.ts): classifiers that read
-  // the bins, or that need the simulated device, are refused here
-  if (classifier.needsDevice !== null || classifier.readsBins) {
-    const usable = CLASSIFIERS.filter((k) => k.needsDevice === null && !k.readsBins).map((k) => `"${k.name}"`).join(' or ');
-    throw new InputError(file, 'classifier', `${usable} (analyze decides on the integrated value of each record)`, `"${classifier.name}"`);
-  }
   return { file, canonical: canonicalJson(raw), doc: parsed.data, raw };
 }
 
-/** What the table must supply or may supply for the pipeline. */
+/** The pipeline when no file is given: the scenario defaults (boxcar over the record window, referencePhase auto, midpoint threshold). */
+export function defaultPipelineFile(): AnalyzeFile {
+  return readPipelineFile('{}', '(the default pipeline)');
+}
+
+/** What the records must supply or may supply for the pipeline. */
 export interface TableFacts {
   samples: number;
   sampleRate: number | null;
@@ -88,16 +88,15 @@ export interface ResolvedAnalysis {
   timing: TimingSpec;
   carrierFrequency: number;
   carrierPhase: number;
-  column: string;
 }
 
 /** Resolves the pipeline against the table's facts (sample rate, carrier, window). */
-export function resolveAnalysis(a: AnalyzeFile, facts: TableFacts, tablePath: string, column: string): ResolvedAnalysis {
+export function resolveAnalysis(a: AnalyzeFile, facts: TableFacts, source: string): ResolvedAnalysis {
   const d = a.doc;
   const ctx = new ResolveContext(a.file, a.raw);
   const sampleRate = d.sampleRate ?? facts.sampleRate;
   if (sampleRate === null) {
-    throw new InputError(tablePath, `column "${column}"`, 'a sample rate: sampleRate in the pipeline file or singleshot.sample_rate in the table metadata', 'neither');
+    throw new InputError(source, 'sample rate', 'a sample rate: --sample-rate, sampleRate in a pipeline file, or the file\'s own (a sample_rate attribute in HDF5, singleshot.sample_rate in Arrow or Parquet metadata)', 'none of them');
   }
   const carrierFrequency = d.carrier === undefined ? facts.carrierFrequency ?? 0 : d.carrier === 'none' ? 0 : d.carrier.frequency;
   const carrierPhase = d.carrier === undefined ? facts.carrierPhase ?? 0 : d.carrier === 'none' ? 0 : d.carrier.phase ?? 0;
@@ -111,5 +110,5 @@ export function resolveAnalysis(a: AnalyzeFile, facts: TableFacts, tablePath: st
   const timing: TimingSpec = { sampleRate, recordLength, windowStart, windowLength, shotPeriod: recordLength };
   const pipeline = chainToPipeline(d.name ?? MAIN_PIPELINE, d, [], [], ctx);
   checkPipelines([pipeline], timing, Number.MAX_SAFE_INTEGER, ctx, false, []);
-  return { pipeline, timing, carrierFrequency, carrierPhase, column };
+  return { pipeline, timing, carrierFrequency, carrierPhase };
 }

@@ -70,7 +70,7 @@ describe('analyze refuses malformed tables with exit 2 and a message naming the 
     {
       what: 'no sample rate',
       file: () => table('no-rate', { record: fixedList(rows(4, 8)) }, {}),
-      expect: /column "record": expected a sample rate: sampleRate in the pipeline file or singleshot.sample_rate in the table metadata, found neither/,
+      expect: /no-rate\.arrow: sample rate: expected a sample rate: --sample-rate, sampleRate in a pipeline file, or the file's own .*, found none of them/,
     },
     {
       what: 'not an Arrow file',
@@ -105,11 +105,11 @@ describe('analyze refuses malformed tables with exit 2 and a message naming the 
 
   it.each([
     { what: 'an unknown key', text: 'threshold: { fixed: 1 }\nreferencePhase: 0 deg\nfiltre: none\n', expect: /bad-key\.yaml: filtre: expected a known key/ },
-    { what: 'the likelihood classifier', text: 'classifier: likelihood\ncalibration: stored\n', expect: /likelihood\.yaml: classifier: expected "threshold"/ },
+    { what: 'the likelihood classifier without labels to learn from', text: 'classifier: likelihood\n', expect: /likelihood\.yaml: calibration: expected a calibration for classifier: likelihood: labels/ },
     { what: 'no calibration for an optimal threshold', text: 'threshold: optimal\n', expect: /no-calibration\.yaml: calibration: expected a calibration/ },
     { what: 'a stored calibration the table does not have', text: 'threshold: optimal\ncalibration: stored\n', expect: /metadata singleshot\.calibration: expected a stored calibration/ },
   ])('a pipeline file with $what', async (c) => {
-    const name = { 'an unknown key': 'bad-key', 'the likelihood classifier': 'likelihood', 'no calibration for an optimal threshold': 'no-calibration', 'a stored calibration the table does not have': 'no-stored' }[c.what]!;
+    const name = { 'an unknown key': 'bad-key', 'the likelihood classifier without labels to learn from': 'likelihood', 'no calibration for an optimal threshold': 'no-calibration', 'a stored calibration the table does not have': 'no-stored' }[c.what]!;
     const path = table(`ok-${name}`, { record: fixedList(rows(6, 8)), label: labels(6) });
     const { code, stderr } = await runCli(['analyze', path, '--pipeline', pipeline(name, c.text), '--out', join(dir, `out-p-${name}`)]);
     expect(code, stderr).toBe(2);
@@ -123,11 +123,11 @@ describe('analyze refuses malformed tables with exit 2 and a message naming the 
     const out = join(dir, 'out-good');
     const { code, stdout, stderr } = await runCli(['analyze', path, '--pipeline', pipeline('good', 'threshold: midpoint\ncalibration: { labels: label, fraction: 0.5 }\n'), '--out', out, '--labels', 'label', '--json']);
     expect(code, stderr).toBe(0);
-    const j = JSON.parse(stdout) as { rows: number; calibrationRows: number; scores: { shots: number; error: { rate: number } } };
+    const j = JSON.parse(stdout) as { rows: number; calibrationRows: number; scoredRows: number; meanError: { rate: number } };
     expect(j.rows).toBe(n);
     expect(j.calibrationRows).toBe(20);
-    expect(j.scores.shots).toBe(20);
+    expect(j.scoredRows).toBe(20);
     // rows of label 1 are the rows of label 0 plus one: perfectly separable
-    expect(j.scores.error.rate).toBe(0);
+    expect(j.meanError.rate).toBe(0);
   });
 });

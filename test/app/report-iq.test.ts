@@ -61,10 +61,10 @@ describe('the IQ plane', () => {
     for (const p of points) expect(p.i >= x0 && p.i <= x1 && p.q >= y0 && p.q <= y1).toBe(true);
   });
 
-  it('has no decision line when the classifier does not decide on (I, Q), and no plane at baseband', () => {
+  it('has no decision line when the classifier does not decide on (I, Q), and no plane with nothing to draw', () => {
     const view = iqView(model(true), reading, [cloud(10, 0, 0), cloud(10, 1e-10, 0)], false)!;
     expect((view.spec as { layer: unknown[] }).layer).toHaveLength(1);
-    expect(iqView(model(false), reading, [cloud(10, 0, 0), cloud(10, 1e-10, 0)], true)).toBeNull();
+    expect(iqView(model(false), reading, [cloud(0, 0, 0), cloud(0, 1e-10, 0)], true)).toBeNull();
   });
 
   it('in the report of a scenario with complex levels on a carrier: the scatter, the zoom on the carrier, the matrix', async () => {

@@ -3,7 +3,7 @@
  * turns functions into stubs that refuse to run.
  */
 import { describe, expect, it } from 'vitest';
-import { decodeData, encodeData } from '../../src/app/tallies.ts';
+import { decodeData, encodeData } from '../../src/io/plain-data.ts';
 
 describe('tallies codec', () => {
   it('round-trips doubles exactly, special values included', () => {

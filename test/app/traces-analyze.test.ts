@@ -115,14 +115,14 @@ describe('analyze reproduces the run shot for shot (stored calibration)', () => 
     const file = join(work, `${name}.yaml`);
     writeFileSync(file, text);
     const out = join(work, `analyzed-${name}`);
-    const r = await analyzeToDirectory({ tracesPath: join(raw, 'traces.arrow'), pipelinePath: file, outDir: out, labels: 'intended_outcome' });
+    const r = await analyzeToDirectory({ records: join(raw, 'traces.arrow'), pipelinePath: file, outDir: out, labels: 'intended_outcome' });
     const run = runShots(raw, name);
     expect(r.rows).toBe(SHOTS);
     const outcomes = ['0', '1'];
     // traces.arrow holds Float32 records: a shot whose value lies within Float32 rounding of
     // the threshold may land on the other side in analyze; any other difference is a defect
     const scale = Math.max(...run.value.map(Math.abs));
-    const threshold = r.rule.threshold;
+    const threshold = r.calibration.rule.threshold;
     let differ = 0, discardDiffer = 0, discarded = 0;
     for (let i = 0; i < SHOTS; i++) {
       const onEdge = Math.abs(run.value[i]! - threshold) < 1e-6 * scale;
@@ -139,21 +139,25 @@ describe('analyze reproduces the run shot for shot (stored calibration)', () => 
     expect(shots.numRows).toBe(SHOTS);
     const summary = read(plain, 'summary.arrow');
     const row = Array.from({ length: summary.numRows }, (_, k) => k).find((k) => summary.getChild('pipeline')!.get(k) === name)!;
-    expect(r.scores!.error.rate).toBeCloseTo(summary.getChild('mean_error')!.get(row) as number, 12);
-    expect(read(out, 'summary.arrow').getChild('mean_error')!.get(0)).toBeCloseTo(r.scores!.error.rate, 12);
+    expect(r.summary!.meanError.rate).toBeCloseTo(summary.getChild('mean_error')!.get(row) as number, 12);
+    expect(read(out, 'summary.arrow').getChild('mean_error')!.get(0)).toBeCloseTo(r.summary!.meanError.rate, 12);
   }, 30_000);
 
   it('calibrating on a labelled fraction leaves those rows unscored', async () => {
     const file = join(work, 'fraction.yaml');
     writeFileSync(file, 'weights: matched\ndecimate: 4\nthreshold: optimal\ncalibration: { labels: intended_outcome, fraction: 0.25 }\n');
-    const r = await analyzeToDirectory({ tracesPath: join(raw, 'traces.arrow'), pipelinePath: file, outDir: join(work, 'fraction'), labels: 'intended_outcome' });
+    const r = await analyzeToDirectory({ records: join(raw, 'traces.arrow'), pipelinePath: file, outDir: join(work, 'fraction'), labels: 'intended_outcome' });
     expect(r.calibrationRows).toBe(SHOTS / 4);
-    expect(r.scores!.shots).toBe(SHOTS - SHOTS / 4);
-    expect(r.outcome.slice(0, SHOTS / 4).every((o) => o === 255)).toBe(true);
+    expect(r.summary!.shots).toBe(SHOTS - SHOTS / 4);
     // same kind of pipeline as the run's matched one: an error of the same size (≈0.18 ± 0.01)
-    expect(r.scores!.error.rate).toBeGreaterThan(0.1);
-    expect(r.scores!.error.rate).toBeLessThan(0.3);
-    expect(read(join(work, 'fraction'), 'shots.arrow').numRows).toBe(SHOTS - SHOTS / 4);
+    expect(r.summary!.meanError.rate).toBeGreaterThan(0.1);
+    expect(r.summary!.meanError.rate).toBeLessThan(0.3);
+    // every record has its row; the calibration rows are flagged (and decided, in-sample)
+    const shots = read(join(work, 'fraction'), 'shots.arrow');
+    expect(shots.numRows).toBe(SHOTS);
+    const calibration = Array.from(shots.getChild('calibration')!, Boolean);
+    expect(calibration.filter(Boolean)).toHaveLength(SHOTS / 4);
+    expect(calibration.slice(0, SHOTS / 4).every(Boolean)).toBe(true);
   });
 });
 

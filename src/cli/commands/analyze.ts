@@ -1,38 +1,85 @@
-/** `singleshot analyze TRACES.arrow --pipeline FILE --out DIR [--labels COLUMN]`: run a pipeline on recorded traces. */
+/** `singleshot analyze RECORDS --out DIR [--pipeline FILE] [--labels LABELS]`: run a pipeline on a lab's records. */
 import { Command } from 'commander';
 import { analyzeToDirectory, type AnalyzeResult } from '../../app/analyze.ts';
-import { formatProbability } from '../format.ts';
+import { formatQuantity } from '../../scenario/units.ts';
+import { classifierNamed } from '../../classify/registry.ts';
+import { formatProbability, rows } from '../format.ts';
+import { nonZeroNumber, positiveQuantity } from '../quantity-option.ts';
+
+const interval = (x: { rate: number; low: number; high: number }) => `[${formatProbability(x.low)}, ${formatProbability(x.high)}]`;
 
 /** The readable summary of an analysis. */
-export function formatAnalysis(r: AnalyzeResult, out: string): string {
-  const lines = [`pipeline "${r.pipeline}": ${r.rows} records, ${r.calibrationRows} used for calibration, ${r.rows - r.calibrationRows} decided (${r.bins} bins each); threshold ${r.rule.threshold.toPrecision(4)}`];
-  const s = r.scores;
-  if (s) {
-    const iv = (x: { rate: number; low: number; high: number }) => `${formatProbability(x.rate)} [${formatProbability(x.low)}, ${formatProbability(x.high)}]`;
-    for (const b of s.byOutcome) lines.push(`  labelled ${b.outcome}: ${b.shots} shots, error ${iv(b.error)}`);
-    lines.push(`  all labelled: ${s.shots} shots, error ${iv(s.error)} (95% Wilson)`);
-    if (s.discarded > 0 || r.discarded.some((d) => d === 1)) {
-      lines.push(`  ambiguous band: ${s.discarded} discarded (${formatProbability(s.discardFraction)}); kept error ${iv(s.postSelectedError)}, discards as failures ${iv(s.discardsAsFailuresError)}`);
+export function formatAnalysis(r: AnalyzeResult, out: string, classifier: string): string {
+  const signal = classifierNamed(classifier).signalUnitStatistic;
+  const q = (x: number) => formatQuantity(x, r.unit);
+  const lines = [
+    `${r.rows} ${r.complex ? 'complex (I and Q) ' : ''}records from ${r.source}, pipeline "${r.pipeline}" (${r.bins} bins a record)`,
+    `  calibrated by ${r.calibratedBy}${r.calibrationRows > 0 ? ` (${r.calibrationRows} rows, decided but not scored)` : ''}`,
+  ];
+  const s = r.summary;
+  if (!s) {
+    lines.push('  no labels: every record decided (shots.arrow), no error to score (give --labels to score)');
+  } else {
+    lines.push(`  ${s.shots} labelled records scored; threshold ${signal ? q(s.threshold) : s.threshold.toPrecision(4)}`);
+    lines.push(`  SNR (separation/σ of the integrated value, from each outcome's median and IQR/1.349): ${s.snr.toFixed(2)}; σ ${q(s.sigma)}`);
+    const table: string[][] = [['  labelled', 'records', 'error', '95% interval', ...r.outcomes.map((o) => `reported ${o}`), 'centre', 'spread']];
+    s.states.forEach((st, o) => {
+      table.push([`  ${st.state}`, String(st.shots), formatProbability(st.error.rate), interval(st.error),
+        ...st.assignment.map((a) => formatProbability(a)), q(s.outcomeValues[o]!.mean), q(s.outcomeValues[o]!.sigma)]);
+    });
+    table.push(['  mean', String(s.shots), formatProbability(s.meanError.rate), interval(s.meanError), ...r.outcomes.map(() => ''), '', '']);
+    lines.push(rows(table));
+    const v = s.visibility;
+    lines.push(`  visibility 1 − P(0|1) − P(1|0): ${v.value.toFixed(4)} [${v.low.toFixed(4)}, ${v.high.toFixed(4)}] (95%)`);
+    if (s.banded) {
+      lines.push(`  ambiguous band: ${s.discarded} discarded (${formatProbability(s.discardFraction)}); error of the kept ${formatProbability(s.postSelectedError.rate)} ${interval(s.postSelectedError)}, discards as failures ${formatProbability(s.discardsAsFailuresError.rate)} ${interval(s.discardsAsFailuresError)}`);
     }
+    lines.push('  (measured on these records: the labels are taken as the truth, so a preparation error counts as a readout error)');
   }
   lines.push(`tables written to ${out}: ${r.files.join(', ')}`);
   return lines.join('\n');
 }
 
+/** The --json object of an analysis. */
+function analysisJson(r: AnalyzeResult, out: string): Record<string, unknown> {
+  const s = r.summary;
+  return {
+    pipeline: r.pipeline, records: r.source, rows: r.rows, complex: r.complex, bins: r.bins,
+    calibratedBy: r.calibratedBy, calibrationRows: r.calibrationRows, scoredRows: r.scoredRows,
+    threshold: r.calibration.rule.threshold, referencePhase: r.referencePhase, referencePhaseUnit: 'rad',
+    axisAngle: Math.atan2(r.calibration.axis.sin, r.calibration.axis.cos), axisAngleUnit: 'rad',
+    ...(s ? {
+      errorByOutcome: Object.fromEntries(s.states.map((st) => [st.state, { rate: st.error.rate, low: st.error.low, high: st.error.high, shots: st.shots, errors: st.errors }])),
+      meanError: { rate: s.meanError.rate, low: s.meanError.low, high: s.meanError.high },
+      visibility: s.visibility,
+      snr: s.snr, snrConvention: 'separation of the outcome medians / σ from IQR/1.349, pooled (amplitude SNR)',
+      sigma: s.sigma, sigmaUnit: r.unit,
+      valueByOutcome: Object.fromEntries(r.outcomes.map((o, j) => [o, s.outcomeValues[j] ?? null])), valueByOutcomeUnit: r.unit,
+      ...(s.banded ? { discardFraction: s.discardFraction, postSelectedError: s.postSelectedError, discardsAsFailuresError: s.discardsAsFailuresError } : {}),
+    } : {}),
+    out, files: r.files,
+  };
+}
+
 export function makeAnalyzeCommand(): Command {
   return new Command('analyze')
-    .description('run a processing pipeline on recorded traces (an Arrow table of sample lists), optionally scored against labels')
-    .argument('<traces>', 'Arrow file with a column of records (e.g. traces.arrow from run --keep-traces raw)')
-    .requiredOption('--pipeline <file>', 'pipeline file (YAML or JSON): the processing keys, sample rate, carrier, calibration')
+    .description('run a processing pipeline on recorded traces (Arrow, Parquet, .npy/.npz or HDF5), scored against labels when given')
+    .argument('<records>', 'the records, one per row: FILE, or FILE:NAME for a dataset (file.h5:/readout/records), an array (file.npz:records) or a column (file.parquet:trace)')
     .requiredOption('--out <dir>', 'folder for the tables (must be empty unless --force)')
-    .option('--labels <column>', 'score the outcomes against this label column')
+    .option('--pipeline <file>', 'pipeline file (YAML or JSON): the processing keys, sample rate, carrier, calibration (default: boxcar over the record, referencePhase auto, midpoint threshold)')
+    .option('--labels <labels>', 'the prepared outcome of each record: a file (labels.npy, file.h5:/readout/labels) or a NAME in the records\' own file (a column, dataset or array)')
+    .option('--sample-rate <rate>', 'the records\' sample rate, e.g. "50 MHz" (default: the pipeline file, else the file\'s own attribute)', positiveQuantity('--sample-rate', 'frequency', '50 MHz'))
+    .option('--carrier <frequency>', 'the records\' carrier, e.g. "10 MHz", or "none" (default: the pipeline file, else the file\'s own attribute, else none)', (v: string) => (v === 'none' ? 0 : positiveQuantity('--carrier', 'frequency', '10 MHz')(v)))
+    .option('--scale <x>', 'signal units per stored unit, e.g. volts per ADC count (default 1, times the file\'s own scale attribute)', nonZeroNumber('--scale'))
     .option('--json', 'print the result as one JSON object on stdout')
     .option('--force', 'replace the files of a non-empty --out folder')
-    .action(async (traces: string, opts: { pipeline: string; out: string; labels?: string; json?: boolean; force?: boolean }) => {
-      const r = await analyzeToDirectory({ tracesPath: traces, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force });
+    .action(async (records: string, opts: { out: string; pipeline?: string; labels?: string; sampleRate?: number; carrier?: number; scale?: number; json?: boolean; force?: boolean }) => {
+      const r = await analyzeToDirectory({
+        records, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force,
+        sampleRate: opts.sampleRate, carrierFrequency: opts.carrier, scale: opts.scale,
+      });
       if (opts.json) {
-        const json = { pipeline: r.pipeline, rows: r.rows, calibrationRows: r.calibrationRows, bins: r.bins, threshold: r.rule.threshold, scores: r.scores, out: opts.out, files: r.files };
-        process.stdout.write(JSON.stringify(json, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');
-      } else process.stdout.write(formatAnalysis(r, opts.out) + '\n');
+        process.stdout.write(JSON.stringify(analysisJson(r, opts.out), (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');
+      } else process.stdout.write(formatAnalysis(r, opts.out, r.classifier) + '\n');
     });
 }

@@ -143,7 +143,7 @@ export async function readHdf5Records(path: string, name: string, scale: number)
   const complex = probe.im !== null;
   let first = -1, count = 0, block = numbers([]);
   return {
-    source: `${path}:${name}`, rows, samples, complex, attributes: attrs,
+    source: `${path}:${name}`, rows, samples, complex, attributes: attrs, metadata: new Map(), column: () => null,
     row(r, outI, outQ) {
       if (!(r >= first && r < first + count)) {
         first = r;

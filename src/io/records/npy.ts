@@ -90,7 +90,7 @@ function recordsInMemory(bytes: Uint8Array, source: string, scale: number): Reco
   const complex = h.element.kind === 'c';
   const at = (r: number, k: number) => (h.fortran ? k * rows + r : r * samples + k) * size;
   return {
-    source, rows, samples, complex, attributes: {},
+    source, rows, samples, complex, attributes: {}, metadata: new Map(), column: () => null,
     row(r, outI, outQ) {
       for (let k = 0; k < samples; k++) {
         outI[k] = scale * readElement(view, at(r, k), h.element, false);
@@ -133,7 +133,7 @@ function recordsStreamed(path: string, scale: number): RecordSet {
     const complex = h.element.kind === 'c';
     const descriptor = fd;
     return {
-      source: path, rows, samples, complex, attributes: {},
+      source: path, rows, samples, complex, attributes: {}, metadata: new Map(), column: () => null,
       row(r, outI, outQ) {
         if (!(r >= first && r < first + count)) {
           first = r;

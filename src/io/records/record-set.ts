@@ -29,6 +29,10 @@ export interface RecordSet {
   /** Copies row r into outI (and its Q into outQ for complex records; outQ may be null otherwise), scaled to signal units. */
   row(r: number, outI: Float64Array, outQ: Float64Array | null): void;
   attributes: RecordAttributes;
+  /** The file's own key-value metadata (Arrow and Parquet schema metadata; empty elsewhere). */
+  metadata: ReadonlyMap<string, string>;
+  /** A numeric column beside the records (Arrow and Parquet; null elsewhere or when absent). */
+  column(name: string): Float64Array | null;
   /** Releases the file (a no-op for sets read whole). */
   close(): void;
 }

@@ -8,7 +8,7 @@
 import type { Table } from 'apache-arrow';
 import { InputError } from '../../errors.ts';
 import { META_PREFIX } from '../metadata.ts';
-import { labelColumn, metadataNumber, recordColumn } from '../record-table.ts';
+import { labelColumn, metadataNumber, optionalIntegerColumn, recordColumn } from '../record-table.ts';
 import type { LabelSet, RecordAttributes, RecordSet } from './record-set.ts';
 
 /** The schema metadata's attributes of the records. */
@@ -23,7 +23,9 @@ function attributesOf(table: Table): RecordAttributes {
   put('carrierPhase', 'carrier_phase');
   put('windowStart', 'window_start');
   put('windowLength', 'window_length');
-  const unit = table.schema.metadata.get(`${META_PREFIX}unit`);
+  // the unit of the table, else that of its record column (as run --keep-traces writes it)
+  const column = ['record', 'in_phase'].map((c) => table.schema.fields.find((f) => f.name === c)).find((f) => f !== undefined);
+  const unit = table.schema.metadata.get(`${META_PREFIX}unit`) ?? column?.metadata.get('unit');
   if (unit !== undefined) at.unit = unit;
   return at;
 }
@@ -35,11 +37,12 @@ function attributesOf(table: Table): RecordAttributes {
 export function tableRecords(source: string, table: Table, column: string | undefined, scale: number): RecordSet {
   const has = (name: string) => table.getChild(name) !== null;
   const attributes = attributesOf(table);
+  const beside = { metadata: table.schema.metadata, column: (name: string) => optionalIntegerColumn(table, name) };
   if (column === undefined && !has('record') && has('in_phase') && has('quadrature')) {
     const i = recordColumn(source, table, 'in_phase'), q = recordColumn(source, table, 'quadrature');
     if (q.samples !== i.samples) throw new InputError(source, 'column "quadrature"', `records of ${i.samples} samples like in_phase`, `${q.samples}`);
     return {
-      source, rows: i.rows, samples: i.samples, complex: true, attributes,
+      source, rows: i.rows, samples: i.samples, complex: true, attributes, ...beside,
       row(r, outI, outQ) {
         i.row(r, outI);
         if (outQ) q.row(r, outQ);
@@ -50,7 +53,7 @@ export function tableRecords(source: string, table: Table, column: string | unde
   }
   const c = recordColumn(source, table, column ?? 'record');
   return {
-    source, rows: c.rows, samples: c.samples, complex: false, attributes,
+    source, rows: c.rows, samples: c.samples, complex: false, attributes, ...beside,
     row(r, outI) {
       c.row(r, outI);
       if (scale !== 1) for (let k = 0; k < c.samples; k++) outI[k]! *= scale;

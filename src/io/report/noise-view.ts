@@ -14,7 +14,9 @@ import type { PlotSpec } from './svg.ts';
 export const NOISE_TABLE = 'noise.arrow';
 
 /** The spectrum plot and its caption, or a note saying why there is none. */
-export function noiseSpectrumView(dir: string): { spec: PlotSpec; caption: string } | { note: string } {
+export function noiseSpectrumView(
+  dir: string, caption = 'One-sided power spectral density of each noise component as the scenario describes it, and their sum.',
+): { spec: PlotSpec; caption: string } | { note: string } {
   const path = join(dir, NOISE_TABLE);
   if (!existsSync(path)) {
     return { note: 'This run has no noise table: its noise is white only (flat spectrum), and the budget uses that white level. A run whose scenario describes 1/f, telegraph or component noise gets the spectrum of each component here.' };
@@ -27,6 +29,6 @@ export function noiseSpectrumView(dir: string): { spec: PlotSpec; caption: strin
   const components = component.map((name, i) => ({ name, f: f[i]!, psd: psd[i]! }));
   return {
     spec: spectrumSpec({ yTitle: unit ? `one-sided PSD (${unit}, log scale)` : 'one-sided PSD (log scale)', components }),
-    caption: 'One-sided power spectral density of each noise component as the scenario describes it, and their sum.',
+    caption,
   };
 }

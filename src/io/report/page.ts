@@ -44,6 +44,15 @@ export interface Card {
   detail: string[];
 }
 
+/** A built page and what the plotting library said while drawing it. */
+export interface BuiltReport {
+  html: string;
+  /** Compiler and renderer warnings (a clean report has none). */
+  warnings: string[];
+  /** Number of plots drawn. */
+  plots: number;
+}
+
 /** Everything the page shows. */
 export interface ReportPage {
   name: string;
@@ -55,7 +64,25 @@ export interface ReportPage {
   verdict: string[];
   sections: SectionView[];
   scenarioJson: string;
+  /** What the page is of: a simulated run (default) or an analysis of recorded traces. */
+  kind?: 'run' | 'analysis';
 }
+
+/** The texts that differ between the page of a run and that of an analysis of recorded traces. */
+const TEXTS = {
+  run: {
+    kicker: 'singleshot · simulated single-shot readout',
+    caution: 'Simulated fidelities are no substitute for measured ones: they show what this model of the device and the signal chain predicts, nothing more.',
+    answer: 'Where to operate',
+    footer: 'Made by singleshot from the run\'s tables alone; <code>singleshot report FOLDER</code> rebuilds this page. The scenario as run:',
+  },
+  analysis: {
+    kicker: 'singleshot · analysis of recorded single-shot readout',
+    caution: 'These figures are measured on the records against their labels: a preparation error or a wrong label counts as a readout error, and the calibration rows are left out of every figure.',
+    answer: 'What the records show',
+    footer: 'Made by singleshot from the analysis\'s tables alone; <code>singleshot report FOLDER</code> rebuilds this page. The pipeline as run:',
+  },
+} as const;
 
 const STYLE = `
 :root { --ink: ${PALETTE.ink}; --muted: ${PALETTE.muted}; --paper: ${PALETTE.paper}; --card: ${PALETTE.card};
@@ -144,9 +171,10 @@ function sectionHtml(s: SectionView): SafeHtml {
 
 /** The whole page as one HTML string. */
 export function renderPage(p: ReportPage): string {
+  const t = TEXTS[p.kind ?? 'run'];
   const body = html`<main>
 <header class="masthead">
-<p class="kicker">singleshot · simulated single-shot readout</p>
+<p class="kicker">${t.kicker}</p>
 <h1>${p.name}</h1>
 ${p.description ? html`<p class="lede">${p.description}</p>` : ''}
 <dl class="facts">${p.facts.map(([k, v]) => html`<div><dt>${k}</dt><dd>${v}</dd></div>`)}</dl>
@@ -154,15 +182,15 @@ ${p.description ? html`<p class="lede">${p.description}</p>` : ''}
 </header>
 <aside class="caution" role="note">
 <p><strong>Before quoting a number.</strong> A SPAM figure must come from full thresholded statistics — every scored shot, each assigned by the threshold — and any post-selection must be stated with its discard fraction. ${p.postSelection}</p>
-<p>Simulated fidelities are no substitute for measured ones: they show what this model of the device and the signal chain predicts, nothing more.</p>
+<p>${t.caution}</p>
 </aside>
-<section id="answer"><h2>Where to operate</h2>
+<section id="answer"><h2>${t.answer}</h2>
 <div class="cards">${p.cards.map((c) => html`<div class="card"><p class="label">${c.label}</p><p class="value">${c.value}</p>${c.detail.map((d) => html`<p>${d}</p>`)}</div>`)}</div>
 <div class="verdict">${p.verdict.map((v) => html`<p>${v}</p>`)}</div>
 </section>
 ${p.sections.map(sectionHtml)}
 <footer>
-<p>Made by singleshot from the run's tables alone; <code>singleshot report FOLDER</code> rebuilds this page. The scenario as run:</p>
+<p>${trusted(t.footer)}</p>
 <pre>${p.scenarioJson}</pre>
 </footer>
 </main>`;

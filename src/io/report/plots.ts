@@ -36,6 +36,8 @@ export interface HistogramPlot {
   thresholdText: string;
   domain: [number, number];
   yMax: number;
+  /** The legend's title (default "prepared state"). */
+  groupTitle?: string;
 }
 
 /** The floor of the log count axis: bars start here, curves below it are clipped. */
@@ -48,7 +50,7 @@ const COUNT_FLOOR = 0.1;
  */
 export function histogramSpec(p: HistogramPlot): PlotSpec {
   const names = p.states.map((s) => s.name);
-  const colour = { field: 'state', type: 'nominal', scale: { domain: names, range: p.states.map((s) => s.colour) }, legend: { title: 'prepared state', orient: 'top', direction: 'horizontal' } };
+  const colour = { field: 'state', type: 'nominal', scale: { domain: names, range: p.states.map((s) => s.colour) }, legend: { title: p.groupTitle ?? 'prepared state', orient: 'top', direction: 'horizontal' } };
   const bars = p.states.flatMap((s) => s.bars.filter((b) => b.count > 0).map((b) => ({ state: s.name, ...b })));
   const curve = p.states.flatMap((s) => s.curve.filter((c) => c.expected >= COUNT_FLOOR).map((c) => ({ state: s.name, ...c })));
   const x = { type: 'quantitative', scale: { domain: p.domain, nice: false, zero: false } };
@@ -175,6 +177,8 @@ export interface IqPlot {
   line: { i: number; q: number }[] | null;
   /** Equal spans on both axes, so that angles read true. */
   domain: { i: [number, number]; q: [number, number] };
+  /** The legend's title (default "prepared state"). */
+  groupTitle?: string;
 }
 
 /** Side of the square IQ plot (px). */
@@ -183,7 +187,7 @@ export const IQ_SIZE = 420;
 /** IQ-plane spec: the clouds of integrated (I, Q) per prepared state on equal axes, the decision line dashed. */
 export function iqScatterSpec(p: IqPlot): PlotSpec {
   const names = p.states.map((s) => s.name);
-  const colour = { field: 'state', type: 'nominal', scale: { domain: names, range: p.states.map((s) => s.colour) }, legend: { title: 'prepared state', orient: 'right', direction: 'vertical', symbolOpacity: 1 } };
+  const colour = { field: 'state', type: 'nominal', scale: { domain: names, range: p.states.map((s) => s.colour) }, legend: { title: p.groupTitle ?? 'prepared state', orient: 'right', direction: 'vertical', symbolOpacity: 1 } };
   const x = { field: 'i', type: 'quantitative', title: p.xTitle, scale: { domain: p.domain.i, nice: false, zero: false } };
   const y = { field: 'q', type: 'quantitative', title: p.yTitle, scale: { domain: p.domain.q, nice: false, zero: false } };
   const layer: unknown[] = [{

@@ -214,14 +214,20 @@ export interface StateIq {
   quadrature: Float64Array;
 }
 
+/** What the IQ plane reads of a point: the names of its groups (prepared states, or labelled outcomes) and the signal unit. */
+export interface IqModel {
+  scenario: { states: readonly { name: string }[]; signal: { unit: string } };
+  /** The legend's title (default "prepared state"). */
+  groupTitle?: string;
+}
+
 /**
  * The IQ-plane scatter of a point: each prepared state's integrated (I, Q), at most IQ_POINTS
  * each (every k-th shot), on equal axes, with the decision line I·cos α + Q·sin α = threshold
- * when `decidesOnIq` (a threshold on the projected integrated value). Null when the pipeline has
- * no Q output (baseband) or there is nothing to draw. `shown`/`total`: the shots drawn and read.
+ * when `decidesOnIq` (a threshold on the projected integrated value). Null when there is nothing
+ * to draw (the caller asks only for a pipeline with a Q output). `shown`/`total`: the shots drawn and read.
  */
-export function iqView(c: PointModel, r: PointReading, iq: readonly StateIq[], decidesOnIq: boolean): { spec: PlotSpec; shown: number; total: number } | null {
-  if (c.pipelines[r.pipeline]!.kernels.quadrature === null) return null;
+export function iqView(c: IqModel, r: PointReading, iq: readonly StateIq[], decidesOnIq: boolean): { spec: PlotSpec; shown: number; total: number } | null {
   const sc = c.scenario;
   const picked = iq.map((v) => {
     const n = v.inPhase.length;
@@ -250,7 +256,7 @@ export function iqView(c: PointModel, r: PointReading, iq: readonly StateIq[], d
   return {
     shown: all.length, total: iq.reduce((a, v) => a + v.inPhase.length, 0),
     spec: iqScatterSpec({
-      xTitle: withUnit('I, integrated in-phase value', unit), yTitle: withUnit('Q, integrated quadrature value', unit), states, line,
+      xTitle: withUnit('I, integrated in-phase value', unit), yTitle: withUnit('Q, integrated quadrature value', unit), states, line, groupTitle: c.groupTitle,
       domain: { i: [(iMid - half) * f, (iMid + half) * f], q: [(qMid - half) * f, (qMid + half) * f] },
     }),
   };

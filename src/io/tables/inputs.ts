@@ -23,6 +23,8 @@ export interface PointRows {
     rule: { threshold: number; highIsOne: boolean };
     weights: Float64Array | null;
     bandHalfWidth: number;
+    outcomeMeans: [number, number];
+    model: unknown;
   }[];
   /** Scored record samples the digitizer clipped (present when the point has a digitizer). */
   clippedSamples?: number;

@@ -63,7 +63,8 @@ export function summaryColumns(points: readonly PointRows[], unit: string, swept
     col('discards_as_failures_error', 'f64', '', (r) => r.s.discardsAsFailuresError.rate),
     col('discards_as_failures_error_low', 'f64', '', (r) => r.s.discardsAsFailuresError.low),
     col('discards_as_failures_error_high', 'f64', '', (r) => r.s.discardsAsFailuresError.high),
-    col('agreement', 'bool', null, (r) => r.s.agreement),
+    // no analytic model (a classifier without a closed form, or recorded traces): nothing to agree with
+    col('agreement', 'bool', null, (r) => (Number.isNaN(r.s.analyticMean) ? null : r.s.agreement)),
   ];
 }
 

@@ -23,6 +23,7 @@
  * per point and pipeline the calibrated axis, threshold, weights), so `analyze` can read the
  * file alone.
  */
+import { encodeData } from '../plain-data.ts';
 import { Field, FixedSizeList, Float32, Float64, makeData, RecordBatch, Schema, Struct, Uint32 } from 'apache-arrow';
 import { attributeCause, CAUSE_NOISE, CAUSE_NONE, CAUSES } from '../../analysis/causes.ts';
 import type { Scenario } from '../../scenario/types.ts';
@@ -60,6 +61,10 @@ export interface StoredCalibration {
     weights: number[] | null;
     bandHalfWidth: number;
     classifier: string;
+    /** Mean decision statistic of the calibration shots of each outcome. */
+    outcomeMeans: [number, number];
+    /** The classifier's fitted model (plain data), null for one that fits none. */
+    model: unknown;
   }[];
 }
 
@@ -73,6 +78,7 @@ export function storedCalibrations(points: readonly PointRows[]): StoredCalibrat
         name: c.spec.name, referencePhase: c.referencePhase, axisAngle: Math.atan2(cal.axis.sin, cal.axis.cos),
         threshold: cal.rule.threshold, highIsOne: cal.rule.highIsOne,
         weights: cal.weights ? Array.from(cal.weights) : null, bandHalfWidth: cal.bandHalfWidth, classifier: c.spec.classifier ?? DEFAULT_CLASSIFIER,
+        outcomeMeans: cal.outcomeMeans, model: encodeData(cal.model),
       };
     }),
   }));
