@@ -56,6 +56,8 @@ export interface FitResult {
   notes: string[];
   /** What the scenario parser says about the twin (warnings, not errors). */
   warnings: string[];
+  /** What the plotting library said while drawing the report (a clean report: nothing). */
+  reportWarnings: string[];
   yaml: string;
   /** The signal unit of the twin ('' for plain numbers). */
   unit: string;
@@ -163,10 +165,12 @@ export async function fitToScenario(o: FitOptions): Promise<FitResult> {
     throw new Error(`the fitted scenario does not parse: ${(e as Error).message}\n${yaml}`);
   }
   writeFileAtomic(o.out, yaml);
-  let reportPath: string | null = null;
+  let reportPath: string | null = null, reportWarnings: string[] = [];
   if (o.report !== false) {
     reportPath = reportPathOf(o.out);
-    writeFileAtomic(reportPath, await fitReportHtml(doc, yaml));
+    const page = await fitReportHtml(doc, yaml);
+    writeFileAtomic(reportPath, page.html);
+    reportWarnings = page.warnings;
   }
-  return { fitted, scenarioPath: o.out, reportPath, notes, warnings, yaml, unit: chosen.unit };
+  return { fitted, scenarioPath: o.out, reportPath, notes, warnings, reportWarnings, yaml, unit: chosen.unit };
 }

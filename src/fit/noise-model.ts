@@ -28,7 +28,7 @@ import { welchFromSums } from '../analysis/welch.ts';
 import type { RandomStream } from '../random/stream.ts';
 import { drawGroupCounts, spread } from './estimate.ts';
 import type { ResidualSpectra } from './residuals.ts';
-import { componentDensities, toVector, type SpectrumComponents, type SpectrumParameters } from './spectrum-model.ts';
+import { componentDensities, toVector, type SpectrumComponents, type SpectrumFrame, type SpectrumParameters } from './spectrum-model.ts';
 import { binReading, type BinReading } from './welch-window.ts';
 import { expectedBin, fitComponents, fitFrom, spectrumWeights, type ComponentFit, type MeasuredSpectrum } from './whittle.ts';
 
@@ -58,6 +58,8 @@ export interface NoiseFit {
   /** Frequencies of the lines left out. */
   lines: number[];
   referenceFrequency: number;
+  /** The reference frequency and the sample rate, as the model reads them. */
+  frame: SpectrumFrame;
   segmentLength: number;
   segments: number;
   chosen: ComponentFit;
@@ -68,9 +70,9 @@ export interface NoiseFit {
 }
 
 /** What fit `f` expects in bin k (the model through the window). */
-export function expectedDensity(f: ComponentFit, spectrum: MeasuredSpectrum, referenceFrequency: number, k: number): number {
+export function expectedDensity(f: ComponentFit, spectrum: MeasuredSpectrum, frame: SpectrumFrame, k: number): number {
   const v = toVector(f.parameters);
-  return expectedBin(v, f.components, referenceFrequency, spectrum.readings[k]!, new Float64Array(v.length), new Float64Array(v.length));
+  return expectedBin(v, f.components, frame, spectrum.readings[k]!, new Float64Array(v.length), new Float64Array(v.length));
 }
 
 function measured(spectra: ResidualSpectra, sampleRate: number, counts: Float64Array | null, readings: readonly BinReading[]): MeasuredSpectrum {
@@ -88,11 +90,11 @@ function measured(spectra: ResidualSpectra, sampleRate: number, counts: Float64A
 }
 
 /** Largest share of component `index` (1: 1/f, 2: Lorentzian) over the masked bins. */
-function largestShare(fit: ComponentFit, spectrum: MeasuredSpectrum, mask: Uint8Array, referenceFrequency: number, index: 1 | 2): number {
+function largestShare(fit: ComponentFit, spectrum: MeasuredSpectrum, mask: Uint8Array, frame: SpectrumFrame, index: 1 | 2): number {
   let share = 0;
   for (let k = 0; k < mask.length; k++) {
     if (!mask[k]) continue;
-    const parts = componentDensities(fit.parameters, referenceFrequency, spectrum.frequencies[k]!);
+    const parts = componentDensities(fit.parameters, frame, spectrum.frequencies[k]!);
     share = Math.max(share, parts[index] / (parts[0] + parts[1] + parts[2]));
   }
   return share;
@@ -109,6 +111,7 @@ export function fitNoise(spectra: ResidualSpectra, sampleRate: number, stream: R
   // Welch leaves it undoubled, so it shows half the density, as scipy.signal.welch does)
   for (let k = 2; k < n - 1; k++) mask[k] = spectrum.density[k]! > 0 ? 1 : 0;
   const referenceFrequency = Math.sqrt(spectrum.frequencies[2]! * spectrum.frequencies[n - 2]!);
+  const frame: SpectrumFrame = { referenceFrequency, sampleRate };
   const all: SpectrumComponents = { flicker: true, lorentzian: true };
   const lines: number[] = [];
   const step = sampleRate / length;
@@ -120,9 +123,9 @@ export function fitNoise(spectra: ResidualSpectra, sampleRate: number, stream: R
     for (let j = Math.max(0, k - KNOWN_LINE_REACH); j <= Math.min(n - 1, k + KNOWN_LINE_REACH); j++) mask[j] = 0;
   }
   const threshold = Math.max(LINE_FACTOR, 1 + 6 * spectrum.relativeError);
-  let full = fitComponents(spectrum, mask, all, referenceFrequency);
+  let full = fitComponents(spectrum, mask, all, frame);
   for (let round = 0; round < 8; round++) {
-    const height = (k: number) => spectrum.density[k]! / expectedDensity(full, spectrum, referenceFrequency, k);
+    const height = (k: number) => spectrum.density[k]! / expectedDensity(full, spectrum, frame, k);
     const peaks: { k: number; height: number }[] = [];
     for (let k = 0; k < n; k++) if (mask[k] && height(k) > threshold) peaks.push({ k, height: height(k) });
     if (peaks.length === 0) break;
@@ -132,14 +135,14 @@ export function fitNoise(spectra: ResidualSpectra, sampleRate: number, stream: R
       const reach = Math.ceil(Math.max(2, ((100 * h) / (Math.PI * Math.PI)) ** (1 / 6)));
       for (let j = Math.max(0, k - reach); j <= Math.min(n - 1, k + reach); j++) mask[j] = 0;
     }
-    full = fitComponents(spectrum, mask, all, referenceFrequency);
+    full = fitComponents(spectrum, mask, all, frame);
   }
-  const white = fitComponents(spectrum, mask, { flicker: false, lorentzian: false }, referenceFrequency);
-  const flickerOnly = fitComponents(spectrum, mask, { flicker: true, lorentzian: false }, referenceFrequency);
-  const lorentzOnly = fitComponents(spectrum, mask, { flicker: false, lorentzian: true }, referenceFrequency);
+  const white = fitComponents(spectrum, mask, { flicker: false, lorentzian: false }, frame);
+  const flickerOnly = fitComponents(spectrum, mask, { flicker: true, lorentzian: false }, frame);
+  const lorentzOnly = fitComponents(spectrum, mask, { flicker: false, lorentzian: true }, frame);
   const test = (without: ComponentFit, within: ComponentFit, index: 1 | 2): ComponentTest => {
     const deviance = Math.max(0, 2 * (without.objective - within.objective));
-    const share = largestShare(within, spectrum, mask, referenceFrequency, index);
+    const share = largestShare(within, spectrum, mask, frame, index);
     return { deviance, share, kept: deviance > COMPONENT_DEVIANCE && share >= RELEVANT_SHARE };
   };
   let flicker = test(lorentzOnly, full, 1), lorentzian = test(flickerOnly, full, 2);
@@ -154,15 +157,15 @@ export function fitNoise(spectra: ResidualSpectra, sampleRate: number, stream: R
     else if (lorentzian.kept) { chosen = lorentzOnly; flicker = { ...flicker, kept: false }; }
     else chosen = white;
   }
-  const errors = bootstrapErrors(spectra, sampleRate, mask, referenceFrequency, chosen, stream, resamples, readings);
+  const errors = bootstrapErrors(spectra, sampleRate, mask, frame, chosen, stream, resamples, readings);
   return {
-    spectrum, mask, lines, referenceFrequency, segmentLength: spectra.segmenter.segmentLength,
+    spectrum, mask, lines, referenceFrequency, frame, segmentLength: spectra.segmenter.segmentLength,
     segments: spectra.segments.reduce((a, b) => a + b, 0), chosen, flicker, lorentzian, errors,
   };
 }
 
 function bootstrapErrors(
-  spectra: ResidualSpectra, sampleRate: number, mask: Uint8Array, referenceFrequency: number, chosen: ComponentFit, stream: RandomStream, resamples: number,
+  spectra: ResidualSpectra, sampleRate: number, mask: Uint8Array, frame: SpectrumFrame, chosen: ComponentFit, stream: RandomStream, resamples: number,
   readings: readonly BinReading[],
 ): NoiseFit['errors'] {
   const counts = new Float64Array(spectra.segments.length);
@@ -170,7 +173,7 @@ function bootstrapErrors(
   for (let b = 0; b < resamples; b++) {
     drawGroupCounts(stream, counts);
     const again = measured(spectra, sampleRate, counts, readings);
-    draws.push(fitFrom(again, mask, chosen.components, referenceFrequency, chosen.parameters).parameters);
+    draws.push(fitFrom(again, mask, chosen.components, frame, chosen.parameters).parameters);
   }
   const sd = (f: (p: SpectrumParameters) => number) => spread(draws.map(f));
   return {

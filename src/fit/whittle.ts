@@ -23,7 +23,7 @@
 import { choleskyLower } from '../analysis/cholesky.ts';
 import type { BinReading } from './welch-window.ts';
 import {
-  densityAndLogGradient, fromVector, layoutOf, toVector, type SpectrumComponents, type SpectrumParameters,
+  densityAndLogGradient, fromVector, layoutOf, toVector, type SpectrumComponents, type SpectrumFrame, type SpectrumParameters,
 } from './spectrum-model.ts';
 
 /** A measured spectrum and how much each bin weighs. */
@@ -73,7 +73,7 @@ interface Bounds {
   hi: Float64Array;
 }
 
-function boundsOf(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponents, referenceFrequency: number): Bounds {
+function boundsOf(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponents, frame: SpectrumFrame): Bounds {
   let fLo = Infinity, fHi = 0, sLo = Infinity, sHi = 0;
   for (let k = 0; k < mask.length; k++) {
     if (!mask[k]) continue;
@@ -87,7 +87,7 @@ function boundsOf(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponent
   if (c.flicker) {
     amplitude(at.flicker);
     // the 1/f amplitude is its density at the reference frequency, inside the band
-    hi[at.flicker] = Math.log(Math.max(1e-300, sHi * 1e4 * (fHi / referenceFrequency) ** 3));
+    hi[at.flicker] = Math.log(Math.max(1e-300, sHi * 1e4 * (fHi / frame.referenceFrequency) ** 3));
     lo[at.flicker + 1] = 0.05; hi[at.flicker + 1] = 3;
   }
   if (c.lorentzian) {
@@ -100,12 +100,12 @@ function boundsOf(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponent
 }
 
 /** What bin `reading` expects of the model v, and ∂ln/∂θ of it into `gradient` (`scratch`: same length). */
-export function expectedBin(v: Float64Array, c: SpectrumComponents, referenceFrequency: number, reading: BinReading, gradient: Float64Array, scratch: Float64Array): number {
-  if (reading.weights.length === 1) return densityAndLogGradient(v, c, referenceFrequency, reading.frequencies[0]!, gradient);
+export function expectedBin(v: Float64Array, c: SpectrumComponents, frame: SpectrumFrame, reading: BinReading, gradient: Float64Array, scratch: Float64Array): number {
+  if (reading.weights.length === 1) return densityAndLogGradient(v, c, frame, reading.frequencies[0]!, gradient);
   gradient.fill(0);
   let expected = 0;
   for (let q = 0; q < reading.weights.length; q++) {
-    const part = reading.weights[q]! * densityAndLogGradient(v, c, referenceFrequency, reading.frequencies[q]!, scratch);
+    const part = reading.weights[q]! * densityAndLogGradient(v, c, frame, reading.frequencies[q]!, scratch);
     expected += part;
     for (let j = 0; j < gradient.length; j++) gradient[j] += part * scratch[j]!;
   }
@@ -114,25 +114,25 @@ export function expectedBin(v: Float64Array, c: SpectrumComponents, referenceFre
 }
 
 /** −ℓ of vector v over the masked bins. */
-function objectiveOf(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponents, referenceFrequency: number, v: Float64Array, gradient: Float64Array, scratch: Float64Array): number {
+function objectiveOf(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponents, frame: SpectrumFrame, v: Float64Array, gradient: Float64Array, scratch: Float64Array): number {
   let total = 0;
   for (let k = 0; k < mask.length; k++) {
     if (!mask[k]) continue;
-    const s = expectedBin(v, c, referenceFrequency, data.readings[k]!, gradient, scratch);
+    const s = expectedBin(v, c, frame, data.readings[k]!, gradient, scratch);
     total += Math.log(s) + data.density[k]! / s;
   }
   return data.weight * total;
 }
 
 /** Levenberg–Marquardt from `start` (see the file comment); returns the minimum. */
-export function fitFrom(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponents, referenceFrequency: number, start: SpectrumParameters): ComponentFit {
-  const bounds = boundsOf(data, mask, c, referenceFrequency);
+export function fitFrom(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponents, frame: SpectrumFrame, start: SpectrumParameters): ComponentFit {
+  const bounds = boundsOf(data, mask, c, frame);
   const p = bounds.lo.length;
   const clamp = (v: Float64Array) => { for (let j = 0; j < p; j++) v[j] = Math.min(bounds.hi[j]!, Math.max(bounds.lo[j]!, v[j]!)); return v; };
   let v = clamp(toVector(start));
   const d = new Float64Array(p), scratch = new Float64Array(p), grad = new Float64Array(p), info = new Float64Array(p * p), damped = new Float64Array(p * p);
   const step = new Float64Array(p), y = new Float64Array(p);
-  let objective = objectiveOf(data, mask, c, referenceFrequency, v, d, scratch);
+  let objective = objectiveOf(data, mask, c, frame, v, d, scratch);
   let mu = 1e-3;
   let converged = false;
   for (let iteration = 0; iteration < 400 && !converged; iteration++) {
@@ -140,7 +140,7 @@ export function fitFrom(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumCom
     info.fill(0);
     for (let k = 0; k < mask.length; k++) {
       if (!mask[k]) continue;
-      const s = expectedBin(v, c, referenceFrequency, data.readings[k]!, d, scratch);
+      const s = expectedBin(v, c, frame, data.readings[k]!, d, scratch);
       const r = 1 - data.density[k]! / s;
       for (let i = 0; i < p; i++) {
         grad[i] += r * d[i]!;
@@ -164,7 +164,7 @@ export function fitFrom(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumCom
         step[i] = factor[i * p + i]! > 0 ? s / factor[i * p + i]! : 0;
       }
       const trial = clamp(Float64Array.from(v, (x, j) => x + step[j]!));
-      const value = objectiveOf(data, mask, c, referenceFrequency, trial, d, scratch);
+      const value = objectiveOf(data, mask, c, frame, trial, d, scratch);
       if (value < objective) {
         const gain = objective - value;
         v = trial;
@@ -182,7 +182,7 @@ export function fitFrom(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumCom
 }
 
 /** The best fit of components `c` over a few starts (see the file comment). */
-export function fitComponents(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponents, referenceFrequency: number): ComponentFit {
+export function fitComponents(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumComponents, frame: SpectrumFrame): ComponentFit {
   const used: number[] = [];
   let fLo = Infinity, fHi = 0;
   for (let k = 0; k < mask.length; k++) {
@@ -202,10 +202,10 @@ export function fitComponents(data: MeasuredSpectrum, mask: Uint8Array, c: Spect
     for (const correlationTime of times) {
       const start: SpectrumParameters = {
         white,
-        flicker: c.flicker ? { amplitude: excess * (fLo / referenceFrequency) ** exponent, exponent } : null,
+        flicker: c.flicker ? { amplitude: excess * (fLo / frame.referenceFrequency) ** exponent, exponent } : null,
         lorentzian: c.lorentzian ? { amplitude: 2 * excess, correlationTime } : null,
       };
-      const fit = fitFrom(data, mask, c, referenceFrequency, start);
+      const fit = fitFrom(data, mask, c, frame, start);
       if (!best || fit.objective < best.objective) best = fit;
     }
   }

@@ -29,7 +29,7 @@ async function roundTrip(name: string, keep: 'raw' | 'baseband', labels: string 
   const scenario = `test/fixtures/fit/${name}.yaml`;
   const dir = join(work, name);
   const original = await runToDirectory({ scenarioPath: scenario, outDir: dir, keepTraces: keep, engine: 'traces', workers: 1, report: false, shotsTable: false });
-  const fit = await fitToScenario({ records: join(dir, 'traces.arrow'), labels, out: join(work, `${name}-twin.yaml`), unit: 'A', resamples: 12, seed: 7 });
+  const fit = await fitToScenario({ records: join(dir, 'traces.arrow'), labels, out: join(work, `${name}-twin.yaml`), resamples: 12, seed: 7 });
   const summary = original.result.points[0]!.summaries[0]!;
   const twin = await runTwin(fit.scenarioPath, `${name}-twin`, 4 * summary.shots);
   return { fit, original: summary, twin, interval: wilsonInterval(summary.meanErrors, summary.shots, 0.99) };
@@ -141,5 +141,7 @@ describe('fit: (c) I/Q pairs with a preparation error, with labels', () => {
     expect(text).toMatch(/white: \{ density: [\d.]+ fA\/rtHz \} +# ± [\d.]+ fA\/rtHz/);
     expect(text).toMatch(/95 % Wilson \[/);
     expect(text).toMatch(/The records' file is dated \d{4}-\d\d-\d\d\./);
+    expect(text).toMatch(/^ {2}unit: A$/m); // from the records column's field metadata
+    expect(r.fit.notes.join('\n')).not.toMatch(/unit|window|sample rate/); // all three are in the file
   });
 });

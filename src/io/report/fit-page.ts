@@ -57,9 +57,9 @@ function spectrumFigures(f: FittedReadout, unit: string): { spectrum: PlotSpec; 
   for (let k = 2; k < s.density.length - 1; k++) {
     const freq = s.frequencies[k]!;
     components.push({ name: 'measured', f: freq, psd: amplitude(s.density[k]!) });
-    const expected = expectedDensity(fit.chosen, s, fit.referenceFrequency, k);
+    const expected = expectedDensity(fit.chosen, s, fit.frame, k);
     components.push({ name: 'fitted, as the window sees it', f: freq, psd: amplitude(expected) });
-    const [w, a, b] = componentDensities(p, fit.referenceFrequency, freq);
+    const [w, a, b] = componentDensities(p, fit.frame, freq);
     components.push({ name: 'white', f: freq, psd: amplitude(w) });
     if (p.flicker) components.push({ name: '1/f', f: freq, psd: amplitude(a) });
     if (p.lorentzian) components.push({ name: 'correlated (Lorentzian)', f: freq, psd: amplitude(b) });
@@ -101,13 +101,18 @@ function estimatesTable(f: FittedReadout, unit: string): TableView {
   rows.push(['correlated noise density', n.correlated.test.kept ? showValue(n.correlated.density.value, density) : 'none', n.correlated.test.kept ? pm(n.correlated.density, density) : '—',
     `likelihood ratio ${short(n.correlated.test.deviance, 3)}, share ${short(100 * n.correlated.test.share, 2)} %`]);
   if (n.correlated.test.kept) rows.push(['correlation time', showValue(n.correlated.correlationTime.value, 's'), pm(n.correlated.correlationTime, 's'), '']);
-  return { header: ['quantity', 'estimate', 'uncertainty', 'how'], rows, textColumns: 1 };
+  return { header: ['quantity', 'how', 'estimate', 'uncertainty'], rows: rows.map(([q, v, u, h]) => [q!, h!, v!, u!]), textColumns: 2 };
 }
 
-/** The report page of a fit (see the file comment). */
-export async function fitReportHtml(doc: TwinDocument, yaml: string): Promise<string> {
+/** The report page of a fit (see the file comment), and what the plotting library said while drawing it (a clean page: nothing). */
+export async function fitReportHtml(doc: TwinDocument, yaml: string): Promise<{ html: string; warnings: string[] }> {
   const f = doc.fitted, unit = doc.unit;
-  const rendered = async (spec: PlotSpec, id: string) => (await renderPlot(spec, id)).svg;
+  const warnings: string[] = [];
+  const rendered = async (spec: PlotSpec, id: string) => {
+    const plot = await renderPlot(spec, id);
+    warnings.push(...plot.warnings);
+    return plot.svg;
+  };
   const histogram = histogramFigure(f, unit);
   const spectra = spectrumFigures(f, unit);
   const figures: Figure[] = [];
@@ -144,9 +149,10 @@ export async function fitReportHtml(doc: TwinDocument, yaml: string): Promise<st
     ['records', `${f.used} of ${f.rows}`], ['samples', `${f.samples}${f.complex ? ' I/Q pairs' : ''}`], ['sample rate', showValue(f.sampleRate, 'Hz')],
     ['carrier', f.carrier.shape === 'none' ? 'none' : `${f.carrier.shape}, ${showValue(f.carrier.frequency.value, 'Hz')}`], ['file dated', doc.fileDate ?? 'unknown'],
   ];
-  return renderDocumentPage({
+  const html = renderDocumentPage({
     kicker: 'singleshot · a twin fitted to recorded traces', name: `Fit of ${doc.records}`,
     description: doc.labels ? `With the labels ${doc.labels}.` : 'Without labels.', facts, sections,
     footerNote: 'The fitted scenario, as written beside this page:', footerText: yaml,
   });
+  return { html, warnings };
 }
