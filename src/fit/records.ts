@@ -1,6 +1,6 @@
 /**
  * Recorded readout traces as the fit reads them: rows of real samples, or of I and Q. A record
- * set of src/io/records (any file format) is one; a test can hand in arrays.
+ * set of src/io/records (any file format) is one.
  */
 
 /** Rows of samples, read one at a time into the caller's buffers. */
@@ -15,13 +15,3 @@ export interface RecordSource {
   row(r: number, outI: Float64Array, outQ: Float64Array | null): void;
 }
 
-/** A source over records held in memory (row-major, `samples` per row; `quadrature` for complex records). */
-export function recordsInMemory(source: string, samples: number, inPhase: Float64Array, quadrature: Float64Array | null = null): RecordSource {
-  return {
-    source, samples, rows: Math.floor(inPhase.length / samples), complex: quadrature !== null,
-    row(r, outI, outQ) {
-      outI.set(inPhase.subarray(r * samples, (r + 1) * samples));
-      if (quadrature && outQ) outQ.set(quadrature.subarray(r * samples, (r + 1) * samples));
-    },
-  };
-}

@@ -144,4 +144,12 @@ describe('fit: (c) I/Q pairs with a preparation error, with labels', () => {
     expect(text).toMatch(/^ {2}unit: A$/m); // from the records column's field metadata
     expect(r.fit.notes.join('\n')).not.toMatch(/unit|window|sample rate/); // all three are in the file
   });
+
+  it('writes the fit report beside it: the histogram, the spectrum and its residuals, drawn without a warning', () => {
+    const page = readFileSync(r.fit.reportPath!, 'utf8');
+    expect(r.fit.reportPath).toBe(r.fit.scenarioPath.replace(/\.yaml$/, '.html'));
+    expect(page.match(/<svg/g)).toHaveLength(3);
+    expect(r.fit.reportWarnings).toEqual([]);
+    expect(page).toContain("content=\"default-src 'none'");
+  });
 });
