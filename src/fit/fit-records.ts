@@ -130,7 +130,7 @@ export function fitRecords(src: RecordSource, s: FitSettings): FittedReadout {
     ? { kind: 'along-axis', levels: levels.measured, axis: { cos: Math.cos(levels.rotation), sin: Math.sin(levels.rotation) } }
     : src.complex
       ? { kind: 'along-axis', levels: levels.measured, axis: { cos: 1, sin: 0 } }
-      : { kind: 'record', waveforms: levels.measured.map((l) => waveformOf(l, carrier, samples, fs)) as [Float64Array, Float64Array] };
+      : { kind: 'record', waveforms: [0, 1].map((m) => waveformOf({ re: levels.re[m]!.value, im: levels.im[m]!.value }, carrier, levels.rotation, samples, fs)) as [Float64Array, Float64Array] };
   const segmentLength = chooseSegmentLength(reading, plan, MIN_SEGMENT);
   if (segmentLength === 0) throw new InputError(src.source, '', `clean stretches of at least ${MIN_SEGMENT} samples (records that stay at one level that long)`, 'none');
   const spectra = residualSpectra(src, plan, reading, residual, segmentLength, groups);
@@ -214,10 +214,14 @@ export function fitRecords(src: RecordSource, s: FitSettings): FittedReadout {
   };
 }
 
-/** The noise-free record of a level: constant at baseband, the level on the carrier otherwise (signal/carrier.ts). */
-function waveformOf(level: { re: number; im: number }, carrier: { frequency: number; shape: 'sine' | 'square' } | null, samples: number, fs: number): Float64Array {
+/**
+ * The noise-free record of a level in the twin's frame (levels turned by the carrier phase χ):
+ * constant at baseband, the level on the carrier at phase χ otherwise (signal/carrier.ts) — for a
+ * square carrier a phase is not a turn of the level, so the frame matters.
+ */
+function waveformOf(level: { re: number; im: number }, carrier: { frequency: number; shape: 'sine' | 'square' } | null, phase: number, samples: number, fs: number): Float64Array {
   if (!carrier) return new Float64Array(samples).fill(level.re);
-  const tables = carrierTables({ shape: carrier.shape, frequency: carrier.frequency, phase: 0 }, samples, fs);
+  const tables = carrierTables({ shape: carrier.shape, frequency: carrier.frequency, phase }, samples, fs);
   return stateWaveform(tables, level.re, level.im, 1, new Float64Array(samples));
 }
 

@@ -1,6 +1,9 @@
 /**
- * The noise of the records: their clean stretches (posteriors.ts) with the fitted level taken
- * away, cut into Welch segments (analysis/welch.ts) and summed per group of records. Real
+ * The noise of the records: their clean stretches (posteriors.ts) inside the integration window,
+ * with the fitted level taken away, cut into Welch segments (analysis/welch.ts) and summed per
+ * group of records. Inside the window, because that is the noise a readout integrates — and
+ * because records kept by `run --keep-traces` carry their slow and correlated noise only on the
+ * samples the pipelines read (engine/trace/collect.ts pads the rest with white noise). Real
  * records lose their state's waveform (the level, or the level on the carrier), so their
  * spectrum is that of the additive noise of the record. Complex records lose their state's
  * level and are projected onto the axis that separates the levels: the spectrum along the
@@ -28,21 +31,21 @@ export interface ResidualSpectra {
   segments: Float64Array;
 }
 
-/** Sample range [lo, hi) of a stretch of bins [first, end) (a stretch that reaches an end of the record takes that end's samples). */
+/** Sample range [lo, hi) of a stretch of bins [first, end) inside the window (a stretch that reaches an end of the record takes that end's samples). */
 function stretchSamples(first: number, end: number, plan: BinPlan): [number, number] {
   const lo = first === 0 ? 0 : first * plan.binSamples;
   const hi = end === plan.bins ? plan.samples : end * plan.binSamples;
-  return [lo, hi];
+  return [Math.max(lo, plan.windowLo), Math.min(hi, plan.windowHi)];
 }
 
-/** The segment length: a power of two ≤ 4096, ≤ half a record where possible, and short enough that most clean samples lie in stretches that hold a segment; 0 when no stretch holds the shortest. */
+/** The segment length: a power of two ≤ 4096, ≤ half the window where possible, and short enough that most clean samples lie in stretches that hold a segment; 0 when no stretch holds the shortest. */
 export function chooseSegmentLength(reading: RecordReading, plan: BinPlan, shortest: number): number {
   let length = shortest;
-  while (length * 2 <= Math.min(4096, Math.max(shortest, plan.samples / 2))) length *= 2;
+  while (length * 2 <= Math.min(4096, Math.max(shortest, (plan.windowHi - plan.windowLo) / 2))) length *= 2;
   const lengths: number[] = [];
   for (let j = 0; j < reading.stretchCount; j++) {
     const [lo, hi] = stretchSamples(reading.stretches[4 * j + 1]!, reading.stretches[4 * j + 2]!, plan);
-    lengths.push(hi - lo);
+    lengths.push(Math.max(0, hi - lo));
   }
   const total = lengths.reduce((a, b) => a + b, 0);
   const covered = (l: number) => lengths.reduce((a, b) => a + (b >= l ? b : 0), 0);

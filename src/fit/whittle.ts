@@ -171,7 +171,8 @@ export function fitFrom(data: MeasuredSpectrum, mask: Uint8Array, c: SpectrumCom
         objective = value;
         mu = Math.max(mu / 4, 1e-12);
         accepted = true;
-        converged = gain < 1e-10 * (1 + Math.abs(objective));
+        // −ℓ carries a large constant (Σ ln S): its gains are judged in absolute log-likelihood units
+        converged = gain < 1e-8;
         break;
       }
       mu *= 8;

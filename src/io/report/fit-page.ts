@@ -128,7 +128,7 @@ export async function fitReportHtml(doc: TwinDocument, yaml: string): Promise<{ 
     { id: 'window', title: 'Window means', intro: [], figures, tables: [], ...(histogram ? {} : { note: 'The window means do not spread: nothing to draw.' }) },
     {
       id: 'spectrum', title: 'Noise spectrum', intro: [
-        `Welch's method over ${short(fit.segments, 6)} segments of ${fit.segmentLength} samples, from stretches of records that stay at one level, with that level taken away${f.noise.domain === 'pair' ? ', projected on the separation of the I/Q pairs' : ''}. Fitted by maximum likelihood on the periodogram (Whittle), the model seen through the window.`,
+        `Welch's method over ${short(fit.segments, 6)} segments of ${fit.segmentLength} samples, from the stretches of records inside the window that stay at one level, with that level taken away${f.noise.domain === 'pair' ? ', projected on the separation of the I/Q pairs' : ''}. Fitted by maximum likelihood on the periodogram (Whittle), the model seen through the window.`,
         fit.lines.length ? `Left out as lines: ${fit.lines.map((x) => showValue(x, 'Hz')).join(', ')}.` : 'No line was left out.',
       ],
       figures: [
