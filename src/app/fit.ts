@@ -22,6 +22,7 @@ import { formatQuantity } from '../scenario/units.ts';
 /** Fewest records the fit takes (the bootstrap needs groups of them). */
 export const MIN_RECORDS = 10;
 
+/** What to fit and where to write it; every setting left out is taken from the file, or found, or noted. */
 export interface FitOptions {
   /** Records: FILE or FILE:NAME (io/records/open.ts). */
   records: string;
@@ -48,6 +49,7 @@ export interface FitOptions {
   force?: boolean;
 }
 
+/** What the fit found, where it wrote it, and what it had to decide on its own. */
 export interface FitResult {
   fitted: FittedReadout;
   scenarioPath: string;

@@ -52,6 +52,7 @@ export interface EnvelopeScratch {
   zIm: Float64Array;
 }
 
+/** Buffers for records of `samples` samples. */
 export function makeEnvelopeScratch(samples: number): EnvelopeScratch {
   return { inPhase: new Float64Array(samples), quadrature: new Float64Array(samples), zRe: new Float64Array(samples), zIm: new Float64Array(samples) };
 }

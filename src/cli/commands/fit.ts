@@ -66,6 +66,7 @@ export function formatFit(r: FitResult): string {
   return lines.join('\n');
 }
 
+/** The `fit` command. */
 export function makeFitCommand(): Command {
   return new Command('fit')
     .description('fit a scenario (a twin) to recorded traces: levels, carrier, noise spectrum, transition rates, preparation errors')
