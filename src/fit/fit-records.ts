@@ -134,6 +134,7 @@ export function fitRecords(src: RecordSource, s: FitSettings): FittedReadout {
   const segmentLength = chooseSegmentLength(reading, plan, MIN_SEGMENT);
   if (segmentLength === 0) throw new InputError(src.source, '', `clean stretches of at least ${MIN_SEGMENT} samples (records that stay at one level that long)`, 'none');
   const spectra = residualSpectra(src, plan, reading, residual, segmentLength, groups);
+  if (!spectra.sums.some((x) => x > 0)) throw new InputError(src.source, '', 'records with noise (the twin\'s noise comes from their spectrum)', 'records without any noise');
   const knownLines = pair && s.pairCarrier !== null ? [2 * s.pairCarrier] : carrier ? [1, 2, 3].map((h) => h * carrier!.frequency) : [];
   const noiseFit = fitNoise(spectra, fs, makeStream(s.seed, 0, 'aux', 1), s.resamples, knownLines);
   const noise = twinNoise(noiseFit, pair ? 'pair' : 'record', fs);

@@ -135,10 +135,10 @@ export function learnTwoLevels(b: BinnedRecords, labels: Uint8Array | null, sour
   const levelDeviance = 2 * (learned.logLikelihood - oneLevel);
   const shares = stateShares(learned, labels, b.count);
   const gap = Math.abs(learned.offsets[1]! - learned.offsets[0]!);
-  if (!(levelDeviance >= LEVEL_DEVIANCE) || Math.min(...shares) < MIN_SHARE || !(gap > 0)) {
-    throw new InputError(source, '', 'records that show two levels (the two states of the readout)',
-      `one level: two levels fit no better than one (deviance ${levelDeviance.toFixed(1)}, needed ${LEVEL_DEVIANCE}; shares ${shares.map((s) => s.toFixed(4)).join(', ')})`);
-  }
+  const why = !(gap > 0 && Number.isFinite(gap)) ? 'the two levels coincide'
+    : !(levelDeviance >= LEVEL_DEVIANCE) ? `two levels fit no better than one (deviance ${levelDeviance.toFixed(1)}, needed ${LEVEL_DEVIANCE})`
+      : Math.min(...shares) < MIN_SHARE ? `one level holds almost every record (shares ${shares.map((s) => s.toPrecision(3)).join(', ')})` : null;
+  if (why) throw new InputError(source, '', 'records that show two levels (the two states of the readout)', `one level: ${why}`);
   return { axis, records, learned, levelDeviance, shares };
 }
 

@@ -1,8 +1,8 @@
 /**
  * `singleshot fit` on the command line: records in a NumPy file with no attributes (so the sample
  * rate comes from the option and the window, unit and carrier are said to be missing), and wrong
- * input — no sample rate anywhere, records too short for one Welch segment, one level only,
- * labels of the wrong length, an option that is not a quantity — refused with one line and exit
+ * input — no sample rate anywhere, records too short for one Welch segment, one level only, no
+ * noise, labels of the wrong length, an option that is not a quantity — refused with one line and exit
  * 2, no stack trace and no file written.
  */
 import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
@@ -17,11 +17,12 @@ import { writeNpy } from '../support/npy-file.ts';
 const work = mkdtempSync(join(tmpdir(), 'singleshot-fit-cli-'));
 const ROWS = 300;
 
-/** Baseband records: level 0 or `separation` (alternating with the label), white noise of σ = 1 per sample. */
-function writeRecords(name: string, samples: number, separation: number): string {
+/** Baseband records: level 0 or `separation` (alternating with the label), white noise of σ per sample. */
+function writeRecords(name: string, samples: number, separation: number, sigma = 1): string {
   const stream = makeStream(41, 0, 'aux', 0);
   const x = new Float64Array(ROWS * samples);
   stream.fillNormals(x, 0, x.length);
+  for (let i = 0; i < x.length; i++) x[i]! *= sigma;
   for (let r = 0; r < ROWS; r++) for (let k = 0; k < samples; k++) x[r * samples + k]! += (r % 2) * separation;
   const path = join(work, name);
   writeNpy(path, x, [ROWS, samples]);
@@ -83,6 +84,10 @@ describe('singleshot fit', () => {
 
   it('refuses records of a single level', async () => {
     await refused([writeRecords('flat.npy', 256, 0), '--sample-rate', '1 MHz'], join(work, 'c.yaml'), /flat\.npy: expected records that show two levels .*, found one level: two levels fit no better than one/);
+  });
+
+  it('refuses records without noise (there is no spectrum to fit)', async () => {
+    await refused([writeRecords('clean.npy', 256, 1, 0), '--sample-rate', '1 MHz'], join(work, 'f.yaml'), /clean\.npy: expected records with noise .*, found records without any noise$/);
   });
 
   it('refuses labels of the wrong length', async () => {
