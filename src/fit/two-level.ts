@@ -109,18 +109,18 @@ export function learnTwoLevels(b: BinnedRecords, labels: Uint8Array | null, sour
   const m = b.bins;
   const recordMeans = Float64Array.from(meansRe, (re, r) => re * axis.cos + meansIm[r]! * axis.sin);
   const [lo, hi] = twoMeans(recordMeans);
-  const differences: number[] = [];
-  let total = 0, squares = 0;
+  const differences = new Float64Array(b.count * Math.max(0, m - 1));
+  let total = 0, squares = 0, d = 0;
   for (let r = 0; r < b.count; r++) {
     for (let k = 0; k < m; k++) {
       const y = records.projected[r * m + k]!;
       total += y; squares += y * y;
-      if (k > 0) differences.push(Math.abs(y - records.projected[r * m + k - 1]!));
+      if (k > 0) differences[d++] = Math.abs(y - records.projected[r * m + k - 1]!);
     }
   }
   const n = b.count * m;
   const variance = Math.max(1e-300, squares / n - (total / n) ** 2);
-  differences.sort((x, y) => x - y);
+  differences.sort();
   const robust = differences.length ? differences[differences.length >> 1]! / (0.6745 * Math.SQRT2) : 0;
   const sigma = robust > 0 ? robust : Math.sqrt(variance);
   const flip = Math.min(0.05, 1 / Math.max(2, m));
