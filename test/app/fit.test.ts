@@ -10,7 +10,8 @@
  *   it was fitted from (analysis/intervals.ts) — the twin run with four times the shots so that
  *   its own Monte Carlo spread is half the original's; and, as a negative control, a twin with a
  *   wrong T1 outside it;
- * - the written file is accepted by the project's scenario parser.
+ * - the written file is accepted by the project's scenario parser;
+ * - in (b), the same records as a NumPy file that does not say its carrier: the carrier found.
  * Fixed seeds throughout (the scenarios' and the fit's), so every run gives the same numbers.
  */
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
@@ -21,6 +22,8 @@ import { fitToScenario, type FitResult } from '../../src/app/fit.ts';
 import { runToDirectory } from '../../src/app/run-to-directory.ts';
 import { wilsonInterval } from '../../src/analysis/intervals.ts';
 import { loadScenarioText } from '../../src/scenario/load.ts';
+import { openRecords } from '../../src/io/records/open.ts';
+import { writeNpy } from '../support/npy-file.ts';
 
 const work = mkdtempSync(join(tmpdir(), 'singleshot-fit-'));
 
@@ -103,6 +106,24 @@ describe('fit: (b) records on a sine carrier with white and 1/f noise', () => {
     expect(r.twin.meanError.rate, `twin ${r.twin.meanError.rate}, original [${r.interval.low}, ${r.interval.high}]`).toBeGreaterThanOrEqual(r.interval.low);
     expect(r.twin.meanError.rate).toBeLessThanOrEqual(r.interval.high);
   });
+
+  it('finds the carrier itself in records that do not say it (a NumPy file), within four standard errors', async () => {
+    const set = await openRecords(join(work, 'carrier-flicker', 'traces.arrow'));
+    const x = new Float64Array(set.rows * set.samples), row = new Float64Array(set.samples);
+    for (let i = 0; i < set.rows; i++) { set.row(i, row, null); x.set(row, i * set.samples); }
+    const npy = join(work, 'carrier-flicker.npy');
+    writeNpy(npy, x, [set.rows, set.samples]);
+    const fit = await fitToScenario({ records: npy, out: join(work, 'carrier-flicker-found.yaml'), sampleRate: 20e6, window: { start: 2e-6, length: 20e-6 }, unit: 'A', resamples: 12, seed: 7, report: false });
+    const c = fit.fitted.carrier;
+    if (c.shape === 'none') throw new Error('no carrier found');
+    expect(c.origin).toBe('found');
+    expect(fit.notes.join('\n')).toMatch(/carrier: not given .* searched the records for one\ncarrier: found at [\d.]+ [kM]Hz \(sine\)/);
+    // truth: 1 MHz at 30° (test/fixtures/fit/carrier-flicker.yaml)
+    expect(Math.abs(c.frequency.value - 1e6), `${c.frequency.value} ± ${c.frequency.standardError}`).toBeLessThan(4 * c.frequency.standardError);
+    expect(Math.abs(c.phase.value - Math.PI / 6), `${c.phase.value} ± ${c.phase.standardError}`).toBeLessThan(4 * c.phase.standardError);
+    expect(within(level(fit, 0).re.value, 50e-12, 0.02)).toBe(true);
+    expect(within(level(fit, 1).re.value, 130e-12, 0.02)).toBe(true);
+  }, 60_000);
 });
 
 describe('fit: (c) I/Q pairs with a preparation error, with labels', () => {
