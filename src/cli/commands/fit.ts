@@ -9,7 +9,8 @@ function quantityOption(option: string, dimension: DimensionName, example: strin
   return (text: string): number => {
     let q;
     try {
-      q = parseQuantity(text.replace(/^([-+.\d eE]+?)(?=[A-Za-zµμ])/, '$1 '));
+      // "50MHz" reads as "50 MHz": a number, then the unit
+      q = parseQuantity(text.replace(/^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*/, '$1 ').trim());
     } catch (e) {
       if (!(e instanceof UnitSyntaxError)) throw e;
       throw new InvalidArgumentError(`${option} takes a quantity like "${example}", found "${text}" (${e.message})`);
