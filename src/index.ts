@@ -20,5 +20,6 @@ export { barthelErrors } from './analysis/barthel.ts';
 export { gaussianTail } from './analysis/special.ts';
 export { wilsonInterval, clopperPearsonInterval } from './analysis/intervals.ts';
 export { resultToJson } from './app/result-json.ts';
+export { fitToScenario, type FitOptions, type FitResult } from './app/fit.ts';
 export { InputError } from './errors.ts';
 export { main } from './cli/main.ts';

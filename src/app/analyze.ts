@@ -55,6 +55,10 @@ export interface AnalyzeOptions {
   sampleRate?: number;
   /** The records' carrier (Hz), where neither the pipeline file nor the file says it; 0 for none. */
   carrierFrequency?: number;
+  /** The records' window (s), where neither the pipeline file nor the file says it. */
+  window?: { start: number; length: number };
+  /** The unit of the records after the scale ('A', 'V' or '' for plain numbers), where the file does not say it. */
+  unit?: string;
   outDir: string;
   force?: boolean;
   /** Aborting it stops the analysis between batches of records (RunInterrupted). */
@@ -145,7 +149,7 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
   const resolved = resolveAnalysis(file, {
     samples: records.samples, sampleRate: o.sampleRate ?? at.sampleRate ?? null,
     carrierFrequency: o.carrierFrequency ?? (records.complex ? 0 : at.carrierFrequency ?? null), carrierPhase: at.carrierPhase ?? null,
-    windowStart: at.windowStart ?? null, windowLength: at.windowLength ?? null,
+    windowStart: o.window?.start ?? at.windowStart ?? null, windowLength: o.window?.length ?? at.windowLength ?? null,
   }, records.source);
   if (records.complex && resolved.carrierFrequency > 0) {
     throw new InputError(file.file, 'carrier', 'no carrier for complex records (I and Q are baseband channels, already demodulated)', `${resolved.carrierFrequency} Hz`);
@@ -193,7 +197,7 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
   const analysis = await analyzeRecords({
     source: records, labels: score?.values ?? null, outcomes, spec: resolved.pipeline, grid, carrier, plan, signal: o.signal,
   });
-  const unit = at.unit ?? '';
+  const unit = o.unit ?? at.unit ?? '';
   const files = writeFolder(o, file, records, score, outcomes, unit, analysis, resolved);
   const scoredRows = analysis.summary?.shots ?? 0;
   return {

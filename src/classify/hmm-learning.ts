@@ -52,6 +52,77 @@ export interface HmmLearned {
   iterations: number;
 }
 
+/** The buffers of one record's forward–backward pass (m bins, n states), row-major by bin. */
+export interface HmmPass {
+  alpha: Float64Array;
+  beta: Float64Array;
+  emit: Float64Array;
+  scale: Float64Array;
+}
+
+/** Buffers for records of up to `bins` bins and `states` states. */
+export function makeHmmPass(bins: number, states: number): HmmPass {
+  return { alpha: new Float64Array(bins * states), beta: new Float64Array(bins * states), emit: new Float64Array(bins * states), scale: new Float64Array(bins) };
+}
+
+/** The model a forward–backward pass reads: state s emits N(shapes[s][k] + offsets[s], σ²) in bin k. */
+export interface HmmEmissions {
+  shapes: readonly Float64Array[];
+  offsets: readonly number[];
+  sigma: number;
+  /** N×N per-bin transition matrix, row-major. */
+  transition: Float64Array;
+}
+
+/**
+ * The scaled forward–backward pass of the record y[base, base + m) (Rabiner eqs. 19–25, 91–93)
+ * into `pass`: afterwards the posterior of state s in bin k is alpha[k·n + s]·beta[k·n + s].
+ * Returns `logLikelihood` plus the record's log-likelihood, added bin by bin.
+ */
+export function forwardBackward(
+  y: Float64Array, base: number, m: number, model: HmmEmissions, prior: Float64Array, pass: HmmPass, logLikelihood = 0,
+): number {
+  const n = model.shapes.length;
+  const { alpha, beta, emit, scale } = pass;
+  const { shapes, offsets, transition } = model;
+  const sigma = model.sigma;
+  const inverseTwoVariance = 1 / (2 * sigma * sigma), normaliser = 1 / (sigma * Math.sqrt(2 * Math.PI));
+  // emissions, with the shared factor 1/(σ√2π) kept in each bin's scale
+  for (let k = 0; k < m; k++) {
+    const v = y[base + k]!;
+    for (let s = 0; s < n; s++) {
+      const d = v - shapes[s]![k]! - offsets[s]!;
+      emit[k * n + s] = Math.exp(-d * d * inverseTwoVariance);
+    }
+  }
+  // forward, scaled so that Σ_s α_k(s) = 1 (Rabiner eq. 91)
+  for (let k = 0; k < m; k++) {
+    let c = 0;
+    for (let s = 0; s < n; s++) {
+      let a = 0;
+      if (k === 0) a = prior[s]!;
+      else for (let p = 0; p < n; p++) a += alpha[(k - 1) * n + p]! * transition[p * n + s]!;
+      a *= emit[k * n + s]!;
+      alpha[k * n + s] = a;
+      c += a;
+    }
+    // a record far from every state (c underflows): spread it evenly rather than divide by 0
+    if (!(c > 0)) { for (let s = 0; s < n; s++) alpha[k * n + s] = 1 / n; c = 1e-300; } else for (let s = 0; s < n; s++) alpha[k * n + s]! /= c;
+    scale[k] = c;
+    logLikelihood += Math.log(c * normaliser);
+  }
+  // backward with the same scales (Rabiner eq. 92)
+  for (let s = 0; s < n; s++) beta[(m - 1) * n + s] = 1;
+  for (let k = m - 2; k >= 0; k--) {
+    for (let s = 0; s < n; s++) {
+      let b = 0;
+      for (let q = 0; q < n; q++) b += transition[s * n + q]! * emit[(k + 1) * n + q]! * beta[(k + 1) * n + q]!;
+      beta[k * n + s] = b / scale[k + 1]!;
+    }
+  }
+  return logLikelihood;
+}
+
 /** Runs expectation–maximisation on the records (see the file comment). */
 export function learnHmm(r: CalibrationRecords, start: HmmLearningStart): HmmLearned {
   const n = start.shapes.length, m = r.bins;
@@ -59,7 +130,8 @@ export function learnHmm(r: CalibrationRecords, start: HmmLearningStart): HmmLea
   let sigma = start.sigma;
   const transition = Float64Array.from(start.transition);
   const priors: [Float64Array, Float64Array] = [Float64Array.from(start.priorsByLabel[0]), Float64Array.from(start.priorsByLabel[1])];
-  const alpha = new Float64Array(m * n), beta = new Float64Array(m * n), emit = new Float64Array(m * n), scale = new Float64Array(m);
+  const pass = makeHmmPass(m, n);
+  const { alpha, beta, emit, scale } = pass;
   let previous = -Infinity, logLikelihood = -Infinity, iterations = 0;
   for (; iterations < start.iterations; iterations++) {
     const sumGamma = new Float64Array(n), sumResidual = new Float64Array(n);
@@ -68,43 +140,10 @@ export function learnHmm(r: CalibrationRecords, start: HmmLearningStart): HmmLea
     const labelCount = [0, 0];
     let sumSquares = 0, total = 0;
     logLikelihood = 0;
-    const inverseTwoVariance = 1 / (2 * sigma * sigma), normaliser = 1 / (sigma * Math.sqrt(2 * Math.PI));
+    const model: HmmEmissions = { shapes: start.shapes, offsets, sigma, transition };
     for (let i = 0; i < r.count; i++) {
       const base = i * m, label = r.outcome[i]!;
-      const prior = priors[label]!;
-      // emissions, with the shared factor 1/(σ√2π) kept in each bin's scale
-      for (let k = 0; k < m; k++) {
-        const y = r.projected[base + k]!;
-        for (let s = 0; s < n; s++) {
-          const d = y - start.shapes[s]![k]! - offsets[s]!;
-          emit[k * n + s] = Math.exp(-d * d * inverseTwoVariance);
-        }
-      }
-      // forward, scaled so that Σ_s α_k(s) = 1 (Rabiner eq. 91)
-      for (let k = 0; k < m; k++) {
-        let c = 0;
-        for (let s = 0; s < n; s++) {
-          let a = 0;
-          if (k === 0) a = prior[s]!;
-          else for (let p = 0; p < n; p++) a += alpha[(k - 1) * n + p]! * transition[p * n + s]!;
-          a *= emit[k * n + s]!;
-          alpha[k * n + s] = a;
-          c += a;
-        }
-        // a record far from every state (c underflows): spread it evenly rather than divide by 0
-        if (!(c > 0)) { for (let s = 0; s < n; s++) alpha[k * n + s] = 1 / n; c = 1e-300; } else for (let s = 0; s < n; s++) alpha[k * n + s]! /= c;
-        scale[k] = c;
-        logLikelihood += Math.log(c * normaliser);
-      }
-      // backward with the same scales (Rabiner eq. 92)
-      for (let s = 0; s < n; s++) beta[(m - 1) * n + s] = 1;
-      for (let k = m - 2; k >= 0; k--) {
-        for (let s = 0; s < n; s++) {
-          let b = 0;
-          for (let q = 0; q < n; q++) b += transition[s * n + q]! * emit[(k + 1) * n + q]! * beta[(k + 1) * n + q]!;
-          beta[k * n + s] = b / scale[k + 1]!;
-        }
-      }
+      logLikelihood = forwardBackward(r.projected, base, m, model, priors[label]!, pass, logLikelihood);
       // posteriors and the sums of the M-step
       for (let k = 0; k < m; k++) {
         const y = r.projected[base + k]!;

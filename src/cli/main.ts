@@ -14,6 +14,7 @@ import { makeSchemaCommand } from './commands/schema.ts';
 import { makeReportCommand } from './commands/report.ts';
 import { makeMergeCommand } from './commands/merge.ts';
 import { makeRerunCommand } from './commands/rerun.ts';
+import { makeFitCommand } from './commands/fit.ts';
 import { ExitStatus } from './exit.ts';
 
 export function makeProgram(): Command {
@@ -22,7 +23,7 @@ export function makeProgram(): Command {
     .version(TOOL_VERSION)
     .exitOverride()
     .configureOutput({ writeErr: (s) => process.stderr.write(s) });
-  for (const c of [makeRunCommand(), makeCheckCommand(), makeInitCommand(), makeSchemaCommand(), makeReportCommand(), makeAnalyzeCommand(), makeMergeCommand(), makeRerunCommand()]) {
+  for (const c of [makeRunCommand(), makeCheckCommand(), makeInitCommand(), makeSchemaCommand(), makeReportCommand(), makeAnalyzeCommand(), makeMergeCommand(), makeRerunCommand(), makeFitCommand()]) {
     program.addCommand(c.exitOverride());
   }
   return program;

@@ -114,6 +114,11 @@ const COMMANDS: { name: string; args(dir: string, file: string): string[]; place
     },
     args: (dir) => ['merge', join(dir, 'a'), join(dir, 'b'), '--out', join(dir, 'merged'), '--no-report'],
   },
+  {
+    name: 'fit',
+    place: (dir, bytes) => { writeFileSync(join(dir, 'traces.arrow'), bytes); return join(dir, 'traces.arrow'); },
+    args: (dir) => ['fit', join(dir, 'traces.arrow'), '--sample-rate', '10 MHz', '--out', join(dir, 'twin.yaml')],
+  },
 ];
 const present = new Set(makeProgram().commands.map((c) => c.name()));
 
@@ -133,5 +138,5 @@ describe.each(COMMANDS.filter((c) => present.has(c.name)))('$name given hostile 
 
 it('the test covers every command that reads tables which exists now', () => {
   // a reminder for whoever adds a table-reading command: list it in COMMANDS
-  for (const c of ['report', 'analyze', 'merge']) expect(present.has(c), c).toBe(true);
+  for (const c of ['report', 'analyze', 'merge', 'fit']) expect(present.has(c), c).toBe(true);
 });

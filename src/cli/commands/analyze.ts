@@ -4,7 +4,7 @@ import { analyzeToDirectory, type AnalyzeResult } from '../../app/analyze.ts';
 import { formatQuantity } from '../../scenario/units.ts';
 import { classifierNamed } from '../../classify/registry.ts';
 import { formatProbability, rows } from '../format.ts';
-import { nonZeroNumber, positiveQuantity } from '../quantity-option.ts';
+import { carrierOption, frequency, scaleOption, unitOption, windowOption } from '../quantity-option.ts';
 
 const interval = (x: { rate: number; low: number; high: number }) => `[${formatProbability(x.low)}, ${formatProbability(x.high)}]`;
 
@@ -68,15 +68,21 @@ export function makeAnalyzeCommand(): Command {
     .requiredOption('--out <dir>', 'folder for the tables (must be empty unless --force)')
     .option('--pipeline <file>', 'pipeline file (YAML or JSON): the processing keys, sample rate, carrier, calibration (default: boxcar over the record, referencePhase auto, midpoint threshold)')
     .option('--labels <labels>', 'the prepared outcome of each record: a file (labels.npy, file.h5:/readout/labels) or a NAME in the records\' own file (a column, dataset or array)')
-    .option('--sample-rate <rate>', 'the records\' sample rate, e.g. "50 MHz" (default: the pipeline file, else the file\'s own attribute)', positiveQuantity('--sample-rate', 'frequency', '50 MHz'))
-    .option('--carrier <frequency>', 'the records\' carrier, e.g. "10 MHz", or "none" (default: the pipeline file, else the file\'s own attribute, else none)', (v: string) => (v === 'none' ? 0 : positiveQuantity('--carrier', 'frequency', '10 MHz')(v)))
-    .option('--scale <x>', 'signal units per stored unit, e.g. volts per ADC count (default 1, times the file\'s own scale attribute)', nonZeroNumber('--scale'))
+    .option('--sample-rate <f>', 'the records\' sample rate, e.g. "50 MHz" (default: the pipeline file, else the file\'s own attribute)', frequency)
+    .option('--carrier <f>', 'the records\' carrier, e.g. "10 MHz", or "none" (default: the pipeline file, else the file\'s own attribute, else none)', carrierOption)
+    .option('--window <start,length>', 'the records\' window, e.g. "1us,8us" (default: the pipeline file, else the file\'s own, else the whole record)', windowOption)
+    .option('--scale <x>', 'signal units per stored unit, e.g. volts per ADC count (default 1, times the file\'s own scale attribute)', scaleOption)
+    .option('--unit <unit>', 'the unit of the records after the scale: A, V or none (default: the file\'s own, else none)', unitOption)
     .option('--json', 'print the result as one JSON object on stdout')
     .option('--force', 'replace the files of a non-empty --out folder')
-    .action(async (records: string, opts: { out: string; pipeline?: string; labels?: string; sampleRate?: number; carrier?: number; scale?: number; json?: boolean; force?: boolean }) => {
+    .action(async (records: string, opts: {
+      out: string; pipeline?: string; labels?: string; sampleRate?: number; carrier?: number | 'none'; window?: { start: number; length: number };
+      scale?: number; unit?: string; json?: boolean; force?: boolean;
+    }) => {
       const r = await analyzeToDirectory({
         records, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force,
-        sampleRate: opts.sampleRate, carrierFrequency: opts.carrier, scale: opts.scale,
+        sampleRate: opts.sampleRate, carrierFrequency: opts.carrier === 'none' ? 0 : opts.carrier, window: opts.window, scale: opts.scale,
+        unit: opts.unit === undefined ? undefined : opts.unit === 'none' ? '' : opts.unit,
       });
       if (opts.json) {
         process.stdout.write(JSON.stringify(analysisJson(r, opts.out), (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');

@@ -55,6 +55,7 @@ export function outcomeIndices(raw: readonly (number | string | boolean)[]): { v
   const numeric = distinct.every((v) => typeof v === 'number');
   const names = numeric && distinct.every((v) => v === 0 || v === 1)
     ? ['0', '1']
+    // text labels in code-unit order, the same in every locale (localeCompare is not)
     : distinct.map(String).sort((a, b) => (numeric ? Number(a) - Number(b) : a < b ? -1 : a > b ? 1 : 0));
   const index = new Map(names.map((n, i) => [n, i]));
   const values = Uint8Array.from(raw, (v) => index.get(String(typeof v === 'boolean' ? Number(v) : v))!);

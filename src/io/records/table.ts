@@ -3,7 +3,8 @@
  * (parquet.ts) — as a record set: a column of sample lists (`record` by default), or two such
  * columns `in_phase` and `quadrature` for complex records (what `run --keep-traces baseband`
  * writes); labels from a column; the attributes from the schema metadata (`singleshot.sample_rate`,
- * `…carrier_frequency`, `…carrier_phase`, `…window_start`, `…window_length`, `…unit`).
+ * `…carrier_frequency`, `…carrier_phase`, `…window_start`, `…window_length`, `…unit`, else the
+ * records column's `unit`).
  */
 import type { Table } from 'apache-arrow';
 import { InputError } from '../../errors.ts';
@@ -11,8 +12,8 @@ import { META_PREFIX } from '../metadata.ts';
 import { labelColumn, metadataNumber, optionalIntegerColumn, recordColumn } from '../record-table.ts';
 import type { LabelSet, RecordAttributes, RecordSet } from './record-set.ts';
 
-/** The schema metadata's attributes of the records. */
-function attributesOf(table: Table): RecordAttributes {
+/** The schema metadata's attributes of the records; the unit, when the schema has none, from the records column's own field metadata (as `run --keep-traces` writes it). */
+function attributesOf(table: Table, column: string): RecordAttributes {
   const at: RecordAttributes = {};
   const put = (key: keyof RecordAttributes, name: string) => {
     const v = metadataNumber(table, `${META_PREFIX}${name}`);
@@ -23,9 +24,7 @@ function attributesOf(table: Table): RecordAttributes {
   put('carrierPhase', 'carrier_phase');
   put('windowStart', 'window_start');
   put('windowLength', 'window_length');
-  // the unit of the table, else that of its record column (as run --keep-traces writes it)
-  const column = ['record', 'in_phase'].map((c) => table.schema.fields.find((f) => f.name === c)).find((f) => f !== undefined);
-  const unit = table.schema.metadata.get(`${META_PREFIX}unit`) ?? column?.metadata.get('unit');
+  const unit = table.schema.metadata.get(`${META_PREFIX}unit`) ?? table.schema.fields.find((f) => f.name === column)?.metadata.get('unit');
   if (unit !== undefined) at.unit = unit;
   return at;
 }
@@ -36,9 +35,10 @@ function attributesOf(table: Table): RecordAttributes {
  */
 export function tableRecords(source: string, table: Table, column: string | undefined, scale: number): RecordSet {
   const has = (name: string) => table.getChild(name) !== null;
-  const attributes = attributesOf(table);
+  const pair = column === undefined && !has('record') && has('in_phase') && has('quadrature');
+  const attributes = attributesOf(table, pair ? 'in_phase' : column ?? 'record');
   const beside = { metadata: table.schema.metadata, column: (name: string) => optionalIntegerColumn(table, name) };
-  if (column === undefined && !has('record') && has('in_phase') && has('quadrature')) {
+  if (pair) {
     const i = recordColumn(source, table, 'in_phase'), q = recordColumn(source, table, 'quadrature');
     if (q.samples !== i.samples) throw new InputError(source, 'column "quadrature"', `records of ${i.samples} samples like in_phase`, `${q.samples}`);
     return {

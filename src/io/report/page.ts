@@ -209,3 +209,47 @@ ${body.html}
 </html>
 `;
 }
+
+/** A page of sections without the run's caution and answer: the fit report's layout. */
+export interface DocumentPage {
+  /** The line above the title. */
+  kicker: string;
+  name: string;
+  description: string;
+  facts: [string, string][];
+  sections: SectionView[];
+  /** A sentence before the closing text block, and the block itself (shown as written). */
+  footerNote: string;
+  footerText: string;
+}
+
+/** The whole page of a DocumentPage as one HTML string (the same style and policy as renderPage). */
+export function renderDocumentPage(p: DocumentPage): string {
+  const body = html`<main>
+<header class="masthead">
+<p class="kicker">${p.kicker}</p>
+<h1>${p.name}</h1>
+${p.description ? html`<p class="lede">${p.description}</p>` : ''}
+<dl class="facts">${p.facts.map(([k, v]) => html`<div><dt>${k}</dt><dd>${v}</dd></div>`)}</dl>
+</header>
+${p.sections.map(sectionHtml)}
+<footer>
+<p>${p.footerNote}</p>
+<pre>${p.footerText}</pre>
+</footer>
+</main>`;
+  return `<!doctype html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<title>${html`${p.name}`.html} · singleshot</title>
+<style>${STYLE}</style>
+</head>
+<body>
+${body.html}
+</body>
+</html>
+`;
+}
