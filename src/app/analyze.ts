@@ -38,6 +38,7 @@ import { summaryColumns } from '../io/tables/summary.ts';
 import { buildTable } from '../io/tables/columns.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
 import { writeAnalysisManifest } from '../io/manifest.ts';
+import { withParquetCopies } from '../io/parquet-copy.ts';
 import { analysisMetadata } from '../io/metadata.ts';
 import { prepareOutputDir } from '../io/output-dir.ts';
 import { join } from 'node:path';
@@ -61,6 +62,8 @@ export interface AnalyzeOptions {
   unit?: string;
   outDir: string;
   force?: boolean;
+  /** Also write every table as Parquet (X.parquet beside X.arrow). */
+  parquet?: boolean;
   /** Aborting it stops the analysis between batches of records (RunInterrupted). */
   signal?: AbortSignal;
 }
@@ -198,7 +201,7 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
     source: records, labels: score?.values ?? null, outcomes, spec: resolved.pipeline, grid, carrier, plan, signal: o.signal,
   });
   const unit = o.unit ?? at.unit ?? '';
-  const files = writeFolder(o, file, records, score, outcomes, unit, analysis, resolved);
+  const files = await writeFolder(o, file, records, score, outcomes, unit, analysis, resolved);
   const scoredRows = analysis.summary?.shots ?? 0;
   return {
     pipeline: resolved.pipeline.name, classifier: classifierOf(resolved.pipeline).name, source: records.source, rows: records.rows, complex: records.complex,
@@ -209,10 +212,10 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
 }
 
 /** Writes the tables and run.json; returns the files written. */
-function writeFolder(
+async function writeFolder(
   o: AnalyzeOptions, file: AnalyzeFile, records: RecordSet, score: LabelSet | null, outcomes: readonly [string, string], unit: string,
   a: RecordAnalysis, resolved: ResolvedAnalysis,
-): string[] {
+): Promise<string[]> {
   prepareOutputDir(o.outDir, o.force ?? false);
   const provenance = { pipeline: file.canonical, records: records.source, labels: score?.source ?? null };
   const files: string[] = [];
@@ -241,6 +244,7 @@ function writeFolder(
   }
   writeExampleRecords(join(o.outDir, 'traces.arrow'), analysisMetadata('traces', provenance), records, score?.values ?? null, outcomes, unit, resolved.timing);
   files.push('traces.arrow');
-  writeAnalysisManifest(o.outDir, { complete: true, files, analysis: provenance });
-  return files;
+  const written = o.parquet ? await withParquetCopies(o.outDir, files) : files;
+  writeAnalysisManifest(o.outDir, { complete: true, files: written, analysis: provenance });
+  return written;
 }

@@ -11,6 +11,7 @@ import { runPoints, type RunOptions, type RunResult } from '../run/run-points.ts
 import type { BatchExecutor } from '../run/executor.ts';
 import type { SweepPoint } from '../run/sweep-point.ts';
 import { ArrowFileStream } from '../io/arrow-sink.ts';
+import { withParquetCopies } from '../io/parquet-copy.ts';
 import { writeManifest } from '../io/manifest.ts';
 import { tableMetadata, type RunProvenance } from '../io/metadata.ts';
 import { prepareOutputDir } from '../io/output-dir.ts';
@@ -52,6 +53,8 @@ export interface RunToDirectoryOptions extends ScenarioOverrides {
   refine?: RefineRequest;
   /** Write report.html after the tables (default true). */
   report?: boolean;
+  /** Also write every table as Parquet (X.parquet beside X.arrow). */
+  parquet?: boolean;
   /** Engine: exact, traces or auto (default traces; the CLI's default is auto). */
   engine?: EngineRequest;
   /**
@@ -165,6 +168,7 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   const ranges = result.points.map((p) => shardRange(batchCount(p.scenario, 'score'), o.shard));
   writeTallies(o.outDir, runTallies(result.points, ranges, { seed: first.seed, engine: result.engine, scenario: loaded.canonical }));
   files.push(TALLIES);
+  if (o.parquet) files.splice(0, files.length, ...(await withParquetCopies(o.outDir, files)));
   writeManifest(o.outDir, { complete: true, seed: first.seed, engine: result.engine, engineReason: result.engineReason, shard, files, scenario: loaded.canonical });
   const report = o.report === false ? null : (await writeReport(o.outDir)).path;
   return { result, provenance, files, warnings: loaded.warnings, refinement, report, sweep: loaded.scenario.sweep };

@@ -73,16 +73,17 @@ export function makeAnalyzeCommand(): Command {
     .option('--window <start,length>', 'the records\' window, e.g. "1us,8us" (default: the pipeline file, else the file\'s own, else the whole record)', windowOption)
     .option('--scale <x>', 'signal units per stored unit, e.g. volts per ADC count (default 1, times the file\'s own scale attribute)', scaleOption)
     .option('--unit <unit>', 'the unit of the records after the scale: A, V or none (default: the file\'s own, else none)', unitOption)
+    .option('--parquet', 'also write every table as Parquet (X.parquet beside X.arrow), for DuckDB, polars and other Parquet readers')
     .option('--json', 'print the result as one JSON object on stdout')
     .option('--force', 'replace the files of a non-empty --out folder')
     .action(async (records: string, opts: {
       out: string; pipeline?: string; labels?: string; sampleRate?: number; carrier?: number | 'none'; window?: { start: number; length: number };
-      scale?: number; unit?: string; json?: boolean; force?: boolean;
+      scale?: number; unit?: string; parquet?: boolean; json?: boolean; force?: boolean;
     }) => {
       const r = await analyzeToDirectory({
         records, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force,
         sampleRate: opts.sampleRate, carrierFrequency: opts.carrier === 'none' ? 0 : opts.carrier, window: opts.window, scale: opts.scale,
-        unit: opts.unit === undefined ? undefined : opts.unit === 'none' ? '' : opts.unit,
+        unit: opts.unit === undefined ? undefined : opts.unit === 'none' ? '' : opts.unit, parquet: opts.parquet,
       });
       if (opts.json) {
         process.stdout.write(JSON.stringify(analysisJson(r, opts.out), (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');

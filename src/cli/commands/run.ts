@@ -67,16 +67,17 @@ export function makeRunCommand(): Command {
     .option('--refine [key]', 'after a sweep, add golden-section points along one swept value (key path; default: the only or first range) to refine the error minimum')
     .option('--refine-points <n>', 'points --refine adds (default 6)', positiveInteger('--refine-points'))
     .option('--no-report', 'do not write report.html')
+    .option('--parquet', 'also write every table as Parquet (X.parquet beside X.arrow), for DuckDB, polars and other Parquet readers')
     .option('--engine <kind>', 'exact (draw each integrated value from its exact distribution), traces (synthesise every sample), or auto: exact when valid', engineOption, 'auto')
     .option('--workers <n>', `simulation threads (default: all ${defaultWorkers()} cores for a run estimated over 2 s whose batches take over 5 ms — trace engine, or exact with 1/f — else 1)`, positiveInteger('--workers'))
-    .action(async (file: string, opts: { engine: EngineRequest; workers?: number; out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; verbose?: boolean; force?: boolean; quiet?: boolean; keepTraces?: 'raw' | 'baseband'; refine?: string | true; refinePoints?: number; report: boolean }) => {
+    .action(async (file: string, opts: { engine: EngineRequest; workers?: number; out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; verbose?: boolean; force?: boolean; quiet?: boolean; keepTraces?: 'raw' | 'baseband'; refine?: string | true; refinePoints?: number; report: boolean; parquet?: boolean }) => {
       const progress = makeProgress({ quiet: opts.quiet });
       const { result, files, refinement, report, sweep } = await withInterruptSignals((signal) => runToDirectory({
         refine: opts.refine === undefined ? undefined : { key: opts.refine, points: opts.refinePoints },
         report: opts.report, onProgress: (done, total) => progress.update(done, total),
         scenarioPath: file, outDir: opts.out, force: opts.force, shots: opts.shots, seed: opts.seed,
         shard: opts.shard, shotsTable: opts.shotsTable, signal, keepTraces: opts.keepTraces,
-        engine: opts.engine, workers: opts.workers,
+        engine: opts.engine, workers: opts.workers, parquet: opts.parquet,
         onWarning: (w) => { if (!opts.quiet) process.stderr.write(`warning: ${w}\n`); },
         onEstimate: (e) => {
           if (!opts.quiet && e.seconds > ESTIMATE_NOTE_SECONDS) process.stderr.write(`note: this run needs ${describeEstimate(e)} (estimated)\n`);

@@ -7,11 +7,11 @@
  * dataset larger than memory streams.
  */
 import { closeSync, existsSync, openSync, readSync } from 'node:fs';
-import h5wasm from 'h5wasm/node';
+import type h5wasmModule from 'h5wasm/node';
 import { InputError } from '../../errors.ts';
 import { outcomeIndices, type LabelSet, type RecordAttributes, type RecordSet } from './record-set.ts';
 
-type H5File = InstanceType<typeof h5wasm.File>;
+type H5File = InstanceType<typeof h5wasmModule.File>;
 type H5Dataset = { shape: number[] | null; dtype: unknown; attrs: Record<string, { value: unknown }>; slice(ranges: [number, number][]): unknown };
 
 /** Rows read at once. */
@@ -34,14 +34,22 @@ function hasSignature(path: string): boolean {
   }
 }
 
-/** The library, with HDF5's errors thrown (and caught here) instead of printed to stderr. */
-const library = h5wasm.ready.then((module) => {
-  module.activate_throwing_error_handler();
-  return module;
-});
+/**
+ * The library, loaded on first use (its WebAssembly costs start-up time every other command would
+ * pay), with HDF5's errors thrown (and caught here) instead of printed to stderr.
+ */
+let library: Promise<typeof h5wasmModule> | null = null;
+function loadLibrary(): Promise<typeof h5wasmModule> {
+  library ??= import('h5wasm/node').then(async ({ default: h5wasm }) => {
+    const module = await h5wasm.ready;
+    module.activate_throwing_error_handler();
+    return h5wasm;
+  });
+  return library;
+}
 
 async function open(path: string): Promise<H5File> {
-  await library;
+  const h5wasm = await loadLibrary();
   if (!existsSync(path)) throw new InputError(path, '', 'an HDF5 file', 'no such file');
   // checked here, since the library prints its own diagnostics on a file it cannot open
   let signed: boolean;

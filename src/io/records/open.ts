@@ -53,7 +53,7 @@ export async function openRecords(spec: string, scale = 1): Promise<RecordSet> {
 function readRecords(at: RecordsLocation, spec: string, scale: number): RecordSet | Promise<RecordSet> {
   switch (at.format) {
     case 'arrow': return readArrowRecords(at.path, at.inner, scale);
-    case 'parquet': return tableRecords(at.path, readParquetTable(at.path), at.inner, scale);
+    case 'parquet': return readParquetTable(at.path).then((t) => tableRecords(at.path, t, at.inner, scale));
     case 'npy': return readNpyRecords(at.path, at.inner, scale);
     case 'hdf5': {
       if (at.inner === undefined) throw new InputError(spec, '', 'a dataset path after the file, e.g. FILE.h5:/readout/records', 'no dataset named');
@@ -91,7 +91,7 @@ export async function openLabels(spec: string, records: string, outcomes: readon
   const named = (set: LabelSet): LabelSet => (outcomes ? { ...set, names: [...outcomes] } : set);
   switch (at.format) {
     case 'arrow': return readArrowLabels(at.path, at.inner ?? 'label', outcomes);
-    case 'parquet': return tableLabels(at.path, readParquetTable(at.path), at.inner ?? 'label', outcomes);
+    case 'parquet': return tableLabels(at.path, await readParquetTable(at.path), at.inner ?? 'label', outcomes);
     case 'npy': return named(readNpyLabels(at.path, at.inner));
     case 'hdf5': {
       if (at.inner === undefined) throw new InputError(spec, '', 'a dataset path after the file, e.g. FILE.h5:/readout/labels', 'no dataset named');

@@ -5,11 +5,10 @@
  */
 import { readFileSync } from 'node:fs';
 import { tableFromIPC, type Table } from 'apache-arrow';
-import { readParquet } from 'parquet-wasm';
 import { InputError } from '../../errors.ts';
 
 /** A Parquet file as an Arrow table; InputError when missing or not Parquet. */
-export function readParquetTable(path: string): Table {
+export async function readParquetTable(path: string): Promise<Table> {
   let bytes: Uint8Array;
   try {
     bytes = readFileSync(path);
@@ -17,6 +16,8 @@ export function readParquetTable(path: string): Table {
     const code = (e as NodeJS.ErrnoException).code;
     throw new InputError(path, '', 'a Parquet file', code === 'ENOENT' ? 'no such file' : `an unreadable file (${code ?? 'error'})`);
   }
+  // loaded on first use: its WebAssembly would cost every other command start-up time
+  const { readParquet } = await import('parquet-wasm');
   try {
     return tableFromIPC(readParquet(bytes).intoIPCStream());
   } catch {

@@ -22,7 +22,7 @@ export function buildTable(columns: readonly ColumnSpec[], metadata: Map<string,
   const fields = columns.map((c) => {
     const meta = new Map<string, string>();
     if (c.unit !== null) meta.set('unit', c.unit);
-    return new Field(c.name, typeOf(c.kind), c.kind === 'f64', meta);
+    return new Field(c.name, typeOf(c.kind), c.kind === 'f64' || c.values.some((v) => v === null), meta);
   });
   const length = columns[0]?.values.length ?? 0;
   const children = columns.map((c, i) => {
