@@ -3,8 +3,7 @@
  * values by labelled outcome with the threshold, the IQ plane where the records have a Q, the
  * assignment matrix, example records, and the records' noise spectrum. There is no model behind
  * the records, so there is no budget and no noise-free line: the histogram's lines are Gaussians
- * of each outcome's robust centre and spread (the ones its SNR uses), a check of how Gaussian the
- * labelled groups are.
+ * of each outcome's fitted clean centre and spread (the ones its SNR uses).
  */
 import { extent, envelope, histogramCounts } from '../analysis/plot-data.ts';
 import { classifierNamed, DEFAULT_CLASSIFIER } from '../classify/registry.ts';
@@ -86,7 +85,7 @@ export async function buildAnalysisReport(dir: string, manifest: AnalysisManifes
       }),
       figure: {
         title: summary ? 'Histogram by labelled outcome, with the threshold' : 'Histogram of the records\' integrated values',
-        caption: `Bars: the ${groups.reduce((a, g) => a + g.value.length, 0)} ${summary ? 'labelled records that did not calibrate' : 'records'}, pipeline "${values.pipeline}"${values.calibrationRows > 0 ? ` (the ${values.calibrationRows} calibration rows are left out)` : ''}.${summary ? ' Lines: a Gaussian of each outcome\'s median and IQR/1.349 spread, the centre and spread its SNR uses — where the bars leave the line, the group is not Gaussian (relaxation, mislabelled records, non-Gaussian noise).' : ''}${hasThreshold ? ` Dashed: the threshold (${showValue(threshold, unit)}).` : ''}`,
+        caption: `Bars: the ${groups.reduce((a, g) => a + g.value.length, 0)} ${summary ? 'labelled records that did not calibrate' : 'records'}, pipeline "${values.pipeline}"${values.calibrationRows > 0 ? ` (the ${values.calibrationRows} calibration rows are left out)` : ''}.${summary ? ' Lines: a Gaussian of each outcome\'s clean centre and spread, fitted with a ramp for the records that changed state — the centre and σ its SNR uses; where the bars leave the line are the records that changed state, the mislabelled ones, or non-Gaussian noise.' : ''}${hasThreshold ? ` Dashed: the threshold (${showValue(threshold, unit)}).` : ''}`,
       },
     });
   } else valuesSection.note = 'No decided records to draw.';
@@ -157,7 +156,7 @@ export async function buildAnalysisReport(dir: string, manifest: AnalysisManifes
     const interval = `95 % interval [${probability(num(summary, 'mean_error_low'))}, ${probability(num(summary, 'mean_error_high'))}]`;
     cards.push({ label: 'Mean assignment error', value: probability(num(summary, 'mean_error')), detail: [interval, `${num(summary, 'shots')} labelled records scored`, ...outcomes.map((o) => `labelled ${o}: ${probability(num(summary, `error_${o}`))}`)] });
     cards.push({ label: 'Visibility 1 − P(0|1) − P(1|0)', value: short(num(summary, 'visibility'), 4), detail: [`95 % interval [${short(num(summary, 'visibility_low'), 4)}, ${short(num(summary, 'visibility_high'), 4)}]`] });
-    cards.push({ label: 'SNR', value: short(num(summary, 'snr'), 3), detail: [`σ ${showValue(num(summary, 'sigma'), unit)}`, 'separation of the outcome medians over the pooled IQR/1.349 spread'] });
+    cards.push({ label: 'SNR', value: short(num(summary, 'snr'), 3), detail: [`σ ${showValue(num(summary, 'sigma'), unit)}`, 'separation of the fitted clean centres over their pooled σ'] });
     verdict.push(`Measured against the labels on ${num(summary, 'shots')} records that did not calibrate${values.calibrationRows > 0 ? ` (${values.calibrationRows} calibration rows left out)` : ''}.`);
   } else verdict.push('The records had no labels: every record is decided (shots.arrow), but no error can be scored. Give --labels to score them.');
   const discard = num(summary, 'discard_fraction');

@@ -23,6 +23,8 @@ import { tableToIPC } from 'apache-arrow';
 import { InputError } from '../errors.ts';
 import { makeGrid } from '../signal/grid.ts';
 import { compileChain } from '../dsp/pipeline-chain.ts';
+import { fitCarrier } from '../fit/carrier.ts';
+import { formatQuantity } from '../scenario/units.ts';
 import { analyzeRecords, type CalibrationPlan, type RecordAnalysis } from '../run/analyze-records.ts';
 import { recordsSpectrum } from '../engine/recorded/spectrum.ts';
 import { classifierOf } from '../classify/registry.ts';
@@ -69,6 +71,8 @@ export interface AnalyzeOptions {
 }
 
 export interface AnalyzeResult {
+  /** What the analysis assumed where nothing said (shown to the user as notes). */
+  notes: string[];
   pipeline: string;
   /** The pipeline's classifier. */
   classifier: string;
@@ -103,6 +107,36 @@ function readText(path: string): string {
     const code = (e as NodeJS.ErrnoException).code;
     throw new InputError(path, '', 'a pipeline file', code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'a directory' : 'an unreadable file');
   }
+}
+
+/** Records read to look for an unannounced carrier. */
+const CARRIER_PROBE_ROWS = 256;
+
+/**
+ * What the analysis took where neither the options, the pipeline file nor the file said it: the
+ * window (the whole record) and the carrier (none) — with a warning when the records show a line
+ * that looks like a carrier (fit/carrier.ts finds it as `fit` does).
+ */
+function assumptions(o: AnalyzeOptions, file: AnalyzeFile, records: RecordSet, r: ResolvedAnalysis): string[] {
+  const notes: string[] = [];
+  const at = records.attributes;
+  if (o.window === undefined && file.doc.recordWindow === undefined && at.windowStart === undefined && at.windowLength === undefined) {
+    notes.push('window: not given (no --window, no recordWindow in a pipeline file, no window in the file): the whole record is integrated');
+  }
+  if (!records.complex && o.carrierFrequency === undefined && file.doc.carrier === undefined && at.carrierFrequency === undefined) {
+    const rows = Math.min(records.rows, CARRIER_PROBE_ROWS), n = records.samples;
+    const buffer = new Float64Array(rows * n), row = new Float64Array(n);
+    for (let k = 0; k < rows; k++) {
+      records.row(k, row, null);
+      buffer.set(row, k * n);
+    }
+    const line = fitCarrier(buffer, rows, n, r.timing.sampleRate, null);
+    const f = line ? formatQuantity(line.frequency, 'Hz') : '';
+    notes.push(line
+      ? `carrier: not given, so none; but the records show a ${line.shape} line at ${f} (${line.lineRatio.toFixed(0)}× its neighbours): if it is the carrier, give --carrier "${f}"`
+      : 'carrier: not given (no --carrier, no carrier in a pipeline file or the file): the records are taken as baseband');
+  }
+  return notes;
 }
 
 /** Whether the pipeline decides with anything a calibration must supply. */
@@ -154,6 +188,7 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
     carrierFrequency: o.carrierFrequency ?? (records.complex ? 0 : at.carrierFrequency ?? null), carrierPhase: at.carrierPhase ?? null,
     windowStart: o.window?.start ?? at.windowStart ?? null, windowLength: o.window?.length ?? at.windowLength ?? null,
   }, records.source);
+  const notes = assumptions(o, file, records, resolved);
   if (records.complex && resolved.carrierFrequency > 0) {
     throw new InputError(file.file, 'carrier', 'no carrier for complex records (I and Q are baseband channels, already demodulated)', `${resolved.carrierFrequency} Hz`);
   }
@@ -204,7 +239,7 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
   const files = await writeFolder(o, file, records, score, outcomes, unit, analysis, resolved);
   const scoredRows = analysis.summary?.shots ?? 0;
   return {
-    pipeline: resolved.pipeline.name, classifier: classifierOf(resolved.pipeline).name, source: records.source, rows: records.rows, complex: records.complex,
+    notes, pipeline: resolved.pipeline.name, classifier: classifierOf(resolved.pipeline).name, source: records.source, rows: records.rows, complex: records.complex,
     calibrationRows: analysis.calibrationRows, scoredRows, calibratedBy, bins: analysis.chain.bins,
     referencePhase: analysis.referencePhase, calibration: analysis.calibration, summary: analysis.summary, outcomes, unit,
     outcome: analysis.decisions.outcome, value: analysis.decisions.value, discarded: analysis.decisions.discarded, files,

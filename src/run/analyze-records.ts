@@ -6,8 +6,9 @@
  * that did not calibrate (analysis/tally.ts) into the summary a run writes (analysis/summary.ts).
  *
  * What records cannot say is left out, not guessed: there is no analytic budget (NaN), no cause
- * of an error, and no clean shot — the SNR and σ come from the median and IQR/1.349 of each
- * labelled group (analysis/robust-spread.ts) instead of a run's clean shots.
+ * of an error, and no known clean shot — the SNR and σ come from the clean centres and σ fitted to
+ * the labelled groups (analysis/value-mixture-fit.ts: two Gaussians and the ramp of records that
+ * changed state) instead of a run's clean shots.
  */
 import { compileChain, type PipelineChain, type RecordCarrier } from '../dsp/pipeline-chain.ts';
 import { calibrate, type PipelineCalibration } from '../classify/calibrate.ts';
@@ -16,7 +17,7 @@ import { classifierOf } from '../classify/registry.ts';
 import { addToTally, emptyTally, type TallyInput } from '../analysis/tally.ts';
 import { summarise, type PointSummary } from '../analysis/summary.ts';
 import { unavailableBudget } from '../analysis/budget.ts';
-import { robustSpread } from '../analysis/robust-spread.ts';
+import { fitValueMixture } from '../analysis/value-mixture-fit.ts';
 import { makeRecordedScratch, recordedBatch, type RecordRows } from '../engine/recorded/batch.ts';
 import type { Grid } from '../signal/grid.ts';
 import type { PipelineSpec } from '../scenario/types.ts';
@@ -139,7 +140,7 @@ export async function analyzeRecords(a: RecordAnalysisInput): Promise<RecordAnal
   const calibrationRows = calibrating ? calibrating.reduce((s, x) => s + x, 0) : 0;
   const summary = a.labels
     ? summarise(spec.name, a.outcomes, [0, 1], [0.5, 0.5], tally, unavailableBudget(2), calibration.rule.threshold, calibration.rule.highIsOne,
-      chain.band !== null, robustSpread([Float64Array.from(tallied[0]), Float64Array.from(tallied[1])]))
+      chain.band !== null, fitValueMixture([Float64Array.from(tallied[0]), Float64Array.from(tallied[1])]))
     : null;
   return { chain, referencePhase, calibration, calibrationRows, calibrationMask: calibrating, decisions: d, summary };
 }

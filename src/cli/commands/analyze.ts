@@ -21,7 +21,7 @@ export function formatAnalysis(r: AnalyzeResult, out: string, classifier: string
     lines.push('  no labels: every record decided (shots.arrow), no error to score (give --labels to score)');
   } else {
     lines.push(`  ${s.shots} labelled records scored; threshold ${signal ? q(s.threshold) : s.threshold.toPrecision(4)}`);
-    lines.push(`  SNR (separation/σ of the integrated value, from each outcome's median and IQR/1.349): ${s.snr.toFixed(2)}; σ ${q(s.sigma)}`);
+    lines.push(`  SNR (separation/σ of the integrated value, clean centres and σ fitted to the labelled groups): ${s.snr.toFixed(2)}; σ ${q(s.sigma)}`);
     const table: string[][] = [['  labelled', 'records', 'error', '95% interval', ...r.outcomes.map((o) => `reported ${o}`), 'centre', 'spread']];
     s.states.forEach((st, o) => {
       table.push([`  ${st.state}`, String(st.shots), formatProbability(st.error.rate), interval(st.error),
@@ -45,14 +45,14 @@ function analysisJson(r: AnalyzeResult, out: string): Record<string, unknown> {
   const s = r.summary;
   return {
     pipeline: r.pipeline, records: r.source, rows: r.rows, complex: r.complex, bins: r.bins,
-    calibratedBy: r.calibratedBy, calibrationRows: r.calibrationRows, scoredRows: r.scoredRows,
+    notes: r.notes, calibratedBy: r.calibratedBy, calibrationRows: r.calibrationRows, scoredRows: r.scoredRows,
     threshold: r.calibration.rule.threshold, referencePhase: r.referencePhase, referencePhaseUnit: 'rad',
     axisAngle: Math.atan2(r.calibration.axis.sin, r.calibration.axis.cos), axisAngleUnit: 'rad',
     ...(s ? {
       errorByOutcome: Object.fromEntries(s.states.map((st) => [st.state, { rate: st.error.rate, low: st.error.low, high: st.error.high, shots: st.shots, errors: st.errors }])),
       meanError: { rate: s.meanError.rate, low: s.meanError.low, high: s.meanError.high },
       visibility: s.visibility,
-      snr: s.snr, snrConvention: 'separation of the outcome medians / σ from IQR/1.349, pooled (amplitude SNR)',
+      snr: s.snr, snrConvention: 'separation of the fitted clean centres / pooled σ (two Gaussians and a relaxation ramp fitted to the labelled groups; amplitude SNR)',
       sigma: s.sigma, sigmaUnit: r.unit,
       valueByOutcome: Object.fromEntries(r.outcomes.map((o, j) => [o, s.outcomeValues[j] ?? null])), valueByOutcomeUnit: r.unit,
       ...(s.banded ? { discardFraction: s.discardFraction, postSelectedError: s.postSelectedError, discardsAsFailuresError: s.discardsAsFailuresError } : {}),
@@ -85,6 +85,7 @@ export function makeAnalyzeCommand(): Command {
         sampleRate: opts.sampleRate, carrierFrequency: opts.carrier === 'none' ? 0 : opts.carrier, window: opts.window, scale: opts.scale,
         unit: opts.unit === undefined ? undefined : opts.unit === 'none' ? '' : opts.unit, parquet: opts.parquet,
       });
+      for (const n of r.notes) process.stderr.write(`note: ${n}\n`);
       if (opts.json) {
         process.stdout.write(JSON.stringify(analysisJson(r, opts.out), (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');
       } else process.stdout.write(formatAnalysis(r, opts.out, r.classifier) + '\n');

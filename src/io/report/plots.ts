@@ -122,7 +122,8 @@ function recordPanels(p: TracePlot, pick: (s: TracePlot['shots'][number]) => { r
         layer: [
           ...(band ? [windowBand(p.window)] : []),
           { data: { values: raw }, mark: { type: 'line', strokeWidth: 0.9, color: s.colour, opacity: 0.55 }, encoding: { x, y } },
-          { data: { values: clean }, mark: { type: 'line', strokeWidth: 1.4, color: PALETTE.ink }, encoding: { x, y } },
+          // recorded traces have no noise-free signal to draw
+          ...(clean.length > 0 ? [{ data: { values: clean }, mark: { type: 'line', strokeWidth: 1.4, color: PALETTE.ink }, encoding: { x, y } }] : []),
         ],
       };
     }),
