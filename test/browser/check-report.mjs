@@ -4,11 +4,12 @@
 // requests, no script run (no dialog), every plot rendered (an SVG with marks and axes), the
 // histogram's legend covering no bar (bounding boxes compared), the assignment matrix (rows
 // summing to 1), the IQ-plane scatter with its decision line for a scenario with complex levels
-// on a carrier, and a scenario named <script>alert(1)</script> shown as text. Saves a
-// full-page screenshot of each report.
+// on a carrier, a scenario named <script>alert(1)</script> shown as text, and the report of an
+// analysis of recorded traces (`analyze` on a run's kept records). Saves a full-page screenshot
+// of each report.
 //
 // Usage: node test/browser/check-report.mjs [--screenshot FILE.png] [--work DIR] [--report FILE.html ...]
-// Without --report it makes three small runs first (a sweep, a hostile name, an IQ scenario) in --work
+// Without --report it makes three small runs and an analysis first (a sweep, a hostile name, an IQ scenario, recorded traces) in --work
 // (default: a fresh temporary folder). Needs /usr/bin/chromium (Debian's package) and the
 // playwright-core dev dependency (which drives it; it downloads no browser).
 import { chromium } from 'playwright-core';
@@ -53,7 +54,13 @@ function makeRuns(work) {
   singleshot(['run', hostileFile, '--out', hostileDir, '--force', '--quiet', '--shots', '4096']);
   const iqDir = join(work, 'iq');
   singleshot(['run', 'test/fixtures/scenarios/iq-carrier.yaml', '--out', iqDir, '--force', '--quiet']);
-  return [join(sweepDir, 'report.html'), join(hostileDir, 'report.html'), join(iqDir, 'report.html')];
+  // an analysis of recorded traces: a run's kept records through analyze, then report
+  const recordedDir = join(work, 'recorded');
+  singleshot(['run', 'test/fixtures/scenarios/small.yaml', '--out', recordedDir, '--force', '--quiet', '--no-report', '--keep-traces', 'raw']);
+  const analysisDir = join(work, 'analysis');
+  singleshot(['analyze', join(recordedDir, 'traces.arrow'), '--labels', 'intended_outcome', '--out', analysisDir, '--force']);
+  singleshot(['report', analysisDir]);
+  return [join(sweepDir, 'report.html'), join(hostileDir, 'report.html'), join(iqDir, 'report.html'), join(analysisDir, 'report.html')];
 }
 
 const results = [];
@@ -135,7 +142,7 @@ async function inspect(context, file, screenshot) {
   check(`${label}: assignment matrix shown, each row summing to 1`,
     m !== null && m.rows.length >= 2 && m.rows.every((r) => r.height > 0 && r.fractions.length >= 2 && r.fractions.every((x) => x >= 0 && x <= 1) && Math.abs(r.fractions.reduce((a, b) => a + b, 0) - 1) < 2e-3),
     m ? m.rows.map((r) => `${r.state}: ${r.fractions.join(' + ')}`).join('; ') : 'no table with "reported" columns');
-  check(`${label}: caution about SPAM figures present`, /full thresholded statistics/.test(facts.caution) && /no substitute for measured/.test(facts.caution));
+  check(`${label}: caution about SPAM figures present`, /full thresholded statistics/.test(facts.caution) && /no substitute for measured|measured on the records against their labels/.test(facts.caution));
   if (screenshot) {
     mkdirSync(dirname(screenshot), { recursive: true });
     await page.screenshot({ path: screenshot, fullPage: true });
@@ -169,6 +176,13 @@ async function main() {
           iq !== null && iq.points >= 400 && iq.line.length === 1 && l.d > 10 && Boolean(crosses),
           iq ? `${iq.points} points, ${iq.line.length} decision line${crosses ? ' crossing the clouds' : ' away from the clouds'}` : 'no IQ figure');
         check('IQ scenario: the assignment matrix has a row per prepared state', facts.matrix?.rows.map((r) => r.state).join(',') === 'ground,excited',
+          JSON.stringify(facts.matrix?.rows.map((r) => r.state)));
+      }
+      if (o.reports.length === 0 && i === 3) {
+        check('analysis of recorded traces: the histogram by labelled outcome, the IQ plane, records and their noise spectrum',
+          ['Histogram by labelled outcome', 'IQ plane', 'Records', 'Noise spectrum'].every((t) => facts.figures.some((f) => f.title.startsWith(t))),
+          facts.figures.map((f) => f.title).join('; '));
+        check('analysis of recorded traces: the assignment matrix has a row per labelled outcome', facts.matrix?.rows.map((r) => r.state).join(',') === 'labelled 0,labelled 1',
           JSON.stringify(facts.matrix?.rows.map((r) => r.state)));
       }
       if (o.reports.length === 0 && i === 1) {
