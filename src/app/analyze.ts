@@ -12,7 +12,6 @@
  * flips a shot lying that close to the threshold).
  */
 import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
 import { tableToIPC, Bool, Float64, makeData, RecordBatch, Schema, Struct, Uint32, type Table } from 'apache-arrow';
 import { InputError } from '../errors.ts';
 import { makeGrid } from '../signal/grid.ts';
@@ -33,7 +32,8 @@ import { buildTable } from '../io/tables/columns.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
 import { writeManifest } from '../io/manifest.ts';
 import { META_PREFIX, tableMetadata, type RunProvenance } from '../io/metadata.ts';
-import { prepareOutputDir } from '../io/output-dir.ts';
+import { OutputFolder } from '../io/output-dir.ts';
+import { checkpoint, RunInterrupted } from '../run/interrupt.ts';
 import { CLASSIFIERS } from '../classify/registry.ts';
 
 export interface AnalyzeOptions {
@@ -43,7 +43,12 @@ export interface AnalyzeOptions {
   /** Label column to score against (outcome labels per row). */
   labels?: string;
   force?: boolean;
+  /** Aborting it stops the analysis between records (RunInterrupted); the output folder is left as it was. */
+  signal?: AbortSignal;
 }
+
+/** Records processed between two chances to stop. */
+const RECORDS_PER_TURN = 4096;
 
 /** The decision of every row (255 where the row calibrated and was not scored). */
 export interface AnalyzeResult {
@@ -166,6 +171,7 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
   const inPhase = new Float64Array(n), quadrature = new Float64Array(n), value = new Float64Array(n).fill(NaN);
   const outcome = new Uint8Array(n).fill(255), discarded = new Uint8Array(n);
   for (let r = 0; r < n; r++) {
+    if (r % RECORDS_PER_TURN === 0) await checkpoint(o.signal);
     if (calibrationRows[r]) continue;
     processRecord(chain, records.row(r, record), scratch, binsI, binsQ, 0);
     inPhase[r] = integrateBins(binsI, 0, c.weights);
@@ -177,17 +183,27 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
   const scores = scoreLabels ? scoreRows(scoreLabels, outcome, discarded, outcomes ?? ['0', '1']) : null;
 
   // tables
-  prepareOutputDir(o.outDir, o.force ?? false);
+  await checkpoint(o.signal);
+  const out = OutputFolder.open(o.outDir, {
+    force: o.force ?? false, command: 'analyze', inputs: [{ path: o.tracesPath, kind: 'file' }, { path: o.pipelinePath, kind: 'file' }],
+  });
   const provenance: RunProvenance = { scenario: file.canonical, seed: 0, engine: 'analyze', shard: '1/1' };
   const files: string[] = [];
-  writeManifest(o.outDir, { complete: false, seed: 0, engine: 'analyze', shard: '1/1', files, scenario: file.canonical });
-  writeShots(join(o.outDir, 'shots.arrow'), tableMetadata('shots', provenance), outcomes ?? ['0', '1'], spec.name,
-    { inPhase, quadrature, value, outcome, discarded, labels: scoreLabels, calibrationRows });
-  files.push('shots.arrow');
-  const summary = buildTable(summaryColumns(spec.name, n, calibrationRows, chain, c, scores), tableMetadata('summary', provenance));
-  writeFileAtomic(join(o.outDir, 'summary.arrow'), tableToIPC(summary, 'file'));
-  files.push('summary.arrow');
-  writeManifest(o.outDir, { complete: true, seed: 0, engine: 'analyze', shard: '1/1', files, scenario: file.canonical });
+  try {
+    writeShots(out.file('shots.arrow'), tableMetadata('shots', provenance), outcomes ?? ['0', '1'], spec.name,
+      { inPhase, quadrature, value, outcome, discarded, labels: scoreLabels, calibrationRows });
+    files.push('shots.arrow');
+    const summary = buildTable(summaryColumns(spec.name, n, calibrationRows, chain, c, scores), tableMetadata('summary', provenance));
+    writeFileAtomic(out.file('summary.arrow'), tableToIPC(summary, 'file'));
+    files.push('summary.arrow');
+    writeManifest(out.work, { complete: true, seed: 0, engine: 'analyze', shard: '1/1', files, scenario: file.canonical });
+    await checkpoint(o.signal);
+    out.publish();
+  } catch (e) {
+    out.discard();
+    if (e instanceof RunInterrupted) throw new RunInterrupted(e.signal, `${o.outDir} was left as it was`);
+    throw out.userError(e);
+  }
   const calibrated = calibrationRows.reduce((a, x) => a + x, 0);
   return { pipeline: spec.name, rows: n, calibrationRows: calibrated, outcome, value, discarded, scores, rule: c.rule, axis: c.axis, bins: chain.bins, files };
 }

@@ -26,7 +26,8 @@ import { ArrowFileStream } from '../io/arrow-sink.ts';
 import { checkArrowFile } from '../io/arrow-read.ts';
 import { readManifest, writeManifest, MANIFEST, type Manifest } from '../io/manifest.ts';
 import { META_PREFIX, TOOL_VERSION, type RunProvenance } from '../io/metadata.ts';
-import { prepareOutputDir } from '../io/output-dir.ts';
+import { OutputFolder } from '../io/output-dir.ts';
+import { checkpoint, RunInterrupted } from '../run/interrupt.ts';
 import { writeResultTables } from './result-tables.ts';
 import { encodeData, readTallies, runTallies, TALLIES, writeTallies, type PointTallies, type RunTallies } from './tallies.ts';
 import { expandPoints } from './run-to-directory.ts';
@@ -42,6 +43,8 @@ export interface MergeOptions {
   force?: boolean;
   /** Write report.html when the shards have one (default true). */
   report?: boolean;
+  /** Aborting it stops the merge between record batches (RunInterrupted); the output folder is left as it was. */
+  signal?: AbortSignal;
 }
 
 export interface MergeResult {
@@ -176,7 +179,7 @@ function withDictionaries(batch: RecordBatch, schema: Schema, dictionaries: Map<
 }
 
 /** Concatenates one streamed table of the shards, point by point, shard by shard. */
-async function concatenateTable(name: string, shards: readonly Shard[], pointOrder: readonly number[], outDir: string): Promise<void> {
+async function concatenateTable(name: string, shards: readonly Shard[], pointOrder: readonly number[], out: OutputFolder, signal?: AbortSignal): Promise<void> {
   // hostile files (empty, truncated, foreign, wrong table) are InputErrors before anything is read
   for (const s of shards) await checkArrowFile(join(s.dir, name), name.replace(/\.arrow$/, ''), ['point']);
   const readers = await Promise.all(shards.map(async (s) => {
@@ -189,7 +192,7 @@ async function concatenateTable(name: string, shards: readonly Shard[], pointOrd
   const metadata = new Map(source.metadata);
   metadata.set(`${META_PREFIX}shard`, '1/1');
   const schema = new Schema(source.fields, metadata);
-  const out = new ArrowFileStream(join(outDir, name), schema);
+  const stream = new ArrowFileStream(out.file(name), schema);
   const dictionaries = new Map<number, Vector>();
   const peek = async (r: (typeof readers)[number]): Promise<RecordBatch | null> => {
     if (!r.peeked && !r.done) {
@@ -206,17 +209,18 @@ async function concatenateTable(name: string, shards: readonly Shard[], pointOrd
     for (const p of pointOrder) {
       for (const r of readers) {
         for (let b = await peek(r); b && pointOf(b) === p; b = await peek(r)) {
-          out.write(withDictionaries(b, schema, dictionaries));
+          stream.write(withDictionaries(b, schema, dictionaries));
           r.peeked = null;
+          await checkpoint(signal);
         }
       }
     }
     for (const [i, r] of readers.entries()) {
       if (await peek(r)) throw new InputError(join(shards[i]!.dir, name), '', 'batches of the points in tallies.json only', 'batches of another point');
     }
-    out.finish();
+    stream.finish();
   } catch (e) {
-    out.abort();
+    stream.abort();
     throw e;
   } finally {
     await Promise.all(readers.map((r) => r.handle.close()));
@@ -249,24 +253,32 @@ export async function mergeRuns(o: MergeOptions): Promise<MergeResult> {
     finishPoint(r);
     return r;
   });
-  prepareOutputDir(o.outDir, o.force ?? false);
+  await checkpoint(o.signal);
+  const out = OutputFolder.open(o.outDir, { force: o.force ?? false, command: 'merge', inputs: o.dirs.map((d) => ({ path: d, kind: 'folder' as const })) });
   const m = a.manifest;
-  const provenance: RunProvenance = { scenario: m.scenario, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1' };
-  const files: string[] = [];
   const mergedFrom = shards.map((s) => s.dir);
-  writeManifest(o.outDir, { complete: false, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
-  const order = points.map((p) => p.index);
-  for (const t of STREAMED_TABLES) {
-    if (!m.files.includes(t)) continue;
-    await concatenateTable(t, shards, order, o.outDir);
-    files.push(t);
+  const files: string[] = [];
+  try {
+    const provenance: RunProvenance = { scenario: m.scenario, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1' };
+    const order = points.map((p) => p.index);
+    for (const t of STREAMED_TABLES) {
+      if (!m.files.includes(t)) continue;
+      await concatenateTable(t, shards, order, out, o.signal);
+      files.push(t);
+    }
+    files.push(...writeResultTables(out.work, points, provenance, points[0]!.scenario.signal.unit, sweepPoints[0]!.units ?? {}));
+    const tallies = runTallies(points, merged.map((x) => x.tallies.batches), { seed: m.seed, engine: m.engine, scenario: m.scenario });
+    writeTallies(out.work, tallies);
+    files.push(TALLIES);
+    writeManifest(out.work, { complete: true, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
+    if (o.report !== false && existsSync(join(a.dir, 'report.html'))) await writeReport(out.work, out.file('report.html'), o.signal);
+    await checkpoint(o.signal);
+    out.publish();
+  } catch (e) {
+    out.discard();
+    if (e instanceof RunInterrupted) throw new RunInterrupted(e.signal, `${o.outDir} was left as it was`);
+    throw out.userError(e);
   }
-  files.push(...writeResultTables(o.outDir, points, provenance, points[0]!.scenario.signal.unit, sweepPoints[0]!.units ?? {}));
-  const tallies = runTallies(points, merged.map((x) => x.tallies.batches), { seed: m.seed, engine: m.engine, scenario: m.scenario });
-  writeTallies(o.outDir, tallies);
-  files.push(TALLIES);
-  writeManifest(o.outDir, { complete: true, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
-  if (o.report !== false && existsSync(join(a.dir, 'report.html'))) await writeReport(o.outDir);
   const result: RunResult = { points, engine: m.engine, engineReason: m.engineReason ?? '' };
   return { result, files, shards: mergedFrom };
 }

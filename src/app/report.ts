@@ -3,7 +3,12 @@
  * re-simulates the example records, renders every plot to SVG and assembles the page.
  * The same folder always gives the same bytes (no clock, no path, no random state).
  */
-import { join } from 'node:path';
+import { existsSync, realpathSync, statSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import { InputError } from '../errors.ts';
+import { FolderLock } from '../io/folder-lock.ts';
+import { KNOWN_FILES } from '../io/output-dir.ts';
+import { checkpoint } from '../run/interrupt.ts';
 import { operatingPoints, type PipelineOperatingPoint } from '../analysis/operating-point.ts';
 import { compilePoint } from '../engine/compile-point.ts';
 import { sweepCombinations, sweepPointAt } from '../run/sweep.ts';
@@ -53,8 +58,8 @@ function interval(r: { low: number; high: number }): string {
   return `95 % interval [${probability(r.low)}, ${probability(r.high)}]`;
 }
 
-/** Builds the report page of a finished run folder. */
-export async function buildReport(dir: string): Promise<BuiltReport> {
+/** Builds the report page of a finished run folder; an aborted `signal` stops it between steps (RunInterrupted). */
+export async function buildReport(dir: string, signal?: AbortSignal): Promise<BuiltReport> {
   const t = readRunTables(dir);
   const spec = t.scenario.sweep;
   const axes = spec?.axes ?? [];
@@ -74,7 +79,7 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
 
   // integrated values
   const values = t.hasShots
-    ? await readPointValues(dir, bestRow.point, op.pipeline, scenario.states.map((s) => s.name))
+    ? await readPointValues(dir, bestRow.point, op.pipeline, scenario.states.map((s) => s.name), () => checkpoint(signal))
     : resimulatedValues(compiled, bestRow.point, reading.pipeline, { cos: Math.cos(reading.axisAngle), sin: Math.sin(reading.axisAngle) });
   const histogram = histogramView(compiled, reading, values);
   const shotsSaid = t.hasShots
@@ -153,6 +158,7 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   const warnings: string[] = [];
   let n = 0;
   for (const p of pending) {
+    await checkpoint(signal);
     n++;
     const r = await renderPlot(p.spec, `plot${n}-`);
     warnings.push(...r.warnings);
@@ -206,9 +212,57 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   return { html, warnings, plots: n };
 }
 
-/** Builds the report of a run folder and writes it to `out` (default DIR/report.html); returns the path. */
-export async function writeReport(dir: string, out = join(dir, 'report.html')): Promise<{ path: string; report: BuiltReport }> {
-  const report = await buildReport(dir);
+/**
+ * Builds the report of a run folder and writes it to `out` (default DIR/report.html), replacing
+ * a file there; returns the path. The commands that write a run folder call it on their staging
+ * folder; `reportFolder` is the `report` command.
+ */
+export async function writeReport(dir: string, out = join(dir, 'report.html'), signal?: AbortSignal): Promise<{ path: string; report: BuiltReport }> {
+  const report = await buildReport(dir, signal);
+  await checkpoint(signal);
   writeFileAtomic(out, report.html);
   return { path: out, report };
+}
+
+export interface ReportOptions {
+  /** The finished run folder. */
+  dir: string;
+  /** Where the page goes (default DIR/report.html). */
+  out?: string;
+  /** Replace a file that is there already. */
+  force?: boolean;
+  signal?: AbortSignal;
+}
+
+/**
+ * The `report` command: holds the run folder's lock while it reads the tables and writes the
+ * page, atomically; never replaces a file without `force`, and never one of the run's own tables
+ * or records (run.json, tallies.json, the .arrow files), even with it.
+ */
+export async function reportFolder(o: ReportOptions): Promise<{ path: string; report: BuiltReport }> {
+  const out = o.out ?? join(o.dir, 'report.html');
+  if (out.trim() === '') throw new InputError('--out', '', 'a file path for the page', 'an empty string');
+  if (existsSync(out) && statSync(out).isDirectory()) throw new InputError(out, '', 'a file path for the page (--out names the file, not a folder)', 'a folder');
+  const sameFolder = realpathOrNull(dirname(out)) !== null && realpathOrNull(dirname(out)) === realpathOrNull(o.dir);
+  if (sameFolder && basename(out) !== 'report.html' && (KNOWN_FILES as readonly string[]).includes(basename(out))) {
+    throw new InputError(out, '', 'a page name that is not one of the run\'s own files', `${basename(out)}, which the run's tables need`);
+  }
+  if (!existsSync(o.dir) || !statSync(o.dir).isDirectory()) throw new InputError(o.dir, '', 'a run folder', 'no such folder');
+  const lock = FolderLock.take(o.dir, 'report');
+  try {
+    const report = await buildReport(o.dir, o.signal);
+    await checkpoint(o.signal);
+    writeFileAtomic(out, report.html, { replace: o.force ?? false });
+    return { path: out, report };
+  } finally {
+    lock.release();
+  }
+}
+
+function realpathOrNull(path: string): string | null {
+  try {
+    return realpathSync(path);
+  } catch {
+    return null;
+  }
 }

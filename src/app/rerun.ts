@@ -103,6 +103,8 @@ export async function rerunDirectory(o: RerunOptions): Promise<RerunResult> {
     await runToDirectory({
       scenarioPath, outDir, force: o.force, shard, engine, workers: o.workers, keepTraces,
       shotsTable: files.includes('shots.arrow'), report: false, signal: o.signal,
+      // never into the folder it checks, not even with --force
+      inputs: [{ path: o.dir, kind: 'folder' }],
     });
     const comparisons = files.map((f) => {
       let original: Uint8Array, again: Uint8Array;

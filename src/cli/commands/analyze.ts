@@ -2,6 +2,7 @@
 import { Command } from 'commander';
 import { analyzeToDirectory, type AnalyzeResult } from '../../app/analyze.ts';
 import { formatProbability } from '../format.ts';
+import { withInterruptSignals } from '../signals.ts';
 
 /** The readable summary of an analysis. */
 export function formatAnalysis(r: AnalyzeResult, out: string): string {
@@ -29,7 +30,7 @@ export function makeAnalyzeCommand(): Command {
     .option('--json', 'print the result as one JSON object on stdout')
     .option('--force', 'replace the files of a non-empty --out folder')
     .action(async (traces: string, opts: { pipeline: string; out: string; labels?: string; json?: boolean; force?: boolean }) => {
-      const r = await analyzeToDirectory({ tracesPath: traces, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force });
+      const r = await withInterruptSignals((signal) => analyzeToDirectory({ tracesPath: traces, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force, signal }));
       if (opts.json) {
         const json = { pipeline: r.pipeline, rows: r.rows, calibrationRows: r.calibrationRows, bins: r.bins, threshold: r.rule.threshold, scores: r.scores, out: opts.out, files: r.files };
         process.stdout.write(JSON.stringify(json, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');

@@ -3,6 +3,7 @@ import { Command } from 'commander';
 import { mergeRuns } from '../../app/merge.ts';
 import { resultToJson } from '../../app/result-json.ts';
 import { formatResult } from '../format.ts';
+import { withInterruptSignals } from '../signals.ts';
 
 export function makeMergeCommand(): Command {
   return new Command('merge')
@@ -13,7 +14,7 @@ export function makeMergeCommand(): Command {
     .option('--json', 'print the merged result as one JSON object on stdout')
     .option('--no-report', 'do not write report.html')
     .action(async (dirs: string[], opts: { out: string; force?: boolean; json?: boolean; report: boolean }) => {
-      const { result, files, shards } = await mergeRuns({ dirs, outDir: opts.out, force: opts.force, report: opts.report });
+      const { result, files, shards } = await withInterruptSignals((signal) => mergeRuns({ dirs, outDir: opts.out, force: opts.force, report: opts.report, signal }));
       if (opts.json) process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, mergedFrom: shards })) + '\n');
       else process.stdout.write(formatResult(result) + `\nmerged ${shards.length} shard${shards.length === 1 ? '' : 's'} into ${opts.out}: ${files.join(', ')}\n`);
     });

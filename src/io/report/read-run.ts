@@ -149,11 +149,17 @@ export function readRunTables(dir: string): RunTables {
   };
 }
 
-/** Integrated values of one point and pipeline from shots.arrow, grouped by intended state. */
-export async function readPointValues(dir: string, point: number, pipeline: string, stateNames: readonly string[]): Promise<Float64Array[]> {
+/**
+ * Integrated values of one point and pipeline from shots.arrow, grouped by intended state;
+ * `between` runs after every record batch (the caller's chance to stop).
+ */
+export async function readPointValues(
+  dir: string, point: number, pipeline: string, stateNames: readonly string[], between?: () => Promise<void>,
+): Promise<Float64Array[]> {
   const parts: number[][] = stateNames.map(() => []);
   const reader = await RecordBatchReader.from(createReadStream(join(dir, 'shots.arrow')));
   for await (const batch of reader) {
+    await between?.();
     const pointCol = batch.getChild('point');
     const pipeCol = batch.getChild('pipeline');
     const stateCol = batch.getChild('prepared');
