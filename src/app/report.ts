@@ -16,7 +16,8 @@ import { describeScenario } from '../scenario/summary.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
 import { probability, short, showValue } from '../io/report/display.ts';
-import { noiseSpectrumView } from '../io/report/noise-view.ts';
+import { NOISE_TABLE, noiseSpectrumView } from '../io/report/noise-view.ts';
+import { openRunFolder } from './run-folder.ts';
 import { renderPage, type Card, type Figure, type SectionView } from '../io/report/page.ts';
 import { histogramView, traceViews, type PointReading } from '../io/report/point-views.ts';
 import { exampleShots, resimulatedValues } from '../engine/trace/examples.ts';
@@ -24,6 +25,9 @@ import { readPointValues, readRunTables, type RunTables, type SummaryRow } from 
 import { renderPlot, type PlotSpec } from '../io/report/svg.ts';
 import { describeParameters, heatMapView, sweepLineViews } from '../io/report/sweep-views.ts';
 import { causeTable, pointsTable, refinementOf } from '../io/report/tables.ts';
+
+/** The files of a run folder the report reads (each checked against run.json when listed). */
+const REPORT_READS = ['summary.arrow', 'budget.arrow', 'shots.arrow', NOISE_TABLE];
 
 /** The page and what the plotting library said while drawing it. */
 export interface BuiltReport {
@@ -58,8 +62,12 @@ function interval(r: { low: number; high: number }): string {
   return `95 % interval [${probability(r.low)}, ${probability(r.high)}]`;
 }
 
-/** Builds the report page of a finished run folder; an aborted `signal` stops it between steps (RunInterrupted). */
-export async function buildReport(dir: string, signal?: AbortSignal): Promise<BuiltReport> {
+/**
+ * Builds the report page of a finished run folder; an aborted `signal` stops it between steps
+ * (RunInterrupted). `verify: false` skips the checksums (the folder a command has just written).
+ */
+export async function buildReport(dir: string, signal?: AbortSignal, verify = true): Promise<BuiltReport> {
+  if (verify) await openRunFolder(dir, REPORT_READS);
   const t = readRunTables(dir);
   const spec = t.scenario.sweep;
   const axes = spec?.axes ?? [];
@@ -137,7 +145,7 @@ export async function buildReport(dir: string, signal?: AbortSignal): Promise<Bu
   }
 
   // noise spectrum
-  const noise = noiseSpectrumView(dir);
+  const noise = noiseSpectrumView(dir, t.files.includes(NOISE_TABLE));
   const spectrum: SectionView = { id: 'spectrum', title: 'Noise spectrum', intro: [], figures: [], tables: [] };
   if ('note' in noise) spectrum.note = noise.note;
   else pending.push({ section: spectrum, spec: noise.spec, figure: { title: 'Noise components', caption: noise.caption } });
@@ -218,7 +226,7 @@ export async function buildReport(dir: string, signal?: AbortSignal): Promise<Bu
  * folder; `reportFolder` is the `report` command.
  */
 export async function writeReport(dir: string, out = join(dir, 'report.html'), signal?: AbortSignal): Promise<{ path: string; report: BuiltReport }> {
-  const report = await buildReport(dir, signal);
+  const report = await buildReport(dir, signal, false);
   await checkpoint(signal);
   writeFileAtomic(out, report.html);
   return { path: out, report };

@@ -23,7 +23,7 @@ import { freeResources, guardResources, type FreeResources } from './resource-gu
 import { abortSignalName, checkpoint, interruptibleExecutor, RunInterrupted } from '../run/interrupt.ts';
 import { inProcessExecutor } from '../run/executor.ts';
 import { expandSweep } from '../run/sweep.ts';
-import { checkRefineRequest, refineWithin, type RefineRequest, type RefineOutcome } from './refine-run.ts';
+import { checkRefineRequest, DEFAULT_REFINE_POINTS, refineWithin, type RefineRequest, type RefineOutcome } from './refine-run.ts';
 import { writeReport } from './report.ts';
 import { resolveEngine } from '../run/run-points.ts';
 import type { EngineChoice, EngineRequest } from '../engine/choose.ts';
@@ -153,7 +153,12 @@ async function runIntoFolder(
 ): Promise<RunToDirectoryResult> {
   const first = points[0]!.scenario;
   const shard = o.shard ? `${o.shard.index + 1}/${o.shard.count}` : '1/1';
-  const provenance: RunProvenance = { scenario: loaded.canonical, seed: first.seed, engine: choice.engine, engineReason: choice.reason, shard };
+  // a refinement is recorded (tables and run.json) so that `rerun` can make it again
+  const refine = o.refine ? { key: o.refine.key, points: o.refine.points ?? DEFAULT_REFINE_POINTS } : undefined;
+  const provenance: RunProvenance = {
+    scenario: loaded.canonical, seed: first.seed, engine: choice.engine, engineReason: choice.reason, shard,
+    ...(refine ? { refine: JSON.stringify(refine) } : {}),
+  };
   const files: string[] = [];
   const pool = threads.pool ? workerPoolExecutor(threads.count) : null;
   const executor = o.executor ?? pool ?? inProcessExecutor();
@@ -207,7 +212,7 @@ async function runIntoFolder(
   const ranges = result.points.map((p) => shardRange(batchCount(p.scenario, 'score'), o.shard));
   writeTallies(out.work, runTallies(result.points, ranges, { seed: first.seed, engine: result.engine, scenario: loaded.canonical }));
   files.push(TALLIES);
-  writeManifest(out.work, { complete: true, seed: first.seed, engine: result.engine, engineReason: result.engineReason, shard, files, scenario: loaded.canonical });
+  writeManifest(out.work, { complete: true, seed: first.seed, engine: result.engine, engineReason: result.engineReason, shard, files, scenario: loaded.canonical, ...(refine ? { refine } : {}) });
   let report: string | null = null;
   if (o.report !== false) {
     if (o.signal) await checkpoint(o.signal);

@@ -121,7 +121,7 @@ function checkSchema(path: string, schema: Schema, expectedTable: string, requir
  * both magic markers, a readable schema with the expected table name and columns. Damage in the
  * middle of the body shows only when the batches are read.
  */
-export async function checkArrowFile(path: string, expectedTable: string, requiredColumns: readonly ColumnRequirement[] = []): Promise<void> {
+export async function checkArrowFile(path: string, expectedTable: string, requiredColumns: readonly ColumnRequirement[] = []): Promise<Schema> {
   let handle;
   try {
     handle = await open(path, 'r');
@@ -152,6 +152,7 @@ export async function checkArrowFile(path: string, expectedTable: string, requir
       throw new InputError(path, '', 'a readable Arrow table file', `a damaged file (${reason.slice(0, 120)})`);
     }
     checkSchema(path, schema, expectedTable, requiredColumns);
+    return schema;
   } finally {
     await handle.close();
   }

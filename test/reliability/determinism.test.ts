@@ -5,6 +5,7 @@
  * cannot. (Worker counts and shard splits are tested by the scale tests.)
  */
 import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -114,7 +115,7 @@ describe('singleshot rerun', () => {
     expect(r.provenance).toMatchObject({ seed: '11', shard: '2/3', engine: 'traces' });
   });
 
-  it('CLI: exit 0 and a verdict on a match; exit 1 naming the file and byte on a mismatch', async () => {
+  it('CLI: exit 0 and a verdict on a match; exit 2 for a damaged file; exit 1 naming the file and byte on a mismatch', async () => {
     const dir = await run(TINY);
     const ok = await runMain(['rerun', dir]);
     expect(ok.code, ok.err).toBe(0);
@@ -126,6 +127,15 @@ describe('singleshot rerun', () => {
     const at = Math.floor(bytes.length / 2);
     bytes[at] = bytes[at]! ^ 0x01;
     writeFileSync(path, bytes);
+    const damaged = await runMain(['rerun', dir]);
+    expect(damaged.code).toBe(2);
+    expect(damaged.err).toMatch(/shots\.arrow: expected the bytes run\.json records .*the file was changed or damaged/);
+    // the same change with its checksum recorded (a folder whose files are as run.json says, but
+    // not what the scenario and seed make): the rerun finds the difference
+    const manifestPath = join(dir, 'run.json');
+    const m = JSON.parse(readFileSync(manifestPath, 'utf8'));
+    m.sha256['shots.arrow'] = createHash('sha256').update(bytes).digest('hex');
+    writeFileSync(manifestPath, JSON.stringify(m, null, 2));
     const bad = await runMain(['rerun', dir]);
     expect(bad.code).toBe(1);
     expect(bad.out).toContain(`shots.arrow: DIFFERENT (${bytes.length} vs ${bytes.length} bytes, first difference at byte ${at})`);
