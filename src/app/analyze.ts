@@ -12,7 +12,7 @@
  * flips a shot lying that close to the threshold).
  */
 import { readFileSync } from 'node:fs';
-import { tableToIPC, Bool, Float64, makeData, RecordBatch, Schema, Struct, Uint32, type Table } from 'apache-arrow';
+import { tableToIPC, type Table } from 'apache-arrow';
 import { InputError } from '../errors.ts';
 import { makeGrid } from '../signal/grid.ts';
 import { compileChain, type PipelineChain } from '../dsp/pipeline-chain.ts';
@@ -26,8 +26,7 @@ import { REPORT_CONFIDENCE } from '../analysis/summary.ts';
 import { readPipelineFile, resolveAnalysis, type ResolvedAnalysis } from '../scenario/pipeline-file.ts';
 import { labelColumn, metadataNumber, optionalIntegerColumn, readArrowTable, recordColumn, type RecordColumn } from '../io/record-table.ts';
 import type { StoredCalibration } from '../io/tables/traces.ts';
-import { ArrowFileStream } from '../io/arrow-sink.ts';
-import { boolData, dictionaryData, float64Data, makeDictionaryColumn, uint32Data, unitField } from '../io/arrow-columns.ts';
+import { analysisSummaryColumns, writeAnalysisShots } from '../io/tables/analysis.ts';
 import { buildTable } from '../io/tables/columns.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
 import { writeManifest } from '../io/manifest.ts';
@@ -107,12 +106,25 @@ function metadataOutcomes(table: Table): string[] | null {
   }
 }
 
+/**
+ * Runs `read`; a column it does not find, named by key `key` of the pipeline file, is refused
+ * naming that file and key too (either may be the one to change).
+ */
+function fromPipelineFile<T>(pipelinePath: string, key: string | null, read: () => T): T {
+  try {
+    return read();
+  } catch (e) {
+    if (key === null || !(e instanceof InputError) || !e.message.endsWith('found no such column')) throw e;
+    throw new InputError(pipelinePath, key, `a column of the table (${e.message})`, 'a name the table does not have');
+  }
+}
+
 /** Runs the analysis and writes the tables; see the file comment. */
 export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResult> {
   const file = readPipelineFile(readText(o.pipelinePath), o.pipelinePath);
   const table = readArrowTable(o.tracesPath);
   const columnName = file.doc.column ?? 'record';
-  const records = recordColumn(o.tracesPath, table, columnName);
+  const records = fromPipelineFile(o.pipelinePath, file.doc.column === undefined ? null : 'column', () => recordColumn(o.tracesPath, table, columnName));
   const meta = (k: string) => metadataNumber(table, `${META_PREFIX}${k}`);
   const resolved = resolveAnalysis(file, {
     samples: records.samples, sampleRate: meta('sample_rate'), carrierFrequency: meta('carrier_frequency'),
@@ -142,7 +154,7 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
       };
     };
   } else if (cal !== undefined) {
-    const labels = labelColumn(o.tracesPath, table, cal.labels, outcomes);
+    const labels = fromPipelineFile(o.pipelinePath, 'calibration.labels', () => labelColumn(o.tracesPath, table, cal.labels, outcomes));
     const labelled: number[] = [];
     for (let r = 0; r < records.rows; r++) if (labels[r] !== 255) labelled.push(r);
     const take = Math.ceil((cal.fraction ?? 0.2) * labelled.length);
@@ -190,10 +202,14 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
   const provenance: RunProvenance = { scenario: file.canonical, seed: 0, engine: 'analyze', shard: '1/1' };
   const files: string[] = [];
   try {
-    writeShots(out.file('shots.arrow'), tableMetadata('shots', provenance), outcomes ?? ['0', '1'], spec.name,
+    writeAnalysisShots(out.file('shots.arrow'), tableMetadata('shots', provenance), outcomes ?? ['0', '1'], spec.name,
       { inPhase, quadrature, value, outcome, discarded, labels: scoreLabels, calibrationRows });
     files.push('shots.arrow');
-    const summary = buildTable(summaryColumns(spec.name, n, calibrationRows, chain, c, scores), tableMetadata('summary', provenance));
+    const calibrationFacts = {
+      threshold: c.rule.threshold, highIsOne: c.rule.highIsOne, axisAngle: Math.atan2(c.axis.sin, c.axis.cos),
+      referencePhase: c.referencePhase, bins: chain.bins, sampleRate: chain.sampleRate,
+    };
+    const summary = buildTable(analysisSummaryColumns(spec.name, n, calibrationRows, calibrationFacts, scores), tableMetadata('summary', provenance));
     writeFileAtomic(out.file('summary.arrow'), tableToIPC(summary, 'file'));
     files.push('summary.arrow');
     writeManifest(out.work, { complete: true, seed: 0, engine: 'analyze', shard: '1/1', files, scenario: file.canonical });
@@ -226,6 +242,11 @@ function storedFor(path: string, table: Table, name: string, named: boolean): St
   }
   const point = stored.find((s) => s.point === (points?.[0] ?? stored![0]!.point)) ?? stored[0]!;
   const list = point.pipelines;
+  const key = `metadata ${META_PREFIX}calibration`;
+  if (!Array.isArray(list) || list.some((p) => storedEntryProblem(p) !== null)) {
+    const bad = Array.isArray(list) ? list.map(storedEntryProblem).find((x) => x !== null) : 'not a list';
+    throw new InputError(path, key, 'a stored calibration (written by run --keep-traces)', `one that does not read back (${bad ?? 'pipelines'})`);
+  }
   const found = list.find((p) => p.name === name) ?? (!named && list.length === 1 ? list[0] : undefined);
   if (!found) throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a calibration of pipeline "${name}" (stored: ${list.map((p) => `"${p.name}"`).join(', ')}); set name in the pipeline file`, 'none');
   const classifier = CLASSIFIERS.find((k) => k.name === found.classifier);
@@ -233,6 +254,20 @@ function storedFor(path: string, table: Table, name: string, named: boolean): St
     throw new InputError(path, `metadata ${META_PREFIX}calibration`, `a pipeline that decides on its integrated value ("${found.name}" uses the ${found.classifier} classifier)`, found.classifier);
   }
   return found;
+}
+
+/** What is wrong with one stored pipeline calibration, or null when it is whole. */
+function storedEntryProblem(p: unknown): string | null {
+  if (p === null || typeof p !== 'object') return 'an entry that is not an object';
+  const e = p as Record<string, unknown>;
+  const finite = (x: unknown) => typeof x === 'number' && Number.isFinite(x) && Math.abs(x) <= 1e100;
+  if (typeof e.name !== 'string' || typeof e.classifier !== 'string') return 'a name and a classifier';
+  if (!finite(e.referencePhase) || !finite(e.axisAngle)) return 'finite angles';
+  if (!finite(e.threshold)) return 'a finite threshold';
+  if (typeof e.highIsOne !== 'boolean') return 'highIsOne true or false';
+  if (!finite(e.bandHalfWidth) || (e.bandHalfWidth as number) < 0) return 'a band half-width ≥ 0';
+  if (e.weights !== null && !(Array.isArray(e.weights) && e.weights.length > 0 && e.weights.every(finite))) return 'null or finite weights';
+  return null;
 }
 
 /** Calibrates on the flagged rows from their labels (see the file comment of analyze-pipeline.ts). */
@@ -313,86 +348,4 @@ function scoreRows(labels: Uint8Array, outcome: Uint8Array, discarded: Uint8Arra
     postSelectedError: wilsonInterval(wrong - discWrong, total - disc, REPORT_CONFIDENCE),
     discardsAsFailuresError: wilsonInterval(wrong - discWrong + disc, total, REPORT_CONFIDENCE),
   };
-}
-
-interface ShotColumns {
-  inPhase: Float64Array;
-  quadrature: Float64Array;
-  value: Float64Array;
-  outcome: Uint8Array;
-  discarded: Uint8Array;
-  labels: Uint8Array | null;
-  calibrationRows: Uint8Array;
-}
-
-/** shots.arrow of analyze: one row per decided (non-calibration) row, in batches of 65 536. */
-function writeShots(path: string, metadata: Map<string, string>, outcomes: readonly string[], pipeline: string, s: ShotColumns): void {
-  const dict = makeDictionaryColumn(1, outcomes);
-  const fields = [
-    unitField('row', new Uint32(), null), unitField('in_phase', new Float64(), null), unitField('quadrature', new Float64(), null),
-    unitField('value', new Float64(), null), unitField('outcome', dict.type, null), unitField('discarded', new Bool(), null),
-    ...(s.labels ? [unitField('label', dict.type, null, true), unitField('correct', new Bool(), null, true)] : []),
-  ];
-  const schema = new Schema(fields, new Map([...metadata, [`${META_PREFIX}pipeline`, pipeline]]));
-  const stream = new ArrowFileStream(path, schema);
-  try {
-    const decided: number[] = [];
-    for (let r = 0; r < s.outcome.length; r++) if (!s.calibrationRows[r]) decided.push(r);
-    for (let from = 0; from < decided.length || from === 0; from += 65536) {
-      const rows = decided.slice(from, from + 65536);
-      const pick = <T extends Float64Array | Uint8Array>(a: T, make: (n: number) => T): T => {
-        const out = make(rows.length);
-        rows.forEach((r, j) => { out[j] = a[r]!; });
-        return out;
-      };
-      const f64 = (a: Float64Array) => float64Data(pick(a, (k) => new Float64Array(k)));
-      const u8 = (a: Uint8Array) => pick(a, (k) => new Uint8Array(k));
-      const children = [
-        uint32Data(Uint32Array.from(rows)), f64(s.inPhase), f64(s.quadrature), f64(s.value),
-        dictionaryData(dict, u8(s.outcome)), boolData(u8(s.discarded)),
-      ];
-      if (s.labels) {
-        // unlabelled rows (255) get null label and correct
-        const label = u8(s.labels);
-        const valid = new Uint8Array((rows.length + 7) >> 3);
-        let nulls = 0;
-        label.forEach((l, j) => { if (l <= 1) valid[j >> 3]! |= 1 << (j & 7); else nulls++; });
-        const correct = Uint8Array.from(label, (l, j) => (l <= 1 && l === s.outcome[rows[j]!] ? 1 : 0));
-        const nullBitmap = nulls > 0 ? valid : undefined;
-        children.push(
-          makeData({ type: dict.type, length: rows.length, nullCount: nulls, nullBitmap, data: Uint8Array.from(label, (l) => (l <= 1 ? l : 0)), dictionary: dict.dictionary }),
-          makeData({ type: new Bool(), length: rows.length, nullCount: nulls, nullBitmap, data: boolData(correct).values }),
-        );
-      }
-      stream.write(new RecordBatch(schema, makeData({ type: new Struct(fields), length: rows.length, nullCount: 0, children })));
-      if (decided.length === 0) break;
-    }
-    stream.finish();
-  } catch (e) {
-    stream.abort();
-    throw e;
-  }
-}
-
-function summaryColumns(
-  pipeline: string, rows: number, calibrationRows: Uint8Array, chain: PipelineChain, c: Calibration, scores: AnalyzeScores | null,
-) {
-  const calibrated = calibrationRows.reduce((a, x) => a + x, 0);
-  const f = (name: string, v: number | null) => ({ name, kind: 'f64' as const, unit: '', values: [v] });
-  const u = (name: string, v: number) => ({ name, kind: 'u32' as const, unit: null, values: [v] });
-  return [
-    { name: 'pipeline', kind: 'str' as const, unit: null, values: [pipeline] },
-    u('rows', rows), u('calibration_rows', calibrated), u('decided_rows', rows - calibrated),
-    u('scored_shots', scores?.shots ?? 0),
-    f('mean_error', scores?.error.rate ?? null), f('mean_error_low', scores?.error.low ?? null), f('mean_error_high', scores?.error.high ?? null),
-    ...(scores?.byOutcome ?? []).flatMap((b) => [
-      f(`error_${b.outcome}`, b.error.rate), f(`error_${b.outcome}_low`, b.error.low), f(`error_${b.outcome}_high`, b.error.high),
-    ]),
-    f('discard_fraction', scores?.discardFraction ?? null),
-    f('post_selected_error', scores?.postSelectedError.rate ?? null),
-    f('discards_as_failures_error', scores?.discardsAsFailuresError.rate ?? null),
-    f('threshold', c.rule.threshold), { name: 'high_is_one', kind: 'bool' as const, unit: null, values: [c.rule.highIsOne] },
-    { ...f('axis_angle', Math.atan2(c.axis.sin, c.axis.cos)), unit: 'rad' }, { ...f('reference_phase', c.referencePhase), unit: 'rad' },
-    u('bins', chain.bins), { ...f('sample_rate', chain.sampleRate), unit: 'Hz' },
-  ];
 }

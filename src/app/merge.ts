@@ -236,9 +236,14 @@ function checkBatchShots(path: string, b: RecordBatch, pipelines: readonly strin
     if (group < 0) throw new InputError(path, 'pipeline', `one of the scenario's pipelines (${pipelines.join(', ')})`, JSON.stringify(name.slice(0, 40)));
   }
   const p0 = point.get(0);
+  const pipeline = pipelines ? b.getChild('pipeline')! : null;
   for (let i = 0; i < b.numRows; i++) {
     const expected = next[group]! + i;
-    if (Number(shot.get(i)) !== expected || point.get(i) !== p0 || (pipelines && String(b.getChild('pipeline')!.get(i)) !== pipelines[group])) {
+    if (point.get(i) !== p0) throw new InputError(path, 'point', `point ${String(p0)} in every row of a batch`, `point ${String(point.get(i))}`);
+    if (pipeline && String(pipeline.get(i)) !== pipelines![group]) {
+      throw new InputError(path, 'pipeline', `pipeline "${pipelines![group]}" in every row of a batch`, JSON.stringify(String(pipeline.get(i)).slice(0, 40)));
+    }
+    if (Number(shot.get(i)) !== expected) {
       throw new InputError(path, 'shot', `shot ${expected} of point ${String(p0)} next (the shard scored shots [${range.first}, ${range.end}) once each)`, `shot ${String(shot.get(i))}`);
     }
   }

@@ -46,7 +46,7 @@ export async function openRunFolder(dir: string, reads: readonly string[] | 'all
   for (const f of checked.filter((x) => x.endsWith('.arrow'))) {
     const path = join(dir, f);
     const schema = await checkArrowFile(path, f.replace(/\.arrow$/, ''));
-    checkMetadata(path, schema, expectedMetadata(manifest, f.replace(/\.arrow$/, '')));
+    checkMetadata(path, schema, expectedMetadata(manifest, f.replace(/\.arrow$/, '')), join(dir, 'run.json'));
   }
   if (reads === 'all' && !manifest.files.includes(TALLIES) && manifest.engine !== 'analyze') {
     throw new InputError(join(dir, 'run.json'), 'files', `a list that holds ${TALLIES}`, JSON.stringify(manifest.files).slice(0, 80));

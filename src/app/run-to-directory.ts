@@ -6,6 +6,7 @@
  * folder (run.json last). An interrupted or failed run leaves the folder as it was.
  */
 import { join } from 'node:path';
+import { ScenarioProblem } from '../errors.ts';
 import { loadScenarioFile, type LoadedScenario } from '../scenario/load.ts';
 import type { ScenarioOverrides } from '../scenario/overrides.ts';
 import type { SweepSpec } from '../scenario/types.ts';
@@ -143,8 +144,14 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   } catch (e) {
     out.discard();
     if (e instanceof RunInterrupted) throw new RunInterrupted(e.signal, `${o.outDir} was left as it was`);
+    if (e instanceof ScenarioProblem) throw e.toInputError(o.scenarioPath, hasPipelinesKey(loaded.doc), points.length);
     throw out.userError(e);
   }
+}
+
+/** Whether the scenario document writes its pipelines as a `pipelines` list (else `processing`). */
+function hasPipelinesKey(doc: unknown): boolean {
+  return doc !== null && typeof doc === 'object' && 'pipelines' in doc;
 }
 
 /** Runs the points and writes every file into the output folder's staging folder. */

@@ -10,6 +10,7 @@
  * has no closed-form budget.
  */
 import type { Scenario } from '../scenario/types.ts';
+import { ScenarioProblem } from '../errors.ts';
 import { makeProcessScratch, processRecord } from '../dsp/process-record.ts';
 import type { ClassifierKind } from './contract.ts';
 import { makeHmmClassifier, type HmmClassifierSpec } from './likelihood.ts';
@@ -45,6 +46,7 @@ export const likelihoodClassifier: ClassifierKind<HmmClassifierSpec> = {
   },
   exactBlocker: 'the likelihood classifier is not linear in the record',
   needsDevice: 'the likelihood classifier needs the device model, which recorded traces do not carry',
+  needsNoise: 'the likelihood classifier divides by the noise σ per bin',
 
   fit(r, chain, axis, device) {
     if (!device) throw new Error('the likelihood classifier needs the device model');
@@ -69,7 +71,7 @@ export const likelihoodClassifier: ClassifierKind<HmmClassifierSpec> = {
       }
       count += r.bins;
     }
-    if (count === 0) throw new Error('no clean calibration shot to estimate the noise per bin; raise calibrationShots');
+    if (count === 0) throw new ScenarioProblem(['calibrationShots'], 'clean calibration shots to estimate the noise per bin from (raise calibrationShots)', 'none');
     const sigma = Math.sqrt(sum / count);
     const rates = scenario.transitions.map((t) => ({ from: t.from, to: t.to, rate: t.rate }));
     const generator = generatorMatrix(n, rates);

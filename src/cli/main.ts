@@ -4,7 +4,7 @@
  * else is a bug and keeps its stack trace.
  */
 import { Command, CommanderError } from 'commander';
-import { InputError } from '../errors.ts';
+import { InputError, ScenarioProblem } from '../errors.ts';
 import { RunInterrupted } from '../run/interrupt.ts';
 import { TOOL_VERSION } from '../io/metadata.ts';
 import { makeRunCommand } from './commands/run.ts';
@@ -56,6 +56,11 @@ export async function main(argv: readonly string[]): Promise<number> {
     }
     if (e instanceof InputError) {
       process.stderr.write(`singleshot: ${e.message}\n`);
+      return 2;
+    }
+    // a problem of the scenario a use case did not name a file for (a safety net): still one line
+    if (e instanceof ScenarioProblem) {
+      process.stderr.write(`singleshot: scenario: ${e.message}\n`);
       return 2;
     }
     // a file-system failure nobody mapped (a full disk mid-write, say): still one line

@@ -127,8 +127,8 @@ export function readManifest(dir: string, requireComplete = true): Manifest {
   return m;
 }
 
-function mismatch(path: string, expected: string): InputError {
-  return new InputError(path, '', `the bytes run.json records (sha256 ${expected.slice(0, 12)}…)`, 'other bytes: the file was changed or damaged after the run');
+function mismatch(dir: string, path: string, expected: string): InputError {
+  return new InputError(path, '', `the bytes ${join(dir, MANIFEST)} records (sha256 ${expected.slice(0, 12)}…)`, 'other bytes: one of the two was changed or damaged after the run');
 }
 
 /** The bytes of listed file `name`, checked against its checksum. */
@@ -143,7 +143,7 @@ export function verifiedFile(dir: string, m: Manifest, name: string): Buffer {
     if ((e as NodeJS.ErrnoException).code === 'ENOENT') throw new InputError(path, '', 'a file run.json lists', 'no such file');
     throw fileSystemError(e, path, 'reading');
   }
-  if (sha256(bytes) !== expected) throw mismatch(path, expected);
+  if (sha256(bytes) !== expected) throw mismatch(dir, path, expected);
   return bytes;
 }
 
@@ -159,5 +159,5 @@ export function verifyFile(dir: string, m: Manifest, name: string): void {
     if (e instanceof InputError && /ENOENT/.test(e.message)) throw new InputError(path, '', 'a file run.json lists', 'no such file');
     throw e;
   }
-  if (actual !== expected) throw mismatch(path, expected);
+  if (actual !== expected) throw mismatch(dir, path, expected);
 }

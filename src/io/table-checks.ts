@@ -67,14 +67,17 @@ export function checkUniqueRows(path: string, table: Table, columns: readonly st
   }
 }
 
-/** Throws unless the schema's singleshot metadata has each of `expected`'s values. */
-export function checkMetadata(path: string, schema: Schema, expected: Readonly<Record<string, string | undefined>>): void {
+/**
+ * Throws unless the schema's singleshot metadata has each of `expected`'s values, which come from
+ * `source` (run.json, named in the message: either file may be the damaged one).
+ */
+export function checkMetadata(path: string, schema: Schema, expected: Readonly<Record<string, string | undefined>>, source: string): void {
   for (const [key, want] of Object.entries(expected)) {
     if (want === undefined) continue;
     const found = schema.metadata.get(`${META_PREFIX}${key}`);
     if (found !== want) {
       const shown = found === undefined ? 'none' : found.length > 40 ? `${JSON.stringify(found.slice(0, 37))}…` : JSON.stringify(found);
-      throw new InputError(path, `metadata ${META_PREFIX}${key}`, `${want.length > 40 ? 'the value run.json records' : JSON.stringify(want)} (as in run.json)`, shown);
+      throw new InputError(path, `metadata ${META_PREFIX}${key}`, `${want.length > 40 ? 'the value' : JSON.stringify(want)} that ${source} records`, shown);
     }
   }
 }

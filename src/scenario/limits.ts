@@ -9,6 +9,7 @@ import type { ResolveContext } from './context.ts';
 import type { KeyPath } from './issues.ts';
 import { valueAt } from './issues.ts';
 import { makeGrid } from '../signal/grid.ts';
+import { classifierOf } from '../classify/registry.ts';
 
 /** Most samples in one record (one Float64Array of them is 1 GiB). */
 export const MAX_RECORD_SAMPLES = 2 ** 27;
@@ -76,6 +77,16 @@ export function checkLimits(s: Scenario, ctx: ResolveContext): void {
   if (s.signal.white && !signalInRange(s.signal.white.density * gain * Math.sqrt(s.timing.sampleRate / 2))) {
     ctx.fail(writtenKey(ctx, ['signal', 'noise', 'white'], ['density', 'perSample']), `white noise whose σ per sample is ${range}`);
   }
+  // optimal weights and the likelihood classifier divide by the noise: a record without any cannot be calibrated
+  const noisy = (s.signal.white !== null && s.signal.white.density > 0) || s.signal.components || (s.signal.sources?.length ?? 0) > 0 || s.sensor !== undefined;
+  s.pipelines.forEach((p, i) => {
+    const classifier = classifierOf(p).needsNoise;
+    const divides = p.weights === 'optimal' ? 'optimal weights divide by the noise covariance' : classifier;
+    if (divides && !noisy) {
+      const at: KeyPath = valueAt(ctx.raw, ['pipelines']) === undefined ? ['processing'] : ['pipelines', i];
+      ctx.fail([...at, p.weights === 'optimal' ? 'weights' : 'classifier'], `a record with noise (${divides}; set signal.noise)`, 'a scenario without noise');
+    }
+  });
   s.pipelines.forEach((p, i) => {
     if (p.threshold.method === 'fixed' && !signalInRange(p.threshold.value)) {
       const at: KeyPath = valueAt(ctx.raw, ['pipelines']) === undefined ? ['processing', 'threshold', 'fixed'] : ['pipelines', i, 'threshold', 'fixed'];

@@ -121,15 +121,17 @@ describe('singleshot rerun', () => {
     expect(ok.code, ok.err).toBe(0);
     expect(ok.out).toMatch(/shots\.arrow: identical/);
     expect(ok.out).toMatch(/reproduced — every table is byte-identical \(seed 11, shard 1\/1, engine traces\)/);
-    // damage one value in the middle of shots.arrow (still a readable Arrow file)
+    // damage one integrated value of shots.arrow (its lowest mantissa bit: still a readable Arrow file)
     const path = join(dir, 'shots.arrow');
     const bytes = readFileSync(path);
-    const at = Math.floor(bytes.length / 2);
+    const value = tableFromIPC(bytes).getChild('value')!.get(100) as number;
+    const at = bytes.indexOf(Buffer.from(new Float64Array([value]).buffer));
+    expect(at).toBeGreaterThan(0);
     bytes[at] = bytes[at]! ^ 0x01;
     writeFileSync(path, bytes);
     const damaged = await runMain(['rerun', dir]);
     expect(damaged.code).toBe(2);
-    expect(damaged.err).toMatch(/shots\.arrow: expected the bytes run\.json records .*the file was changed or damaged/);
+    expect(damaged.err).toMatch(/shots\.arrow: expected the bytes .*run\.json records .*one of the two was changed or damaged/);
     // the same change with its checksum recorded (a folder whose files are as run.json says, but
     // not what the scenario and seed make): the rerun finds the difference
     const manifestPath = join(dir, 'run.json');
@@ -137,7 +139,7 @@ describe('singleshot rerun', () => {
     m.sha256['shots.arrow'] = createHash('sha256').update(bytes).digest('hex');
     writeFileSync(manifestPath, JSON.stringify(m, null, 2));
     const bad = await runMain(['rerun', dir]);
-    expect(bad.code).toBe(1);
+    expect(bad.code, bad.err).toBe(1);
     expect(bad.out).toContain(`shots.arrow: DIFFERENT (${bytes.length} vs ${bytes.length} bytes, first difference at byte ${at})`);
     expect(bad.out).toMatch(/NOT reproduced — 1 of \d+ files differ/);
   });

@@ -171,18 +171,32 @@ export function readRunTables(dir: string): RunTables {
 export async function readPointValues(
   dir: string, point: number, pipeline: string, stateNames: readonly string[], between?: () => Promise<void>,
 ): Promise<Float64Array[]> {
+  const path = join(dir, 'shots.arrow');
+  try {
+    return await pointValues(path, point, pipeline, stateNames, between);
+  } catch (e) {
+    if (e instanceof InputError || (e instanceof Error && e.name === 'RunInterrupted')) throw e;
+    // the file was checked against run.json; a reader failure means bytes made to pass that check
+    throw new InputError(path, '', 'a readable Arrow table file', `a damaged file (${String((e as Error).message).split('\n')[0]!.slice(0, 100)})`);
+  }
+}
+
+async function pointValues(
+  path: string, point: number, pipeline: string, stateNames: readonly string[], between?: () => Promise<void>,
+): Promise<Float64Array[]> {
   const parts: number[][] = stateNames.map(() => []);
-  const reader = await RecordBatchReader.from(createReadStream(join(dir, 'shots.arrow')));
+  const reader = await RecordBatchReader.from(createReadStream(path));
   for await (const batch of reader) {
     await between?.();
     const pointCol = batch.getChild('point');
     const pipeCol = batch.getChild('pipeline');
     const stateCol = batch.getChild('prepared');
     const valueCol = batch.getChild('value');
-    if (!pointCol || !pipeCol || !stateCol || !valueCol) throw new InputError(join(dir, 'shots.arrow'), '', 'the columns point, pipeline, prepared and value');
+    if (!pointCol || !pipeCol || !stateCol || !valueCol) throw new InputError(path, '', 'the columns point, pipeline, prepared and value');
     const points = pointCol.toArray() as Uint32Array;
     const pipeData = pipeCol.data[0]!;
-    const pipeNames = (pipeData.dictionary!.toArray() as string[]);
+    if (!pipeData.dictionary || !stateCol.data[0]?.dictionary) throw new InputError(path, '', 'dictionary-encoded pipeline and prepared columns');
+    const pipeNames = (pipeData.dictionary.toArray() as string[]);
     const wanted = pipeNames.indexOf(pipeline);
     const pipeIdx = pipeData.values as Uint8Array;
     const stateData = stateCol.data[0]!;
@@ -192,8 +206,9 @@ export async function readPointValues(
     const values = valueCol.toArray() as Float64Array;
     for (let i = 0; i < points.length; i++) {
       if (points[i] !== point || pipeIdx[i] !== wanted) continue;
-      const s = toState[stateIdx[i]!]!;
-      if (s >= 0) parts[s]!.push(values[i]!);
+      const s = toState[stateIdx[i]!];
+      if (!Number.isFinite(values[i]!)) throw new InputError(path, `value[${i}]`, 'a finite integrated value', String(values[i]));
+      if (s !== undefined && s >= 0) parts[s]!.push(values[i]!);
     }
   }
   return parts.map((p) => Float64Array.from(p));
