@@ -9,6 +9,9 @@ import { tableFromIPC, Type, type Table, type Vector } from 'apache-arrow';
 import { InputError } from '../errors.ts';
 import { verifyArrowBytes } from './arrow-verify.ts';
 
+/** Largest sample magnitude accepted (the signal range of scenarios: processing then stays finite). */
+export const MAX_SAMPLE = 1e100;
+
 /** The records of a table, validated: row r's samples are `row(r, out)`. */
 export interface RecordColumn {
   name: string;
@@ -99,7 +102,8 @@ export function recordColumn(path: string, table: Table, name: string): RecordCo
         throw new InputError(path, at, 'records that lie inside the column\'s values', `row ${rowStart.length} pointing at samples [${begin}, ${end}) of ${values.length - start}`);
       }
       for (let k = begin; k < end; k++) {
-        if (!Number.isFinite(values[start + k]!)) throw new InputError(path, at, 'finite samples', `${values[start + k]} in row ${rowStart.length}`);
+        const x = values[start + k]!;
+        if (!(Math.abs(x) <= MAX_SAMPLE)) throw new InputError(path, at, `finite samples of magnitude at most ${MAX_SAMPLE}`, `${x} in row ${rowStart.length}`);
       }
       const length = end - begin;
       if (samples < 0) samples = length;

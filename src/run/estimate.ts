@@ -26,6 +26,14 @@ export const EXACT_SECONDS_PER_SHOT = 2e-7;
 export const EXACT_SECONDS_PER_OUTPUT = 2e-8;
 /** Conservative cost of one hidden-state jump (exponential draw, table walk), in seconds. */
 export const SECONDS_PER_JUMP = 2e-7;
+/**
+ * Fixed costs, in CPU seconds (measured on the loaded 2-core machine, rounded up): a run (the
+ * scenario, the output folder, the tables and their checksums) and each point (compiling its
+ * tables, calibrating, its analytic budget and noise prediction, finishing its summary). They
+ * dominate small runs, which are estimated honestly only with them.
+ */
+export const RUN_SECONDS = 0.05;
+export const POINT_SECONDS = 0.006;
 /** Memory of the process itself (Node, modules, tables of the engine), bytes. */
 export const BASE_PROCESS_BYTES = 160 * 2 ** 20;
 /** Extra memory of each worker thread (its own heap and modules), bytes. */
@@ -88,6 +96,8 @@ export interface RunEstimate {
   seconds: number;
   /** Samples synthesised in total (calibration + scored, every point). */
   samples: number;
+  /** The part of `seconds` that does not grow with the shots (RUN_SECONDS, POINT_SECONDS per point). */
+  fixedSeconds: number;
   /** Named parts of the memory estimate, bytes. */
   memory: Record<string, number>;
   /** Named parts of the disk estimate, bytes. */
@@ -161,7 +171,8 @@ export function estimateRun(scenarios: readonly Scenario[], o: EstimateOptions =
   disk.tables = scenarios.length * SMALL_TABLES_BYTES_PER_POINT;
   if (o.report) disk.report = REPORT_BYTES + scenarios.length * REPORT_BYTES_PER_POINT;
   const sum = (r: Record<string, number>) => Object.values(r).reduce((a, b) => a + b, 0);
-  return { memoryBytes: sum(memory), diskBytes: sum(disk), seconds: seconds / workers, samples, memory, disk };
+  const fixedSeconds = RUN_SECONDS + scenarios.length * POINT_SECONDS;
+  return { memoryBytes: sum(memory), diskBytes: sum(disk), seconds: seconds / workers + fixedSeconds, fixedSeconds, samples, memory, disk };
 }
 
 /** "1.5 GiB", "820 MiB", "12 kiB", "300 B". */

@@ -41,7 +41,7 @@ describe('estimateRun', () => {
     const e2 = estimateRun([{ ...scenario, shots: scenario.shots * 10 }]);
     const e3 = estimateRun([{ ...scenario, calibrationShots: scenario.calibrationShots * 100 }]);
     expect(e2.diskBytes).toBeGreaterThan(5 * e1.diskBytes);
-    expect(e2.seconds).toBeGreaterThan(5 * e1.seconds);
+    expect(e2.seconds - e2.fixedSeconds).toBeGreaterThan(5 * (e1.seconds - e1.fixedSeconds));
     expect(e3.memoryBytes).toBeGreaterThan(e1.memoryBytes);
     expect(estimateRun([scenario], { shotsTable: false }).disk.shots).toBeUndefined();
     expect(estimateRun([scenario], { workers: 4 }).memoryBytes).toBeGreaterThan(e1.memoryBytes);
@@ -74,7 +74,7 @@ describe('estimateRun', () => {
 });
 
 describe('guardResources', () => {
-  const estimate = { memoryBytes: 8 * 2 ** 30, diskBytes: 3 * 2 ** 30, seconds: 600, samples: 1e10, memory: { calibration: 7 * 2 ** 30, process: 2 ** 30 }, disk: { shots: 3 * 2 ** 30 } };
+  const estimate = { memoryBytes: 8 * 2 ** 30, diskBytes: 3 * 2 ** 30, seconds: 600, fixedSeconds: 0.1, samples: 1e10, memory: { calibration: 7 * 2 ** 30, process: 2 ** 30 }, disk: { shots: 3 * 2 ** 30 } };
 
   it('refuses more memory than is free, showing the estimate and its biggest parts', () => {
     expect(() => guardResources('s.yaml', estimate, { memoryBytes: 2 ** 30, diskBytes: 2 ** 40 }, false))
