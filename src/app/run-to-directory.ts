@@ -6,7 +6,7 @@
  * folder (run.json last). An interrupted or failed run leaves the folder as it was.
  */
 import { join } from 'node:path';
-import { ScenarioProblem } from '../errors.ts';
+import { InputError, ScenarioProblem } from '../errors.ts';
 import { loadScenarioFile, type LoadedScenario } from '../scenario/load.ts';
 import type { ScenarioOverrides } from '../scenario/overrides.ts';
 import type { SweepSpec } from '../scenario/types.ts';
@@ -108,6 +108,22 @@ function simulationThreads(o: RunToDirectoryOptions, e: RunEstimate, scoredBatch
   return { count, pool: count > 1 || perBatch > LONG_BATCH_SECONDS };
 }
 
+/**
+ * Refuses a shard that is not a part of N (1 ≤ K ≤ N), or a split into more parts than some point
+ * has scored batches: such a part would score no shot of that point (batches are never split).
+ */
+function checkShard(shard: { index: number; count: number }, points: readonly SweepPoint[]): void {
+  const { index, count } = shard;
+  if (!(Number.isInteger(index) && Number.isInteger(count) && index >= 0 && index < count)) {
+    throw new InputError('--shard', '', 'K/N with 1 ≤ K ≤ N', `${index + 1}/${count}`);
+  }
+  const fewest = Math.min(...points.map((p) => batchCount(p.scenario, 'score')));
+  if (count > fewest) {
+    const p = points.findIndex((x) => batchCount(x.scenario, 'score') === fewest);
+    throw new InputError('--shard', '', `at most ${fewest} parts (point ${p} has ${fewest} scored batch${fewest === 1 ? '' : 'es'} of batchSize shots, and a part scores whole batches)`, `${count} parts`);
+  }
+}
+
 /** The sweep points of a loaded scenario, as `run` makes them (merge rebuilds points this way). */
 export function expandPoints(loaded: Awaited<ReturnType<typeof loadScenarioFile>>, file: string): SweepPoint[] {
   return expandSweep(loaded.doc, loaded.scenario, file);
@@ -118,9 +134,16 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   loaded.warnings.forEach((w) => o.onWarning?.(w));
   const points = expandPoints(loaded, o.scenarioPath);
   if (o.refine) checkRefineRequest(o.refine, loaded, o.scenarioPath, o.shard);
+  if (o.shard) checkShard(o.shard, points);
   // the engine is chosen before anything is estimated or written: the estimate depends on it,
   // and every table's metadata names it and why
   const choice = resolveEngine(points, o.engine, o.keepTraces);
+  if (o.keepTraces && o.engine === 'auto' && choice.engine === 'traces' && resolveEngine(points, 'auto').engine === 'exact') {
+    // the engine stays auto's choice for the options given; say that keeping traces made it
+    const w = `--keep-traces: without it, --engine auto would run this scenario on the exact engine; keeping traces needs every record, so this run uses the trace engine — the same statistics, other random draws, so its numbers differ from a run without --keep-traces (run both with --engine traces to compare them shot for shot)`;
+    loaded.warnings.push(w);
+    o.onWarning?.(w);
+  }
   const scoredBatches = points.reduce((n, p) => n + batchCount(p.scenario, 'score'), 0);
   const estimateWith = (threads: number, pool: boolean) => estimateRun(points.map((p) => p.scenario), {
     shotsTable: o.shotsTable !== false, shard: o.shard, workers: threads, pool, engine: choice.engine, report: o.report !== false,

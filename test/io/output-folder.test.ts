@@ -184,3 +184,40 @@ describe('--force and the commands', () => {
     expect(readdirSync(runDir).sort()).toEqual(before);
   });
 });
+
+describe('full and read-only file systems (a small tmpfs in a user namespace)', () => {
+  // mounting needs a user namespace (`unshare -rm`); where the system allows none, say so and skip
+  const probe = spawnSync('unshare', ['-rm', 'sh', '-c', `mount -t tmpfs -o size=64k tmpfs ${fresh()} && echo ok`], { encoding: 'utf8' });
+  const can = probe.status === 0 && probe.stdout.includes('ok');
+  const cli = join(ROOT, 'bin', 'singleshot.js');
+
+  /** Runs `script` in a fresh mount namespace with a 64 kB tmpfs on `mnt`; returns its output. */
+  function inTmpfs(script: string): { out: string; err: string } {
+    const mnt = fresh();
+    const r = spawnSync('unshare', ['-rm', 'sh', '-c', `mount -t tmpfs -o size=64k tmpfs ${mnt} && ${script.split('MNT').join(mnt)}`], { encoding: 'utf8', timeout: 60_000 });
+    return { out: r.stdout, err: r.stderr };
+  }
+
+  it.skipIf(!can)('a full disk mid-write: one line naming the file, exit 2, nothing left in the folder', () => {
+    const r = inTmpfs(`node ${cli} run ${TINY} --out MNT/out --force --no-report --quiet --engine traces; echo "exit $?"; ls -A MNT/out`);
+    expect(r.out, r.err).toMatch(/^exit 2\n$/);
+    const lines = r.err.split('\n').filter((l) => l !== '');
+    expect(lines, r.err).toHaveLength(1);
+    expect(lines[0]).toMatch(/^singleshot: .*\/out\/shots\.arrow: writing: no space left on the device \(ENOSPC\)$/);
+  }, 60_000);
+
+  it.skipIf(!can)('a full disk found by the estimate before anything is written (report.html counted)', () => {
+    const r = inTmpfs(`node ${cli} run ${TINY} --out MNT/out --quiet; echo "exit $?"; ls -A MNT`);
+    expect(r.out, r.err).toMatch(/^exit 2\n$/);
+    expect(r.err).toMatch(/^singleshot: .*tiny\.yaml: expected a run that fits in the free disk space .*report/);
+  }, 60_000);
+
+  it.skipIf(!can)('a read-only file system: one line naming the folder, exit 2', () => {
+    const r = inTmpfs(`mkdir MNT/existing && mount -o remount,ro MNT && node ${cli} run ${TINY} --out MNT/existing --force --no-report --quiet; echo "exit $?"; node ${cli} run ${TINY} --out MNT/new --force --no-report --quiet; echo "exit $?"`);
+    expect(r.out, r.err).toBe('exit 2\nexit 2\n');
+    const lines = r.err.split('\n').filter((l) => l !== '');
+    expect(lines, r.err).toHaveLength(2);
+    expect(lines[0]).toMatch(/^singleshot: .*\/existing: creating the folder lock: a read-only file system \(EROFS\)$/);
+    expect(lines[1]).toMatch(/^singleshot: .*\/new: creating the folder for --out: a read-only file system \(EROFS\)$/);
+  }, 60_000);
+});

@@ -7,7 +7,7 @@ import { mkdtempSync, existsSync, rmSync, statSync, writeFileSync } from 'node:f
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it, vi } from 'vitest';
-import { estimateRun, formatBytes, formatDuration, SHOT_ROW_BYTES } from '../../src/run/estimate.ts';
+import { estimateRun, formatBytes, formatDuration, REPORT_BYTES, SHOT_ROW_BYTES, WORKER_BYTES, type RunEstimate } from '../../src/run/estimate.ts';
 import { freeDiskBytes, guardResources, ResourceError } from '../../src/app/resource-guard.ts';
 import { runToDirectory } from '../../src/app/run-to-directory.ts';
 import { loadScenarioFile, loadScenarioText } from '../../src/scenario/load.ts';
@@ -46,6 +46,21 @@ describe('estimateRun', () => {
     expect(estimateRun([scenario], { shotsTable: false }).disk.shots).toBeUndefined();
     expect(estimateRun([scenario], { workers: 4 }).memoryBytes).toBeGreaterThan(e1.memoryBytes);
   });
+
+  it('counts report.html on disk when the run writes one, so a full disk is found before the run', async () => {
+    const { scenario } = await loadScenarioFile(TINY);
+    expect(estimateRun([scenario], { report: true }).disk.report).toBeGreaterThanOrEqual(REPORT_BYTES);
+    expect(estimateRun([scenario]).disk.report).toBeUndefined();
+  });
+
+  it('counts only the worker threads that will start (never more than there are scored batches)', async () => {
+    const seen: RunEstimate[] = [];
+    const outDir = mkdtempSync(join(tmpdir(), 'singleshot-threads-'));
+    // tiny has 2 scored batches: 64 workers asked for, 2 start
+    await runToDirectory({ scenarioPath: TINY, outDir: join(outDir, 'out'), report: false, workers: 64, engine: 'traces', onEstimate: (e) => seen.push(e), free: { memoryBytes: 2 ** 40, diskBytes: 2 ** 40 } });
+    expect(seen[0]!.memory.workers).toBe(2 * WORKER_BYTES);
+    rmSync(outDir, { recursive: true, force: true });
+  }, 60_000);
 
   it('predicts the size of shots.arrow within 25 % (rows × bytes per row + batch overhead)', async () => {
     const dir = join(base, 'size');
