@@ -109,18 +109,22 @@ function simulationThreads(o: RunToDirectoryOptions, e: RunEstimate, scoredBatch
 }
 
 /**
- * Refuses a shard that is not a part of N (1 ≤ K ≤ N), or a split into more parts than some point
- * has scored batches: such a part would score no shot of that point (batches are never split).
+ * Refuses a shard that is not a part of N (1 ≤ K ≤ N), or one that would score no shot at all:
+ * a part scores whole batches, so with more parts than a point has batches some parts get none
+ * of it (that is fine while they get batches of other points).
  */
 function checkShard(shard: { index: number; count: number }, points: readonly SweepPoint[]): void {
   const { index, count } = shard;
   if (!(Number.isInteger(index) && Number.isInteger(count) && index >= 0 && index < count)) {
     throw new InputError('--shard', '', 'K/N with 1 ≤ K ≤ N', `${index + 1}/${count}`);
   }
-  const fewest = Math.min(...points.map((p) => batchCount(p.scenario, 'score')));
-  if (count > fewest) {
-    const p = points.findIndex((x) => batchCount(x.scenario, 'score') === fewest);
-    throw new InputError('--shard', '', `at most ${fewest} parts (point ${p} has ${fewest} scored batch${fewest === 1 ? '' : 'es'} of batchSize shots, and a part scores whole batches)`, `${count} parts`);
+  const scored = points.reduce((n, p) => {
+    const [first, end] = shardRange(batchCount(p.scenario, 'score'), shard);
+    return n + (end - first);
+  }, 0);
+  if (scored === 0) {
+    const most = Math.max(...points.map((p) => batchCount(p.scenario, 'score')));
+    throw new InputError('--shard', '', `a part that scores shots (a part scores whole batches; the points have at most ${most} scored batch${most === 1 ? '' : 'es'}: split into at most ${most} parts)`, `part ${index + 1} of ${count}, which would score none`);
   }
 }
 

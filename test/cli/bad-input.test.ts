@@ -64,12 +64,15 @@ describe('malformed scenarios through the CLI', () => {
     expect(lines[0]).toMatch(message);
   });
 
-  it('--shard with more parts than a point has scored batches is refused before anything is written', async () => {
+  it('a --shard part that would score no shot is refused before anything is written', async () => {
     const dir = join(mkdtempSync(join(tmpdir(), 'singleshot-shard-')), 'out');
+    // tiny has 2 scored batches: of 3 parts, the first gets none
     const { code, stderr } = await runCli(['run', 'test/fixtures/reliability/tiny.yaml', '--out', dir, '--shard', '1/3', '--quiet']);
     expect(code).toBe(2);
-    expect(stderr).toMatch(/^singleshot: --shard: expected at most 2 parts \(point 0 has 2 scored batches of batchSize shots, and a part scores whole batches\), found 3 parts\n$/);
+    expect(stderr).toMatch(/^singleshot: --shard: expected a part that scores shots \(.*at most 2 scored batches: split into at most 2 parts\), found part 1 of 3, which would score none\n$/);
     expect(existsSync(dir)).toBe(false);
+    const other = await runCli(['run', 'test/fixtures/reliability/tiny.yaml', '--out', dir, '--shard', '2/3', '--quiet', '--no-report']);
+    expect(other.code, other.stderr).toBe(0);
   });
 
   it('--keep-traces under --engine auto says that it changes the engine (and so the numbers)', async () => {
