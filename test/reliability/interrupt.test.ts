@@ -131,10 +131,13 @@ describe('--out never replaces files without --force', () => {
   });
 });
 
-/** Starts the CLI on the slow scenario, waits until shots.arrow is being written, sends `signal`. */
-function killMidRun(dir: string, signal: 'SIGINT' | 'SIGTERM'): Promise<{ code: number | null; signal: string | null; stderr: string }> {
+/**
+ * Starts the CLI on `scenario`, waits until shots.arrow is being written, sends `signal` — and,
+ * with `again`, the same signal once more that many milliseconds later.
+ */
+function killMidRun(dir: string, signal: 'SIGINT' | 'SIGTERM', again?: number, scenario = SLOW): Promise<{ code: number | null; signal: string | null; stderr: string }> {
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [join(ROOT, 'bin', 'singleshot.js'), 'run', SLOW, '--out', dir, '--force', '--quiet', '--engine', 'traces'], { stdio: ['ignore', 'ignore', 'pipe'] });
+    const child = spawn(process.execPath, [join(ROOT, 'bin', 'singleshot.js'), 'run', scenario, '--out', dir, '--force', '--quiet', '--engine', 'traces'], { stdio: ['ignore', 'ignore', 'pipe'] });
     let stderr = '';
     child.stderr.on('data', (d) => { stderr += String(d); });
     const started = Date.now();
@@ -144,7 +147,10 @@ function killMidRun(dir: string, signal: 'SIGINT' | 'SIGTERM'): Promise<{ code: 
       if (writing || Date.now() - started > 60_000) {
         clearInterval(poll);
         // let it write a few batches first
-        setTimeout(() => child.kill(signal), writing ? 300 : 0);
+        setTimeout(() => {
+          child.kill(signal);
+          if (again !== undefined) setTimeout(() => child.kill(signal), again);
+        }, writing ? 300 : 0);
       }
     }, 50);
     child.on('error', reject);
@@ -164,6 +170,20 @@ describe('a real CLI process killed mid-run', () => {
     const r = await killMidRun(dir, signal);
     expect(r.code, r.stderr).toBe(code);
     expect(r.stderr).toMatch(new RegExp(`interrupted by ${signal}; .* was left as it was`));
+    expect(folderProblems(dir)).toEqual([]);
+    expect(snapshot(dir)).toEqual(before);
+  }, 90_000);
+
+  it('a second SIGINT while the first waits for a long batch: exits 130 at once, still removing the staging folder, temporary files and lock', async () => {
+    const dir = freshDir();
+    await runToDirectory({ scenarioPath: TINY, outDir: dir, report: false, free: FREE });
+    const before = snapshot(dir);
+    // batches of seconds: the first signal waits for the batch to end, the second does not
+    const longBatches = join(base, 'long-batches.yaml');
+    writeFileSync(longBatches, readFileSync(SLOW, 'utf8').replace('batchSize: 4096', 'batchSize: 262144').replace('calibrationShots: 2048', 'calibrationShots: 262144'));
+    const r = await killMidRun(dir, 'SIGINT', 300, longBatches);
+    expect(r.code, r.stderr).toBe(130);
+    expect(r.stderr).toMatch(/SIGINT again, stopping at once/);
     expect(folderProblems(dir)).toEqual([]);
     expect(snapshot(dir)).toEqual(before);
   }, 90_000);
