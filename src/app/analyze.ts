@@ -135,7 +135,7 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
   const grid = { ...makeGrid(resolved.timing), samples: records.samples };
 
   const calibrationRows = new Uint8Array(records.rows);
-  let calibration: (chain: PipelineChain) => Calibration;
+  let calibration: (chain: PipelineChain) => Calibration | Promise<Calibration>;
   let referencePhase: number;
   const spec = resolved.pipeline;
   const cal = file.doc.calibration;
@@ -160,7 +160,7 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
     const take = Math.ceil((cal.fraction ?? 0.2) * labelled.length);
     for (let j = 0; j < take; j++) calibrationRows[labelled[j]!] = 1;
     referencePhase = spec.referencePhase === 'auto' ? resolved.carrierPhase : spec.referencePhase;
-    calibration = (chain) => calibrateOnRows(o.tracesPath, cal.labels, records, chain, labels, calibrationRows, spec.threshold, referencePhase, resolved);
+    calibration = (chain) => calibrateOnRows(o.tracesPath, cal.labels, records, chain, labels, calibrationRows, spec.threshold, referencePhase, resolved, o.signal);
   } else {
     if (spec.referencePhase === 'auto' || spec.threshold.method !== 'fixed' || (spec.weights ?? 'boxcar') !== 'boxcar') {
       throw new InputError(o.pipelinePath, 'calibration', 'a calibration ("stored" or {labels: COLUMN}) unless the pipeline has a fixed threshold, a fixed referencePhase and boxcar weights', 'none');
@@ -173,7 +173,7 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
     });
   }
   const chain = compileChain(spec, grid, resolved.carrierFrequency, referencePhase);
-  const c = calibration(chain);
+  const c = await calibration(chain);
 
   // decide every row that did not calibrate
   const scratch = makeProcessScratch(chain, records.samples);
@@ -271,10 +271,10 @@ function storedEntryProblem(p: unknown): string | null {
 }
 
 /** Calibrates on the flagged rows from their labels (see the file comment of analyze-pipeline.ts). */
-function calibrateOnRows(
+async function calibrateOnRows(
   path: string, labelName: string, records: RecordColumn, chain0: PipelineChain, labels: Uint8Array, rows: Uint8Array,
-  threshold: ResolvedAnalysis['pipeline']['threshold'], referencePhase: number, resolved: ResolvedAnalysis,
-): Calibration {
+  threshold: ResolvedAnalysis['pipeline']['threshold'], referencePhase: number, resolved: ResolvedAnalysis, signal?: AbortSignal,
+): Promise<Calibration> {
   const chain = chain0;
   const picked: number[] = [];
   for (let r = 0; r < rows.length; r++) if (rows[r]) picked.push(r);
@@ -284,10 +284,11 @@ function calibrateOnRows(
   const scratch = makeProcessScratch(chain, records.samples);
   const record = new Float64Array(records.samples);
   const calLabels = new Uint8Array(count);
-  picked.forEach((r, j) => {
+  for (const [j, r] of picked.entries()) {
+    if (j % RECORDS_PER_TURN === 0) await checkpoint(signal);
     processRecord(chain, records.row(r, record), scratch, binsI, binsQ, j * bins);
     calLabels[j] = labels[r]!;
-  });
+  }
   // axis from the mean I/Q of each label (the boxcar over the bins)
   const sums = [[0, 0, 0], [0, 0, 0]];
   for (let j = 0; j < count; j++) {
