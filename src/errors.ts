@@ -57,7 +57,9 @@ export class ScenarioProblem extends Error {
   toInputError(file: string, hasPipelines: boolean, points: number): InputError {
     const path = !hasPipelines && this.path[0] === 'pipelines' ? ['processing', ...this.path.slice(2)] : [...this.path];
     const text = path.map((k, i) => (typeof k === 'number' ? `[${k}]` : i === 0 ? k : `.${k}`)).join('');
-    const where = this.point !== null && points > 1 ? `${file} (sweep point ${this.point})` : file;
-    return new InputError(where, text, this.expected, this.found);
+    const e = new InputError(file, text, this.expected, this.found);
+    // the point it happened at, after the rest (like a sweep point's validation error)
+    if (this.point !== null && points > 1) e.message += ` (at sweep point ${this.point})`;
+    return e;
   }
 }
