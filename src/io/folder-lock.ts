@@ -233,15 +233,6 @@ function unlinkQuietly(path: string): void {
   }
 }
 
-/** The holder of `dir`'s lock when it is alive (or on another host), else null. */
-export function liveHolder(dir: string): LockHolder | null {
-  const found = readHolder(join(dir, LOCK_FILE));
-  const h = found?.holder ?? null;
-  if (h === null) return null;
-  if (h.host !== hostTag()) return h;
-  return isDeadHere(h.pid, h.started) ? null : h;
-}
-
 /**
  * The writer a leftover name belongs to (`.partial-HOST-PID-…`, `.singleshot-new-HOST-PID`), or
  * null when the name carries none.
