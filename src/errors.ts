@@ -61,3 +61,39 @@ export function describeFound(value: unknown): string {
   if (typeof value === 'object') return 'a mapping';
   return typeof value;
 }
+
+/**
+ * A problem a stage finds with the scenario it runs (no calibration shot of an outcome, no noise
+ * for a classifier that divides by it, a value the arithmetic cannot hold): the key path the user
+ * must change and what was expected. The stage knows no file; the use case turns it into the
+ * InputError naming the scenario file and the point (`toInputError`).
+ */
+export class ScenarioProblem extends Error {
+  /** The sweep point it happened at, when the run knows it. */
+  point: number | null = null;
+
+  constructor(readonly path: readonly (string | number)[], readonly expected: string, readonly found?: string) {
+    super(`${path.join('.')}: expected ${expected}${found === undefined ? '' : `, found ${found}`}`);
+    this.name = 'ScenarioProblem';
+  }
+
+  /** The same problem found at pipeline `index` of a point (paths relative to the pipeline get its key). */
+  inPipeline(index: number): ScenarioProblem {
+    const p = new ScenarioProblem(['pipelines', index, ...this.path], this.expected, this.found);
+    p.point = this.point;
+    return p;
+  }
+
+  /**
+   * The InputError for `file`: `pipelines[i]` becomes `processing` when the document writes its
+   * one pipeline that way (`hasPipelines` false); the point is named when there are several.
+   */
+  toInputError(file: string, hasPipelines: boolean, points: number): InputError {
+    const path = !hasPipelines && this.path[0] === 'pipelines' ? ['processing', ...this.path.slice(2)] : [...this.path];
+    const text = path.map((k, i) => (typeof k === 'number' ? `[${k}]` : i === 0 ? k : `.${k}`)).join('');
+    const e = new InputError(file, text, this.expected, this.found);
+    // the point it happened at, after the rest (like a sweep point's validation error)
+    if (this.point !== null && points > 1) e.message += ` (at sweep point ${this.point})`;
+    return e;
+  }
+}

@@ -2,6 +2,11 @@
  * singleshot as a library: every command of the CLI is a function here.
  */
 export { runToDirectory, type RunToDirectoryOptions, type RunToDirectoryResult } from './app/run-to-directory.ts';
+export { checkScenarioFile, checkScenarioDocument, type CheckedScenario } from './app/check.ts';
+export { reportFolder, type ReportOptions } from './app/report.ts';
+export { mergeRuns, type MergeOptions } from './app/merge.ts';
+export { rerunDirectory, type RerunOptions } from './app/rerun.ts';
+export { analyzeToDirectory, type AnalyzeOptions } from './app/analyze.ts';
 export { runPoints, type RunResult } from './run/run-points.ts';
 export { inProcessExecutor, type BatchExecutor } from './run/executor.ts';
 export type { PointResult } from './run/point-result.ts';
@@ -21,5 +26,5 @@ export { gaussianTail } from './analysis/special.ts';
 export { wilsonInterval, clopperPearsonInterval } from './analysis/intervals.ts';
 export { resultToJson } from './app/result-json.ts';
 export { fitToScenario, type FitOptions, type FitResult } from './app/fit.ts';
-export { InputError } from './errors.ts';
+export { InputError, ScenarioProblem } from './errors.ts';
 export { main } from './cli/main.ts';

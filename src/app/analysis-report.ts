@@ -7,7 +7,7 @@
  */
 import { extent, envelope, histogramCounts } from '../analysis/plot-data.ts';
 import { classifierNamed, DEFAULT_CLASSIFIER } from '../classify/registry.ts';
-import type { AnalysisManifest } from '../io/manifest.ts';
+import { verifyFile, type AnalysisManifest } from '../io/manifest.ts';
 import { displayUnit, probability, short, showValue, withUnit } from '../io/report/display.ts';
 import { noiseSpectrumView } from '../io/report/noise-view.ts';
 import { renderPage, type BuiltReport, type Card, type Figure, type SectionView } from '../io/report/page.ts';
@@ -42,7 +42,9 @@ function gaussianCounts(n: number, mu: number, sigma: number, width: number, xs:
 }
 
 /** Builds the report page of an analysis folder. */
-export async function buildAnalysisReport(dir: string, manifest: AnalysisManifest): Promise<BuiltReport> {
+export async function buildAnalysisReport(dir: string, manifest: AnalysisManifest, verify = true): Promise<BuiltReport> {
+  // every table read is checked against run.json's checksum first (a damaged or edited folder is one line)
+  if (verify) for (const name of manifest.files) verifyFile(dir, manifest, name);
   const pipelineDoc = JSON.parse(manifest.analysis.pipeline) as Record<string, unknown>;
   const summary = readAnalysisSummary(dir);
   const outcomes = outcomesOf(pipelineDoc, summary);
@@ -135,7 +137,7 @@ export async function buildAnalysisReport(dir: string, manifest: AnalysisManifes
   sections.push(recordsSection);
 
   // noise spectrum
-  const noise = noiseSpectrumView(dir, 'One-sided power spectral density of the records less the mean record of their labelled outcome (Welch\'s method, Hann window, averaged over up to 256 records of each outcome and over I and Q): the noise, and the state changes of the records that changed state (low-frequency excess).');
+  const noise = noiseSpectrumView(dir, manifest.files.includes('noise.arrow'), 'One-sided power spectral density of the records less the mean record of their labelled outcome (Welch\'s method, Hann window, averaged over up to 256 records of each outcome and over I and Q): the noise, and the state changes of the records that changed state (low-frequency excess).');
   const spectrum: SectionView = { id: 'spectrum', title: 'Noise spectrum of the records', intro: [], figures: [], tables: [] };
   if ('note' in noise) spectrum.note = 'The records are too short (under 8 samples) for a spectrum.';
   else pending.push({ section: spectrum, spec: noise.spec, figure: { title: 'Noise spectrum', caption: noise.caption } });

@@ -42,8 +42,8 @@ import { writeFileAtomic } from '../io/atomic-file.ts';
 import { writeAnalysisManifest } from '../io/manifest.ts';
 import { withParquetCopies } from '../io/parquet-copy.ts';
 import { analysisMetadata } from '../io/metadata.ts';
-import { prepareOutputDir } from '../io/output-dir.ts';
-import { join } from 'node:path';
+import { OutputFolder, type CommandInput } from '../io/output-dir.ts';
+import { checkpoint, RunInterrupted } from '../run/interrupt.ts';
 
 export interface AnalyzeOptions {
   /** The records: FILE or FILE:NAME (io/records/open.ts). */
@@ -246,40 +246,52 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
   };
 }
 
-/** Writes the tables and run.json; returns the files written. */
+/** Writes the tables and run.json through the locked output folder (io/output-dir.ts); returns the files written. */
 async function writeFolder(
   o: AnalyzeOptions, file: AnalyzeFile, records: RecordSet, score: LabelSet | null, outcomes: readonly [string, string], unit: string,
   a: RecordAnalysis, resolved: ResolvedAnalysis,
 ): Promise<string[]> {
-  prepareOutputDir(o.outDir, o.force ?? false);
+  await checkpoint(o.signal);
+  const inputs: CommandInput[] = [{ path: locateRecords(o.records).path, kind: 'file' }];
+  if (o.pipelinePath !== undefined) inputs.push({ path: o.pipelinePath, kind: 'file' });
+  const out = OutputFolder.open(o.outDir, { force: o.force ?? false, command: 'analyze', inputs });
   const provenance = { pipeline: file.canonical, records: records.source, labels: score?.source ?? null };
   const files: string[] = [];
   const d = a.decisions;
-  writeRecordedShots(join(o.outDir, 'shots.arrow'), analysisMetadata('shots', provenance), {
-    pipeline: resolved.pipeline.name, outcomes, unit, labels: score?.values ?? null,
-    calibration: a.calibrationMask ?? new Uint8Array(records.rows),
-    inPhase: d.inPhase, quadrature: d.quadrature, value: d.value, statistic: d.statistic, outcome: d.outcome, discarded: d.discarded,
-  });
-  files.push('shots.arrow');
-  if (a.summary) {
-    const cal = a.calibration;
-    const point = {
-      index: 0, parameters: {}, scenario: { states: outcomes.map((name) => ({ name })), outcomes },
-      summaries: [a.summary], comparisons: [], noise: [null], calibrations: [cal],
-      compiled: { pipelines: [{ spec: { name: resolved.pipeline.name, classifier: resolved.pipeline.classifier }, referencePhase: a.referencePhase }] },
-    };
-    const summary = buildTable(summaryColumns([point], unit), analysisMetadata('summary', provenance));
-    writeFileAtomic(join(o.outDir, 'summary.arrow'), tableToIPC(summary, 'file'));
-    files.push('summary.arrow');
+  try {
+    writeRecordedShots(out.file('shots.arrow'), analysisMetadata('shots', provenance), {
+      pipeline: resolved.pipeline.name, outcomes, unit, labels: score?.values ?? null,
+      calibration: a.calibrationMask ?? new Uint8Array(records.rows),
+      inPhase: d.inPhase, quadrature: d.quadrature, value: d.value, statistic: d.statistic, outcome: d.outcome, discarded: d.discarded,
+    });
+    files.push('shots.arrow');
+    if (a.summary) {
+      const cal = a.calibration;
+      const point = {
+        index: 0, parameters: {}, scenario: { states: outcomes.map((name) => ({ name })), outcomes },
+        summaries: [a.summary], comparisons: [], noise: [null], calibrations: [cal],
+        compiled: { pipelines: [{ spec: { name: resolved.pipeline.name, classifier: resolved.pipeline.classifier }, referencePhase: a.referencePhase }] },
+      };
+      const summary = buildTable(summaryColumns([point], unit), analysisMetadata('summary', provenance));
+      writeFileAtomic(out.file('summary.arrow'), tableToIPC(summary, 'file'));
+      files.push('summary.arrow');
+    }
+    await checkpoint(o.signal);
+    const spectrum = recordsSpectrum(records, score?.values ?? null, resolved.timing.sampleRate);
+    if (spectrum) {
+      writeRecordedNoise(out.file('noise.arrow'), analysisMetadata('noise', provenance), spectrum, outcomes, unit);
+      files.push('noise.arrow');
+    }
+    writeExampleRecords(out.file('traces.arrow'), analysisMetadata('traces', provenance), records, score?.values ?? null, outcomes, unit, resolved.timing);
+    files.push('traces.arrow');
+    const written = o.parquet ? await withParquetCopies(out.work, files) : files;
+    writeAnalysisManifest(out.work, { complete: true, files: written, analysis: provenance });
+    await checkpoint(o.signal);
+    out.publish();
+    return written;
+  } catch (e) {
+    out.discard();
+    if (e instanceof RunInterrupted) throw new RunInterrupted(e.signal, `${o.outDir} was left as it was`);
+    throw out.userError(e);
   }
-  const spectrum = recordsSpectrum(records, score?.values ?? null, resolved.timing.sampleRate);
-  if (spectrum) {
-    writeRecordedNoise(join(o.outDir, 'noise.arrow'), analysisMetadata('noise', provenance), spectrum, outcomes, unit);
-    files.push('noise.arrow');
-  }
-  writeExampleRecords(join(o.outDir, 'traces.arrow'), analysisMetadata('traces', provenance), records, score?.values ?? null, outcomes, unit, resolved.timing);
-  files.push('traces.arrow');
-  const written = o.parquet ? await withParquetCopies(o.outDir, files) : files;
-  writeAnalysisManifest(o.outDir, { complete: true, files: written, analysis: provenance });
-  return written;
 }

@@ -21,13 +21,17 @@ import { pushNode, type TallyNode } from '../analysis/tally-tree.ts';
 import { batchCount } from '../run/batches.ts';
 import { type RunResult } from '../run/run-points.ts';
 import { finishPoint, setUpPoint, type PointResult } from '../run/point-result.ts';
+import { compilePoint } from '../engine/compile-point.ts';
 import { resolveScenario } from '../scenario/resolve.ts';
 import type { SweepSpec } from '../scenario/types.ts';
+import type { Scenario } from '../scenario/types.ts';
 import { ArrowFileStream } from '../io/arrow-sink.ts';
 import { checkArrowFile } from '../io/arrow-read.ts';
-import { readManifest, writeManifest, MANIFEST, type Manifest } from '../io/manifest.ts';
+import { parseShardText, writeManifest, MANIFEST, type Manifest } from '../io/manifest.ts';
+import { openRunFolder } from './run-folder.ts';
 import { META_PREFIX, TOOL_VERSION, type RunProvenance } from '../io/metadata.ts';
-import { prepareOutputDir } from '../io/output-dir.ts';
+import { OutputFolder } from '../io/output-dir.ts';
+import { checkpoint, RunInterrupted } from '../run/interrupt.ts';
 import { writeResultTables } from './result-tables.ts';
 import { readTallies, runTallies, TALLIES, writeTallies, type PointTallies, type RunTallies } from './tallies.ts';
 import { encodeData } from '../io/plain-data.ts';
@@ -44,6 +48,8 @@ export interface MergeOptions {
   force?: boolean;
   /** Write report.html when the shards have one (default true). */
   report?: boolean;
+  /** Aborting it stops the merge between record batches (RunInterrupted); the output folder is left as it was. */
+  signal?: AbortSignal;
 }
 
 export interface MergeResult {
@@ -67,20 +73,29 @@ function where(dir: string): string {
   return join(dir, MANIFEST);
 }
 
-function parseShard(dir: string, m: Manifest): { k: number; n: number } {
-  const match = /^(\d+)\/(\d+)$/.exec(m.shard);
-  const k = match ? Number(match[1]) : NaN, n = match ? Number(match[2]) : NaN;
-  if (!match || n < 1 || k < 1 || k > n) throw new InputError(where(dir), 'shard', 'a shard "K/N" with 1 ≤ K ≤ N', JSON.stringify(m.shard));
-  return { k, n };
+/** The "K/N" of a checked run.json (readManifest refuses any other). */
+function parseShard(m: Manifest): { k: number; n: number } {
+  return parseShardText(m.shard)!;
 }
 
-/** Reads and checks the shards; returns them in shard order. */
-export function checkShards(dirs: readonly string[]): Shard[] {
+/** The trace kind and record layout of a shard's traces.arrow (its schema's fields and kind). */
+async function tracesLayoutOf(dir: string): Promise<string> {
+  const schema = await checkArrowFile(join(dir, 'traces.arrow'), 'traces', ['point', 'shot']);
+  const kind = schema.metadata.get(`${META_PREFIX}trace_kind`) ?? 'none';
+  return `${kind}: ${schema.fields.map((f) => `${f.name} ${String(f.type)}`).join(', ')}`;
+}
+
+/**
+ * Reads and checks the shards (each folder whole: run.json, checksums, metadata; run-folder.ts);
+ * returns them in shard order.
+ */
+export async function checkShards(dirs: readonly string[]): Promise<Shard[]> {
   if (dirs.length === 0) throw new InputError('merge', '', 'at least one shard folder');
-  const shards: Shard[] = dirs.map((dir) => {
-    const manifest = readManifest(dir, true);
-    return { dir, manifest, ...parseShard(dir, manifest), tallies: null as unknown as RunTallies };
-  });
+  const shards: Shard[] = [];
+  for (const dir of dirs) {
+    const { manifest } = await openRunFolder(dir);
+    shards.push({ dir, manifest, ...parseShard(manifest), tallies: null as unknown as RunTallies });
+  }
   const a = shards[0]!;
   for (const s of shards) {
     const m = s.manifest;
@@ -102,6 +117,15 @@ export function checkShards(dirs: readonly string[]): Shard[] {
         throw new InputError(where(s.dir), 'files', `${t} ${a.manifest.files.includes(t) ? 'present' : 'absent'} like in ${a.dir}`, m.files.includes(t) ? 'present' : 'absent');
       }
     }
+    if (m.refine !== undefined) throw new InputError(where(s.dir), 'refine', 'a shard (a refined run is never sharded)', 'a refined run');
+  }
+  // kept traces of one kind and one layout (raw or baseband, the same record length)
+  if (a.manifest.files.includes('traces.arrow')) {
+    const first = await tracesLayoutOf(a.dir);
+    for (const s of shards) {
+      const layout = await tracesLayoutOf(s.dir);
+      if (layout !== first) throw new InputError(join(s.dir, 'traces.arrow'), '', `traces kept like ${a.dir}'s (${first.slice(0, 60)})`, layout.slice(0, 60));
+    }
   }
   const byK = new Map<number, Shard>();
   for (const s of shards) {
@@ -115,7 +139,7 @@ export function checkShards(dirs: readonly string[]): Shard[] {
   }
   const ordered = [...byK.keys()].sort((x, y) => x - y).map((k) => byK.get(k)!);
   for (const s of ordered) {
-    s.tallies = readTallies(s.dir);
+    s.tallies = readTallies(s.dir, s.manifest);
     const t = s.tallies;
     if (t.seed !== s.manifest.seed || t.scenario !== s.manifest.scenario || t.engine !== s.manifest.engine || t.version !== s.manifest.version) {
       throw new InputError(join(s.dir, TALLIES), '', `tallies of the run in ${where(s.dir)}`, 'tallies of another run');
@@ -159,6 +183,22 @@ function mergePoint(shards: readonly Shard[], k: number, totalBatches: number): 
   return { index: first.index, batches: [0, end], calibrations: first.calibrations, stacks, pairs, counts };
 }
 
+/** Checks a shard's tallies of point k against the point's scenario: pipelines, states, weights, batch range. */
+function checkPointTallies(file: string, k: number, part: PointTallies, sc: Scenario): void {
+  const at = `points[${k}]`;
+  const pipelines = sc.pipelines.length, states = sc.states.length;
+  if (part.stacks.length !== pipelines) throw new InputError(file, `${at}.stacks`, `one stack per pipeline (${pipelines})`, `${part.stacks.length}`);
+  if (part.calibrations.length !== pipelines) throw new InputError(file, `${at}.calibrations`, `one calibration per pipeline (${pipelines})`, `${part.calibrations.length}`);
+  if (part.batches[1] > batchCount(sc, 'score')) throw new InputError(file, `${at}.batches`, `batches of the point's ${batchCount(sc, 'score')}`, `[${part.batches[0]}, ${part.batches[1]})`);
+  part.stacks.forEach((stack, p) => stack.forEach((node, j) => {
+    if (node.tally.states !== states) throw new InputError(file, `${at}.stacks[${p}][${j}].tally.states`, `the scenario's ${states} states`, String(node.tally.states));
+  }));
+  part.calibrations.forEach((c, p) => {
+    const weighted = sc.pipelines[p]!.weights !== undefined && sc.pipelines[p]!.weights !== 'boxcar';
+    if (weighted !== (c.weights !== null)) throw new InputError(file, `${at}.calibrations[${p}].weights`, weighted ? 'calibrated weights' : 'null (boxcar weights)', c.weights === null ? 'null' : 'weights');
+  });
+}
+
 /** A record batch whose dictionary columns use the given dictionaries (so a writer writes them once). */
 function withDictionaries(batch: RecordBatch, schema: Schema, dictionaries: Map<number, Vector>): RecordBatch {
   const children = batch.data.children.map((child: Data, i: number) => {
@@ -179,8 +219,47 @@ function withDictionaries(batch: RecordBatch, schema: Schema, dictionaries: Map<
   return new RecordBatch(schema, makeData({ type: new Struct(schema.fields), length: batch.numRows, nullCount: 0, children }));
 }
 
+/** Shots [first, end) of a point that shard `shard` scored, and the pipelines whose rows shots.arrow holds per shot. */
+export interface ShotRange {
+  first: number;
+  end: number;
+}
+
+/**
+ * Checks one record batch of a shard against the shots it must hold: one point and (in
+ * shots.arrow) one pipeline per batch, shot numbers that follow on from the previous batch of
+ * that pipeline, inside the shard's range. `next` holds the next expected shot per row group.
+ */
+function checkBatchShots(path: string, b: RecordBatch, pipelines: readonly string[] | null, range: ShotRange, next: number[]): void {
+  const shot = b.getChild('shot'), point = b.getChild('point');
+  if (!shot || !point) throw new InputError(path, '', 'the columns point and shot', 'a batch without them');
+  let group = 0;
+  if (pipelines) {
+    const name = String(b.getChild('pipeline')?.get(0));
+    group = pipelines.indexOf(name);
+    if (group < 0) throw new InputError(path, 'pipeline', `one of the scenario's pipelines (${pipelines.join(', ')})`, JSON.stringify(name.slice(0, 40)));
+  }
+  const p0 = point.get(0);
+  const pipeline = pipelines ? b.getChild('pipeline')! : null;
+  for (let i = 0; i < b.numRows; i++) {
+    const expected = next[group]! + i;
+    if (point.get(i) !== p0) throw new InputError(path, 'point', `point ${String(p0)} in every row of a batch`, `point ${String(point.get(i))}`);
+    if (pipeline && String(pipeline.get(i)) !== pipelines![group]) {
+      throw new InputError(path, 'pipeline', `pipeline "${pipelines![group]}" in every row of a batch`, JSON.stringify(String(pipeline.get(i)).slice(0, 40)));
+    }
+    if (Number(shot.get(i)) !== expected) {
+      throw new InputError(path, 'shot', `shot ${expected} of point ${String(p0)} next (the shard scored shots [${range.first}, ${range.end}) once each)`, `shot ${String(shot.get(i))}`);
+    }
+  }
+  next[group]! += b.numRows;
+  if (next[group]! > range.end) throw new InputError(path, 'shot', `shots below ${range.end} (the shard's range of point ${String(p0)})`, `shot ${next[group]! - 1}`);
+}
+
 /** Concatenates one streamed table of the shards, point by point, shard by shard. */
-async function concatenateTable(name: string, shards: readonly Shard[], pointOrder: readonly number[], outDir: string): Promise<void> {
+async function concatenateTable(
+  name: string, shards: readonly Shard[], pointOrder: readonly number[], out: OutputFolder,
+  ranges: (shard: number, point: number) => ShotRange, pipelines: readonly string[], signal?: AbortSignal,
+): Promise<void> {
   // hostile files (empty, truncated, foreign, wrong table) are InputErrors before anything is read
   for (const s of shards) await checkArrowFile(join(s.dir, name), name.replace(/\.arrow$/, ''), ['point']);
   const readers = await Promise.all(shards.map(async (s) => {
@@ -193,7 +272,7 @@ async function concatenateTable(name: string, shards: readonly Shard[], pointOrd
   const metadata = new Map(source.metadata);
   metadata.set(`${META_PREFIX}shard`, '1/1');
   const schema = new Schema(source.fields, metadata);
-  const out = new ArrowFileStream(join(outDir, name), schema);
+  const stream = new ArrowFileStream(out.file(name), schema);
   const dictionaries = new Map<number, Vector>();
   const peek = async (r: (typeof readers)[number]): Promise<RecordBatch | null> => {
     if (!r.peeked && !r.done) {
@@ -206,22 +285,33 @@ async function concatenateTable(name: string, shards: readonly Shard[], pointOrd
     return r.peeked;
   };
   const pointOf = (b: RecordBatch): number => (schema.fields.some((f) => f.name === 'point') ? Number(b.getChild('point')!.get(0)) : pointOrder[0]!);
+  const byPipeline = name === 'shots.arrow' ? pipelines : null;
   try {
     for (const p of pointOrder) {
-      for (const r of readers) {
+      for (const [i, r] of readers.entries()) {
+        const path = join(shards[i]!.dir, name);
+        const range = ranges(i, p);
+        const next = (byPipeline ?? [null]).map(() => range.first);
         for (let b = await peek(r); b && pointOf(b) === p; b = await peek(r)) {
-          out.write(withDictionaries(b, schema, dictionaries));
+          checkBatchShots(path, b, byPipeline, range, next);
+          stream.write(withDictionaries(b, schema, dictionaries));
           r.peeked = null;
+          await checkpoint(signal);
+        }
+        if (next.some((x) => x !== range.end)) {
+          throw new InputError(path, 'shot', `every shot of point ${p} in [${range.first}, ${range.end})${byPipeline ? ' for every pipeline' : ''}`, `rows up to shot ${Math.min(...next)}`);
         }
       }
     }
     for (const [i, r] of readers.entries()) {
       if (await peek(r)) throw new InputError(join(shards[i]!.dir, name), '', 'batches of the points in tallies.json only', 'batches of another point');
     }
-    out.finish();
+    stream.finish();
   } catch (e) {
-    out.abort();
-    throw e;
+    stream.abort();
+    if (e instanceof InputError || e instanceof RunInterrupted) throw e;
+    // the bytes were checked against run.json: a reader failure means the file changed meanwhile
+    throw new InputError(join(shards[0]!.dir, name), '', 'a table that reads to the end', `a reader failure (${String((e as Error).message).split('\n')[0]!.slice(0, 100)})`);
   } finally {
     await Promise.all(readers.map((r) => r.handle.close()));
   }
@@ -229,7 +319,7 @@ async function concatenateTable(name: string, shards: readonly Shard[], pointOrd
 
 /** Merges shard folders into `outDir`. */
 export async function mergeRuns(o: MergeOptions): Promise<MergeResult> {
-  const shards = checkShards(o.dirs);
+  const shards = await checkShards(o.dirs);
   const a = shards[0]!;
   const label = where(a.dir);
   const doc = JSON.parse(a.manifest.scenario) as unknown;
@@ -243,34 +333,55 @@ export async function mergeRuns(o: MergeOptions): Promise<MergeResult> {
     const index = a.tallies.points[k]!.index;
     const sp = sweepPoints[index];
     if (!sp) throw new InputError(join(a.dir, TALLIES), `points[${k}]`, `a point of the scenario's ${sweepPoints.length}`, `point ${index}`);
+    for (const s of shards) checkPointTallies(join(s.dir, TALLIES), k, s.tallies.points[k]!, sp.scenario);
     return { sp, tallies: mergePoint(shards, k, batchCount(sp.scenario, 'score')) };
   });
-  const points: PointResult[] = merged.map(({ sp, tallies }) => {
-    const r = setUpPoint(tallies.index, sp, tallies.calibrations);
+  const points: PointResult[] = merged.map(({ sp, tallies }, k) => {
+    const compiled = compilePoint(sp.scenario);
+    tallies.calibrations.forEach((c, p) => {
+      const bins = compiled.pipelines[p]!.chain.bins;
+      if (c.weights && c.weights.length !== bins) {
+        throw new InputError(join(a.dir, TALLIES), `points[${k}].calibrations[${p}].weights`, `${bins} weights (one per bin of the pipeline)`, `${c.weights.length}`);
+      }
+    });
+    const r = setUpPoint(tallies.index, sp, tallies.calibrations, compiled);
     r.tallyStacks = tallies.stacks;
     r.pairs = tallies.pairs;
     Object.assign(r, tallies.counts);
     finishPoint(r);
     return r;
   });
-  prepareOutputDir(o.outDir, o.force ?? false);
+  await checkpoint(o.signal);
+  const out = OutputFolder.open(o.outDir, { force: o.force ?? false, command: 'merge', inputs: o.dirs.map((d) => ({ path: d, kind: 'folder' as const })) });
   const m = a.manifest;
-  const provenance: RunProvenance = { scenario: m.scenario, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1' };
-  const files: string[] = [];
   const mergedFrom = shards.map((s) => s.dir);
-  writeManifest(o.outDir, { complete: false, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
-  const order = points.map((p) => p.index);
-  for (const t of STREAMED_TABLES) {
-    if (!m.files.includes(t)) continue;
-    await concatenateTable(t, shards, order, o.outDir);
-    files.push(t);
+  const files: string[] = [];
+  try {
+    const provenance: RunProvenance = { scenario: m.scenario, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1' };
+    const order = points.map((p) => p.index);
+    for (const t of STREAMED_TABLES) {
+      if (!m.files.includes(t)) continue;
+      await concatenateTable(t, shards, order, out, (i, p) => {
+        const k = merged.findIndex((x) => x.tallies.index === p);
+        const [first, end] = shards[i]!.tallies.points[k]!.batches;
+        const sc = merged[k]!.sp.scenario;
+        return { first: first * sc.batchSize, end: Math.min(sc.shots, end * sc.batchSize) };
+      }, scenario.pipelines.map((x) => x.name), o.signal);
+      files.push(t);
+    }
+    files.push(...writeResultTables(out.work, points, provenance, points[0]!.scenario.signal.unit, sweepPoints[0]!.units ?? {}));
+    const tallies = runTallies(points, merged.map((x) => x.tallies.batches), { seed: m.seed, engine: m.engine, scenario: m.scenario });
+    writeTallies(out.work, tallies);
+    files.push(TALLIES);
+    writeManifest(out.work, { complete: true, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
+    if (o.report !== false && existsSync(join(a.dir, 'report.html'))) await writeReport(out.work, out.file('report.html'), o.signal);
+    await checkpoint(o.signal);
+    out.publish();
+  } catch (e) {
+    out.discard();
+    if (e instanceof RunInterrupted) throw new RunInterrupted(e.signal, `${o.outDir} was left as it was`);
+    throw out.userError(e);
   }
-  files.push(...writeResultTables(o.outDir, points, provenance, points[0]!.scenario.signal.unit, sweepPoints[0]!.units ?? {}));
-  const tallies = runTallies(points, merged.map((x) => x.tallies.batches), { seed: m.seed, engine: m.engine, scenario: m.scenario });
-  writeTallies(o.outDir, tallies);
-  files.push(TALLIES);
-  writeManifest(o.outDir, { complete: true, seed: m.seed, engine: m.engine, engineReason: m.engineReason, shard: '1/1', files, scenario: m.scenario, mergedFrom });
-  if (o.report !== false && existsSync(join(a.dir, 'report.html'))) await writeReport(o.outDir);
   const result: RunResult = { points, engine: m.engine, engineReason: m.engineReason ?? '' };
   return { result, files, shards: mergedFrom, sweep: scenario.sweep };
 }

@@ -3,7 +3,12 @@
  * re-simulates the example records, renders every plot to SVG and assembles the page.
  * The same folder always gives the same bytes (no clock, no path, no random state).
  */
-import { join } from 'node:path';
+import { existsSync, realpathSync, statSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import { InputError } from '../errors.ts';
+import { FolderLock } from '../io/folder-lock.ts';
+import { KNOWN_FILES } from '../io/output-dir.ts';
+import { checkpoint } from '../run/interrupt.ts';
 import { operatingPoints, type PipelineOperatingPoint } from '../analysis/operating-point.ts';
 import { compilePoint } from '../engine/compile-point.ts';
 import { sweepCombinations, sweepPointAt } from '../run/sweep.ts';
@@ -11,7 +16,8 @@ import { describeScenario } from '../scenario/summary.ts';
 import type { Scenario } from '../scenario/types.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
 import { probability, short, showValue } from '../io/report/display.ts';
-import { noiseSpectrumView } from '../io/report/noise-view.ts';
+import { NOISE_TABLE, noiseSpectrumView } from '../io/report/noise-view.ts';
+import { openRunFolder } from './run-folder.ts';
 import { renderPage, type BuiltReport, type Card, type Figure, type SectionView } from '../io/report/page.ts';
 import { readAnyManifest } from '../io/manifest.ts';
 import { buildAnalysisReport } from './analysis-report.ts';
@@ -22,6 +28,9 @@ import { renderPlot, type PlotSpec } from '../io/report/svg.ts';
 import { describeParameters, heatMapView, sweepLineViews } from '../io/report/sweep-views.ts';
 import { causeTable, pointsTable, refinementOf } from '../io/report/tables.ts';
 import { iqAndAssignment } from './report-iq.ts';
+
+/** The files of a run folder the report reads (each checked against run.json when listed). */
+const REPORT_READS = ['summary.arrow', 'budget.arrow', 'shots.arrow', NOISE_TABLE];
 
 export type { BuiltReport };
 
@@ -49,10 +58,15 @@ function interval(r: { low: number; high: number }): string {
   return `95 % interval [${probability(r.low)}, ${probability(r.high)}]`;
 }
 
-/** Builds the report page of a finished run folder (or of an analysis folder: analysis-report.ts). */
-export async function buildReport(dir: string): Promise<BuiltReport> {
+/**
+ * Builds the report page of a finished run folder (or of an analysis folder: analysis-report.ts);
+ * an aborted `signal` stops it between steps (RunInterrupted). `verify: false` skips the
+ * checksums (the folder a command has just written).
+ */
+export async function buildReport(dir: string, signal?: AbortSignal, verify = true): Promise<BuiltReport> {
   const manifest = readAnyManifest(dir, true);
-  if ('kind' in manifest && manifest.kind === 'analysis') return buildAnalysisReport(dir, manifest);
+  if ('kind' in manifest && manifest.kind === 'analysis') return buildAnalysisReport(dir, manifest, verify);
+  if (verify) await openRunFolder(dir, REPORT_READS);
   const t = readRunTables(dir);
   const spec = t.scenario.sweep;
   const axes = spec?.axes ?? [];
@@ -72,7 +86,7 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
 
   // integrated values
   const values = t.hasShots
-    ? await readPointValues(dir, bestRow.point, op.pipeline, scenario.states.map((s) => s.name))
+    ? await readPointValues(dir, bestRow.point, op.pipeline, scenario.states.map((s) => s.name), () => checkpoint(signal))
     : resimulatedValues(compiled, bestRow.point, reading.pipeline, { cos: Math.cos(reading.axisAngle), sin: Math.sin(reading.axisAngle) });
   const histogram = histogramView(compiled, reading, values);
   const shotsSaid = t.hasShots
@@ -137,7 +151,7 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   }
 
   // noise spectrum
-  const noise = noiseSpectrumView(dir);
+  const noise = noiseSpectrumView(dir, t.files.includes(NOISE_TABLE));
   const spectrum: SectionView = { id: 'spectrum', title: 'Noise spectrum', intro: [], figures: [], tables: [] };
   if ('note' in noise) spectrum.note = noise.note;
   else pending.push({ section: spectrum, spec: noise.spec, figure: { title: 'Noise components', caption: noise.caption } });
@@ -158,6 +172,7 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   const warnings: string[] = [];
   let n = 0;
   for (const p of pending) {
+    await checkpoint(signal);
     n++;
     const r = await renderPlot(p.spec, `plot${n}-`);
     warnings.push(...r.warnings);
@@ -211,9 +226,57 @@ export async function buildReport(dir: string): Promise<BuiltReport> {
   return { html, warnings, plots: n };
 }
 
-/** Builds the report of a run folder and writes it to `out` (default DIR/report.html); returns the path. */
-export async function writeReport(dir: string, out = join(dir, 'report.html')): Promise<{ path: string; report: BuiltReport }> {
-  const report = await buildReport(dir);
+/**
+ * Builds the report of a run folder and writes it to `out` (default DIR/report.html), replacing
+ * a file there; returns the path. The commands that write a run folder call it on their staging
+ * folder; `reportFolder` is the `report` command.
+ */
+export async function writeReport(dir: string, out = join(dir, 'report.html'), signal?: AbortSignal): Promise<{ path: string; report: BuiltReport }> {
+  const report = await buildReport(dir, signal, false);
+  await checkpoint(signal);
   writeFileAtomic(out, report.html);
   return { path: out, report };
+}
+
+export interface ReportOptions {
+  /** The finished run folder. */
+  dir: string;
+  /** Where the page goes (default DIR/report.html). */
+  out?: string;
+  /** Replace a file that is there already. */
+  force?: boolean;
+  signal?: AbortSignal;
+}
+
+/**
+ * The `report` command: holds the run folder's lock while it reads the tables and writes the
+ * page, atomically; never replaces a file without `force`, and never one of the run's own tables
+ * or records (run.json, tallies.json, the .arrow files), even with it.
+ */
+export async function reportFolder(o: ReportOptions): Promise<{ path: string; report: BuiltReport }> {
+  const out = o.out ?? join(o.dir, 'report.html');
+  if (out.trim() === '') throw new InputError('--out', '', 'a file path for the page', 'an empty string');
+  if (existsSync(out) && statSync(out).isDirectory()) throw new InputError(out, '', 'a file path for the page (--out names the file, not a folder)', 'a folder');
+  const sameFolder = realpathOrNull(dirname(out)) !== null && realpathOrNull(dirname(out)) === realpathOrNull(o.dir);
+  if (sameFolder && basename(out) !== 'report.html' && (KNOWN_FILES as readonly string[]).includes(basename(out))) {
+    throw new InputError(out, '', 'a page name that is not one of the run\'s own files', `${basename(out)}, which the run's tables need`);
+  }
+  if (!existsSync(o.dir) || !statSync(o.dir).isDirectory()) throw new InputError(o.dir, '', 'a run folder', 'no such folder');
+  const lock = FolderLock.take(o.dir, 'report');
+  try {
+    const report = await buildReport(o.dir, o.signal);
+    await checkpoint(o.signal);
+    writeFileAtomic(out, report.html, { replace: o.force ?? false });
+    return { path: out, report };
+  } finally {
+    lock.release();
+  }
+}
+
+function realpathOrNull(path: string): string | null {
+  try {
+    return realpathSync(path);
+  } catch {
+    return null;
+  }
 }

@@ -9,7 +9,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { InputError } from '../errors.ts';
 import { readArrowFile, singleshotMetadata } from '../io/arrow-read.ts';
-import { readManifest } from '../io/manifest.ts';
+import { openRunFolder } from './run-folder.ts';
 import { TOOL_VERSION } from '../io/metadata.ts';
 import { runToDirectory } from './run-to-directory.ts';
 import type { EngineRequest } from '../engine/choose.ts';
@@ -68,7 +68,9 @@ function parseShard(text: string, path: string): { index: number; count: number 
 
 /** Reruns `o.dir` from its embedded scenario and compares every table's bytes. */
 export async function rerunDirectory(o: RerunOptions): Promise<RerunResult> {
-  const manifest = readManifest(o.dir, true);
+  // the folder whole: run.json, every file against its checksum, every table's metadata
+  const { manifest } = await openRunFolder(o.dir);
+  if (manifest.engine === 'analyze') throw new InputError(join(o.dir, 'run.json'), 'engine', 'a run folder (analyze results are not rerun)', '"analyze"');
   const summaryPath = join(o.dir, 'summary.arrow');
   const meta = singleshotMetadata(readArrowFile(summaryPath, 'summary'));
   const scenario = meta.scenario;
@@ -101,8 +103,10 @@ export async function rerunDirectory(o: RerunOptions): Promise<RerunResult> {
     const scenarioPath = join(work, 'scenario-from-summary.json');
     writeFileSync(scenarioPath, scenario);
     await runToDirectory({
-      scenarioPath, outDir, force: o.force, shard, engine, workers: o.workers, keepTraces,
+      scenarioPath, outDir, force: o.force, shard, engine, workers: o.workers, keepTraces, refine: manifest.refine,
       shotsTable: files.includes('shots.arrow'), report: false, signal: o.signal,
+      // never into the folder it checks, not even with --force
+      inputs: [{ path: o.dir, kind: 'folder' }],
     });
     const comparisons = files.map((f) => {
       let original: Uint8Array, again: Uint8Array;

@@ -12,7 +12,9 @@ import type { TallyNode } from '../analysis/tally-tree.ts';
 import type { PipelineCalibration } from '../classify/calibrate.ts';
 import type { PointResult } from '../run/point-result.ts';
 import { writeFileAtomic } from '../io/atomic-file.ts';
-import { readJsonFile } from '../io/json-file.ts';
+import { parseJsonText, readJsonFile } from '../io/json-file.ts';
+import { verifiedFile, type Manifest } from '../io/manifest.ts';
+import { checkTallies } from './tallies-check.ts';
 import { TOOL_VERSION } from '../io/metadata.ts';
 import { decodeData, encodeData } from '../io/plain-data.ts';
 
@@ -72,18 +74,25 @@ export function writeTallies(dir: string, t: RunTallies): void {
   writeFileAtomic(join(dir, TALLIES), talliesText(t));
 }
 
-/** Reads a folder's tallies.json; refuses a missing or foreign one. */
-export function readTallies(dir: string): RunTallies {
+/**
+ * Reads a folder's tallies.json, its bytes checked against run.json's checksum when `manifest` is
+ * given; refuses a missing, foreign or malformed one (tallies-check.ts) with one line.
+ */
+export function readTallies(dir: string, manifest?: Manifest): RunTallies {
   const path = join(dir, TALLIES);
-  const raw = readJsonFile(path, 'not found: this run kept no tallies (it was made by an older singleshot?), so it cannot be merged');
-  let t: RunTallies;
+  const raw = manifest
+    ? parseJsonText(verifiedFile(dir, manifest, TALLIES).toString('utf8'), path)
+    : readJsonFile(path, 'not found: this run kept no tallies (it was made by an older singleshot?), so it cannot be merged');
+  const head = raw as Partial<RunTallies> | null;
+  if (head === null || typeof head !== 'object' || head.tool !== 'singleshot' || head.format !== TALLIES_FORMAT) {
+    throw new InputError(path, 'format', `singleshot tallies format ${TALLIES_FORMAT}`, JSON.stringify(head?.format ?? null));
+  }
+  let t: unknown;
   try {
-    t = decodeData(raw) as RunTallies;
+    t = decodeData(raw);
   } catch {
-    throw new InputError(path, '', 'is not valid JSON');
+    throw new InputError(path, '', 'tallies whose tagged numbers and arrays read back', 'an unknown tag');
   }
-  if (t.tool !== 'singleshot' || t.format !== TALLIES_FORMAT || !Array.isArray(t.points)) {
-    throw new InputError(path, 'format', `singleshot tallies format ${TALLIES_FORMAT}`, JSON.stringify(t.format));
-  }
-  return t;
+  checkTallies(path, t, SUMMED_POINT_COUNTS);
+  return t as RunTallies;
 }

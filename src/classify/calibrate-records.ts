@@ -15,6 +15,7 @@
  * estimation noise; a filter that colours the noise between bins makes them differ.
  */
 import { matchedWeights, noiseCovariance, optimalLinearWeights } from '../dsp/weights.ts';
+import { ScenarioProblem } from '../errors.ts';
 import type { PipelineChain } from '../dsp/pipeline-chain.ts';
 import { projectRecords, type Axis } from './project.ts';
 import type { ShotColumns } from './shots.ts';
@@ -73,7 +74,7 @@ function meanOf(r: CalibrationRecords, select: (i: number) => boolean): { mean: 
 export function meanDifference(r: CalibrationRecords): Float64Array {
   const one = meanOf(r, (i) => r.outcome[i] === 1);
   const zero = meanOf(r, (i) => r.outcome[i] === 0);
-  if (one.n === 0 || zero.n === 0) throw new Error('calibration needs shots prepared in both outcomes; raise calibrationShots or check prepare');
+  if (one.n === 0 || zero.n === 0) throw new ScenarioProblem(['calibrationShots'], 'calibration shots prepared in both outcomes (raise calibrationShots or check prepare)', `${zero.n} and ${one.n}`);
   return Float64Array.from(one.mean, (m, b) => m - zero.mean[b]!);
 }
 
@@ -94,7 +95,7 @@ export function pooledNoiseCovariance(r: CalibrationRecords, states: number, pip
     dof += rows.length - 1;
   }
   if (dof <= n) {
-    throw new Error(`pipeline "${pipelineName}": ${dof} degrees of freedom from clean calibration shots cannot estimate a ${n}×${n} noise covariance; raise calibrationShots or decimate more`);
+    throw new ScenarioProblem(['calibrationShots'], `more clean calibration shots than the ${n} bins of pipeline "${pipelineName}" (to estimate its ${n}×${n} noise covariance; or decimate more)`, `${dof} degrees of freedom`);
   }
   for (let k = 0; k < n * n; k++) pooled[k]! /= dof;
   return pooled;

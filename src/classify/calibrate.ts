@@ -13,7 +13,7 @@ import type { ThresholdRule } from './threshold.ts';
 import { project, separationAxis, type Axis } from './project.ts';
 import type { PipelineSpec } from '../scenario/types.ts';
 import type { PipelineChain } from '../dsp/pipeline-chain.ts';
-import { InputError } from '../errors.ts';
+import { ScenarioProblem } from '../errors.ts';
 import type { DeviceView } from './contract.ts';
 import type { ShotColumns } from './shots.ts';
 import { classifierOf } from './registry.ts';
@@ -42,11 +42,33 @@ export interface CalibrationView {
 /**
  * Calibrates every pipeline of a point from its calibration batches. `device` is the simulated
  * device a classifier may start its model from; null for recorded traces (analyze), whose
- * "states" are the two labelled outcomes.
+ * "states" are the two labelled outcomes. A scenario that cannot be calibrated (no shot of an
+ * outcome, no noise for a classifier or weights that divide by it, values beyond what the
+ * arithmetic holds) is a ScenarioProblem naming the key to change.
  */
 export function calibrate(point: CalibrationView, batches: readonly ShotColumns[], device: DeviceView | null): PipelineCalibration[] {
   const outcomeOf = point.scenario.states.map((s) => s.outcome);
   return point.pipelines.map((pipeline, p) => {
+    try {
+      return calibratePipeline(point, pipeline, p, batches, outcomeOf, device);
+    } catch (e) {
+      if (e instanceof ScenarioProblem && e.path[0] !== 'calibrationShots') throw e.inPipeline(p);
+      throw e;
+    }
+  });
+}
+
+/** Index of the first non-finite value, or -1. */
+function firstNonFinite(values: Float64Array): number {
+  for (let i = 0; i < values.length; i++) if (!Number.isFinite(values[i]!)) return i;
+  return -1;
+}
+
+function calibratePipeline(
+  point: CalibrationView, pipeline: CalibrationView['pipelines'][number], p: number, batches: readonly ShotColumns[], outcomeOf: readonly number[],
+  device: DeviceView | null,
+): PipelineCalibration {
+  {
     const axis = calibrationAxis(pipeline, p, batches, outcomeOf);
     const { chain, spec } = pipeline;
     const classifier = classifierOf(spec);
@@ -58,11 +80,23 @@ export function calibrate(point: CalibrationView, batches: readonly ShotColumns[
       const records = gatherRecords(spec.name, chain, p, outcomeOf, batches, axis);
       if (classifier.readsBins) {
         model = classifier.fit!(records, chain, axis, device);
-        const statistic = classifier.statistic!(model);
+        let statistic: ReturnType<NonNullable<typeof classifier.statistic>>;
+        try {
+          statistic = classifier.statistic!(model);
+        } catch (e) {
+          if (!(e instanceof RangeError)) throw e;
+          throw new ScenarioProblem(['classifier'], `a model the ${classifier.name} classifier can build from the calibration shots (it needs noise in the record to divide by)`, e.message.replace(/^[a-zA-Z]+: /, ''));
+        }
         values = new Float64Array(records.count);
         for (let i = 0; i < records.count; i++) values[i] = statistic(records.projected, i * records.bins, records.bins);
       } else {
-        weights = calibratedWeights(spec.name, chain.weights as 'matched' | 'optimal', records, point.scenario.states.length);
+        try {
+          weights = calibratedWeights(spec.name, chain.weights as 'matched' | 'optimal', records, point.scenario.states.length);
+        } catch (e) {
+          if (!(e instanceof RangeError)) throw e;
+          const why = chain.weights === 'optimal' ? 'noise in the record that optimal weights can divide by (a noise covariance of full rank)' : 'calibration shots whose outcomes differ on average';
+          throw new ScenarioProblem(['weights'], why, e.message.replace(/^[a-zA-Z]+: /, ''));
+        }
         values = weightedValues(records, weights);
       }
       outcome = records.outcome;
@@ -79,6 +113,10 @@ export function calibrate(point: CalibrationView, batches: readonly ShotColumns[
       }
       outcome = intended;
     }
+    const bad = firstNonFinite(values);
+    if (bad >= 0) {
+      throw new ScenarioProblem([], 'finite calibration values (a value of the scenario is beyond what the arithmetic holds)', `${values[bad]} for calibration shot ${bad}`);
+    }
     const statistic = byOutcome(values, outcome);
     const m0 = statistic[0].reduce((a, x) => a + x, 0) / statistic[0].length;
     const m1 = statistic[1].reduce((a, x) => a + x, 0) / statistic[1].length;
@@ -86,7 +124,7 @@ export function calibrate(point: CalibrationView, batches: readonly ShotColumns[
     const band = chain.band;
     const bandHalfWidth = band === null ? 0 : band.kind === 'width' ? band.value / 2 : (band.value * Math.abs(m1 - m0)) / 2;
     return { axis, rule, outcomeMeans: [m0, m1], weights, bandHalfWidth, model };
-  });
+  }
 }
 
 /** The values of each outcome, in shot order. */
@@ -117,7 +155,7 @@ function calibrationAxis(
   const [g0, g1] = sums as [[number, number, number], [number, number, number]];
   if (g0[2] === 0 || g1[2] === 0) {
     // a property of the scenario (prepare weights, calibrationShots), so a user error, not a bug
-    throw new InputError('scenario', 'calibrationShots', 'enough calibration shots to see both outcomes (raise calibrationShots or the prepare weight of the rare outcome)',
+    throw new ScenarioProblem(['calibrationShots'], 'enough calibration shots to see both outcomes (raise calibrationShots or the prepare weight of the rare outcome)',
       `${g0[2]} and ${g1[2]} shots of the two outcomes`);
   }
   // baseband, or a fixed reference angle: the decision is on I of that reference (README, referencePhase)

@@ -48,6 +48,8 @@ export interface ClassifierKind<Model = unknown> {
   exactBlocker: string | null;
   /** Why recorded traces alone cannot calibrate it (`analyze`), or null when they can. */
   needsDevice: string | null;
+  /** Why it cannot work on a record without noise (it divides by the noise), or null when it can. */
+  needsNoise: string | null;
   /** Fits its model from labelled calibration records (kinds that read bins); `device` is null for recorded traces. */
   fit?(records: CalibrationRecords, chain: PipelineChain, axis: Axis, device: DeviceView | null): Model;
   /** What is wrong with a model read back from a file (a stored calibration), or null when it is whole (kinds with a model). */

@@ -11,6 +11,7 @@
  * the calibration. It has no closed-form budget.
  */
 import type { Scenario } from '../scenario/types.ts';
+import { ScenarioProblem } from '../errors.ts';
 import { makeProcessScratch, processRecord } from '../dsp/process-record.ts';
 import type { PipelineChain } from '../dsp/pipeline-chain.ts';
 import type { ClassifierKind, DeviceView } from './contract.ts';
@@ -50,6 +51,7 @@ export const likelihoodClassifier: ClassifierKind<HmmClassifierSpec> = {
   },
   exactBlocker: 'the likelihood classifier is not linear in the record',
   needsDevice: null,
+  needsNoise: 'the likelihood classifier divides by the noise σ per bin',
 
   fit(r, chain, axis, device) {
     return device ? fitWithDevice(r, chain, axis, device) : fitFromRecords(r);
@@ -108,7 +110,7 @@ function fitWithDevice(r: CalibrationRecords, chain: PipelineChain, axis: Axis, 
     for (let b = 0; b < r.bins; b++) sum += (r.projected[base + b]! - shapes[s]![b]!) ** 2;
     count += r.bins;
   }
-  if (count === 0) throw new Error('no clean calibration shot to estimate the noise per bin; raise calibrationShots');
+  if (count === 0) throw new ScenarioProblem(['calibrationShots'], 'clean calibration shots to estimate the noise per bin from (raise calibrationShots)', 'none');
   const rates = scenario.transitions.map((t) => ({ from: t.from, to: t.to, rate: t.rate }));
   const generator = generatorMatrix(n, rates);
   const transition = transitionMatrix(generator, n, chain.binDuration);

@@ -27,6 +27,7 @@ export const peakClassifier: ClassifierKind<PeakModel> = {
   refuses: { weights: 'it reads the extreme of every bin' },
   exactBlocker: 'the peak classifier decides on the extreme of the record, which is not linear in it',
   needsDevice: null,
+  needsNoise: null,
 
   fit(r) {
     // Σ over bins of the mean record of outcome 1 minus outcome 0: the side the signal moves to

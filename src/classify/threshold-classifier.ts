@@ -17,6 +17,7 @@ export const thresholdClassifier: ClassifierKind<null> = {
   refuses: {},
   exactBlocker: null,
   needsDevice: null,
+  needsNoise: null,
   rule(threshold, statistic, m0, m1) {
     if (threshold.method === 'midpoint') return midpointThreshold(m0, m1);
     if (threshold.method === 'fixed') return { threshold: threshold.value, highIsOne: m1 >= m0 };

@@ -64,6 +64,10 @@ export function optimalThreshold(values0: Float64Array, values1: Float64Array): 
   const n0 = values0.length;
   const n1 = values1.length;
   if (n0 === 0 || n1 === 0) throw new RangeError('optimalThreshold: each calibration sample needs at least one value');
+  // a NaN never equals itself: the sweep below would never pass it (it used to loop for ever)
+  for (const values of [values0, values1]) {
+    for (let i = 0; i < values.length; i++) if (Number.isNaN(values[i]!)) throw new RangeError('optimalThreshold: a calibration value is NaN');
+  }
   const sorted0 = Float64Array.from(values0).sort();
   const sorted1 = Float64Array.from(values1).sort();
 

@@ -1,9 +1,12 @@
 /**
- * SIGINT and SIGTERM during a long command: the first signal aborts the command's AbortSignal
- * (the run stops at the next batch, removes its temporary files and leaves run.json
- * `complete: false`); a second one exits at once after removing the temporary files.
+ * SIGINT and SIGTERM during a command that writes (run, merge, report, rerun, analyze): the first
+ * signal aborts the command's AbortSignal (it stops at its next chance, removes its staging folder
+ * and temporary files, releases its folder lock, and leaves the folder as it was); a second one
+ * exits at once after doing the same. Either way the exit code is 128 + the signal's number.
  */
 import { abortOpenFiles } from '../io/atomic-file.ts';
+import { releaseAllLocks } from '../io/folder-lock.ts';
+import { discardAllOutputs } from '../io/output-dir.ts';
 import { RunInterrupted, SIGNAL_EXIT_CODES } from '../run/interrupt.ts';
 
 const HANDLED = ['SIGINT', 'SIGTERM'] as const;
@@ -20,6 +23,8 @@ export async function withInterruptSignals<T>(job: (signal: AbortSignal) => Prom
       if (controller.signal.aborted) {
         // second signal: stop now; only whole files or none are left behind
         abortOpenFiles();
+        discardAllOutputs();
+        releaseAllLocks();
         process.stderr.write(`singleshot: ${name} again, stopping at once\n`);
         process.exit(SIGNAL_EXIT_CODES[name] ?? 130);
       }

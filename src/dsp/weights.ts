@@ -118,9 +118,40 @@ export function optimalLinearWeights(
 ): Float64Array {
   const n = meanDifference.length;
   if (covariance.length !== n * n) throw new RangeError(`optimalLinearWeights: covariance must be ${n}×${n}`);
-  choleskySolve(choleskyFactor(covariance, n), meanDifference, out);
+  choleskySolve(regularisedFactor(covariance, n), meanDifference, out);
   return scaleToBoxcarSeparation(out, meanDifference);
 }
+
+/**
+ * The Cholesky factor of C, or — when C is singular to working precision (bins that are exact
+ * combinations of others, e.g. a filter running into the record's end) — of C + δ·I with the
+ * smallest δ of RIDGES (relative to the mean variance) that makes it positive definite: the
+ * ridge (Tikhonov) form of the Fisher discriminant, which tends to the pseudo-inverse one as δ → 0.
+ * A covariance that the largest ridge does not cure (no noise at all) still throws.
+ */
+function regularisedFactor(covariance: Float64Array, n: number): Float64Array {
+  try {
+    return choleskyFactor(covariance, n);
+  } catch (e) {
+    if (!(e instanceof RangeError)) throw e;
+    let mean = 0;
+    for (let i = 0; i < n; i++) mean += covariance[i * n + i]! / n;
+    if (!(mean > 0) || !Number.isFinite(mean)) throw e;
+    for (const ridge of RIDGES) {
+      const c = Float64Array.from(covariance);
+      for (let i = 0; i < n; i++) c[i * n + i]! += ridge * mean;
+      try {
+        return choleskyFactor(c, n);
+      } catch (again) {
+        if (!(again instanceof RangeError)) throw again;
+      }
+    }
+    throw e;
+  }
+}
+
+/** Relative ridges tried on a singular noise covariance, smallest first (common practice, no source). */
+const RIDGES = [1e-12, 1e-10, 1e-8, 1e-6];
 
 /**
  * Sample covariance of calibration records about a given mean trace:

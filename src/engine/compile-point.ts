@@ -16,6 +16,7 @@ import { applySensor } from '../physics/sensor-scenario.ts';
 import { respondedWaveform } from '../signal/response.ts';
 import { compileNoise, withPipelineKernels, type NoisePlan } from '../signal/noise-plan.ts';
 import type { PointOptions } from './point-plan.ts';
+import { ScenarioProblem } from '../errors.ts';
 
 export interface CompiledPipeline {
   spec: PipelineSpec;
@@ -69,6 +70,32 @@ function compilePipeline(scenario: Scenario, i: number, grid: Grid, weights: Flo
   return { spec, referencePhase, kernels: chainKernels(chain, grid.samples), chain };
 }
 
+/** Index of the first value that is not finite, or -1. */
+function firstNonFinite(a: Float64Array | null): number {
+  if (a === null) return -1;
+  for (let i = 0; i < a.length; i++) if (!Number.isFinite(a[i]!)) return i;
+  return -1;
+}
+
+/**
+ * Stops a point whose tables are not finite (a value of the scenario beyond what the arithmetic
+ * holds), naming the key, rather than letting NaN reach the values. Validation bounds every value
+ * (scenario/bounds.ts), so this is the last line, not the first.
+ */
+function checkCompiled(waveforms: readonly Float64Array[], pipelines: readonly CompiledPipeline[], whiteSigma: number): void {
+  waveforms.forEach((w, s) => {
+    const k = firstNonFinite(w);
+    if (k >= 0) throw new ScenarioProblem(['states', s, 'level'], 'a level, carrier and gain whose record stays finite', `${w[k]} at sample ${k}`);
+  });
+  pipelines.forEach((p, i) => {
+    for (const kernel of [p.kernels.inPhase, p.kernels.quadrature]) {
+      const k = firstNonFinite(kernel);
+      if (k >= 0) throw new ScenarioProblem(['pipelines', i], 'processing (filter, decimation, window) whose weights stay finite', `${kernel![k]} at sample ${k}`);
+    }
+  });
+  if (!Number.isFinite(whiteSigma)) throw new ScenarioProblem(['signal', 'noise'], 'noise whose σ per sample is finite', String(whiteSigma));
+}
+
 /** Compiles a point's scenario with the run's options for it (calibrated weights, kept traces). */
 export function compilePoint(input: Scenario, options: PointOptions = {}): CompiledPoint {
   // levels, rates and noise that a sensor section derives (a no-op without one)
@@ -91,6 +118,7 @@ export function compilePoint(input: Scenario, options: PointOptions = {}): Compi
   const waveforms = response
     ? levelWaves.map((w, s) => respondedWaveform(w, response, s, grid.sampleRate, new Float64Array(channels * grid.samples)))
     : levelWaves;
+  checkCompiled(waveforms, pipelines, noise.whiteSigma);
   return {
     scenario, grid, channels, waveforms, whiteSigma: noise.whiteSigma, noise, levelWaves,
     chain: makeChain(n, scenario.transitions),

@@ -8,6 +8,7 @@ import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import { RecordBatchReader, tableFromIPC, Type, type Schema, type Table } from 'apache-arrow';
 import { InputError } from '../errors.ts';
+import { verifyArrowBytes, verifyArrowStructure } from './arrow-verify.ts';
 import { META_PREFIX } from './metadata.ts';
 
 /** Magic bytes at both ends of an Arrow IPC file ("ARROW1"). */
@@ -84,6 +85,8 @@ export function tableFromArrowBytes(bytes: Uint8Array, path: string): Table {
   if (bytes.length < MIN_FILE_BYTES || !bytesEqual(bytes, bytes.length - MAGIC.length, MAGIC)) {
     throw new InputError(path, '', 'a complete Arrow table file', `a truncated file (${bytes.length} bytes, no closing footer)`);
   }
+  // bounds on every count and offset before apache-arrow trusts them (a damaged length would hang it)
+  verifyArrowBytes(path, bytes);
   let table: Table;
   try {
     table = tableFromIPC(bytes);
@@ -121,7 +124,7 @@ function checkSchema(path: string, schema: Schema, expectedTable: string, requir
  * both magic markers, a readable schema with the expected table name and columns. Damage in the
  * middle of the body shows only when the batches are read.
  */
-export async function checkArrowFile(path: string, expectedTable: string, requiredColumns: readonly ColumnRequirement[] = []): Promise<void> {
+export async function checkArrowFile(path: string, expectedTable: string, requiredColumns: readonly ColumnRequirement[] = []): Promise<Schema> {
   let handle;
   try {
     handle = await open(path, 'r');
@@ -142,6 +145,11 @@ export async function checkArrowFile(path: string, expectedTable: string, requir
     if (size < MIN_FILE_BYTES || !bytesEqual(tail, 0, MAGIC)) {
       throw new InputError(path, '', 'a complete Arrow table file', `a truncated file (${size} bytes, no closing footer)`);
     }
+    verifyArrowStructure(path, (offset, length) => {
+      const buffer = new Uint8Array(length);
+      readSync(handle.fd, buffer, 0, length, offset);
+      return buffer;
+    }, size);
     let schema: Schema;
     try {
       const reader = await RecordBatchReader.from(handle);
@@ -152,6 +160,7 @@ export async function checkArrowFile(path: string, expectedTable: string, requir
       throw new InputError(path, '', 'a readable Arrow table file', `a damaged file (${reason.slice(0, 120)})`);
     }
     checkSchema(path, schema, expectedTable, requiredColumns);
+    return schema;
   } finally {
     await handle.close();
   }

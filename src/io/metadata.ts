@@ -20,6 +20,8 @@ export interface RunProvenance {
   engineReason?: string;
   /** "K/N" (1-based K) of the shard this run covered. */
   shard: string;
+  /** For a run with --refine: JSON {key, points} of the refinement (absent otherwise). */
+  refine?: string;
 }
 
 /** Schema metadata of a table. */
@@ -32,6 +34,7 @@ export function tableMetadata(table: string, p: RunProvenance): Map<string, stri
     ...(p.engineReason ? [[`${META_PREFIX}engine_reason`, p.engineReason] as [string, string]] : []),
     [`${META_PREFIX}shard`, p.shard],
     [`${META_PREFIX}scenario`, p.scenario],
+    ...(p.refine ? [[`${META_PREFIX}refine`, p.refine] as [string, string]] : []),
   ]);
 }
 

@@ -44,15 +44,20 @@ export function decodeData(v: unknown): unknown {
   if (v === null || typeof v !== 'object') return v;
   if (Array.isArray(v)) return v.map(decodeData);
   const o = v as Record<string, unknown>;
-  if (typeof o.$num === 'string') return decodeNumber(o.$num);
+  if (typeof o.$num === 'string') {
+    if (!['NaN', 'Infinity', '-Infinity', '-0'].includes(o.$num)) throw new Error(`plain data: unknown number tag ${o.$num}`);
+    return decodeNumber(o.$num);
+  }
   if (typeof o.$function === 'string') {
     const name = o.$function;
     return () => { throw new Error(`${name} is not available in merged results`); };
   }
   if (typeof o.$typed === 'string' && Array.isArray(o.values)) {
-    const Ctor = TYPED[o.$typed as TypedName];
+    const Ctor = Object.hasOwn(TYPED, o.$typed) ? TYPED[o.$typed as TypedName] : undefined;
     if (!Ctor) throw new Error(`plain data: unknown array type ${o.$typed}`);
-    return Ctor.from(o.values.map((x) => decodeData(x) as number));
+    const values = o.values.map((x) => decodeData(x));
+    if (values.some((x) => typeof x !== 'number')) throw new Error('plain data: a typed array of something other than numbers');
+    return Ctor.from(values as number[]);
   }
   const out: Record<string, unknown> = {};
   for (const [k, x] of Object.entries(o)) out[k] = decodeData(x);

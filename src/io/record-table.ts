@@ -7,6 +7,10 @@
 import { readFileSync, statSync } from 'node:fs';
 import { tableFromIPC, Type, type Table, type Vector } from 'apache-arrow';
 import { InputError } from '../errors.ts';
+import { verifyArrowBytes } from './arrow-verify.ts';
+
+/** Largest sample magnitude accepted (the signal range of scenarios: processing then stays finite). */
+export const MAX_SAMPLE = 1e100;
 
 /** The records of a table, validated: row r's samples are `row(r, out)`. */
 export interface RecordColumn {
@@ -27,6 +31,17 @@ export function readArrowTable(path: string): Table {
     if (e instanceof InputError) throw e;
     const code = (e as NodeJS.ErrnoException).code;
     throw new InputError(path, '', 'an Arrow table file', code === 'ENOENT' ? 'no such file' : `an unreadable file (${code ?? 'error'})`);
+  }
+  // a file (magic at both ends) or a stream; bounds on its metadata before apache-arrow reads it
+  const magic = [0x41, 0x52, 0x52, 0x4f, 0x57, 0x31];
+  const isFile = bytes.length >= 18 && magic.every((m, i) => bytes[i] === m) && magic.every((m, i) => bytes[bytes.length - 6 + i] === m);
+  if (magic.every((m, i) => bytes[i] === m) && !isFile) throw new InputError(path, '', 'a complete Arrow table file', `a truncated file (${bytes.length} bytes, no closing footer)`);
+  try {
+    verifyArrowBytes(path, bytes, !isFile);
+  } catch (e) {
+    // not a file, and not a stream either: say what was expected
+    if (!isFile && e instanceof InputError) throw new InputError(path, '', 'an Arrow IPC file (.arrow) with a column of sample lists', 'something that is not an Arrow table');
+    throw e;
   }
   try {
     const table = tableFromIPC(bytes);
@@ -70,7 +85,7 @@ export function recordColumn(path: string, table: Table, name: string): RecordCo
   });
   let samples = -1;
   const rowStart: { chunk: number; offset: number }[] = [];
-  chunks.forEach(({ data }, c) => {
+  chunks.forEach(({ data, values, start }, c) => {
     for (let i = 0; i < data.length; i++) {
       let begin: number, end: number;
       if (type.typeId === Type.FixedSizeList) {
@@ -81,6 +96,14 @@ export function recordColumn(path: string, table: Table, name: string): RecordCo
         const offsets = data.valueOffsets as Int32Array;
         begin = offsets[data.offset + i]!;
         end = offsets[data.offset + i + 1]!;
+      }
+      // a damaged file may point outside its values: refuse rather than read past them
+      if (!(Number.isInteger(begin) && Number.isInteger(end) && begin >= 0 && end >= begin && start + end <= values.length)) {
+        throw new InputError(path, at, 'records that lie inside the column\'s values', `row ${rowStart.length} pointing at samples [${begin}, ${end}) of ${values.length - start}`);
+      }
+      for (let k = begin; k < end; k++) {
+        const x = values[start + k]!;
+        if (!(Math.abs(x) <= MAX_SAMPLE)) throw new InputError(path, at, `finite samples of magnitude at most ${MAX_SAMPLE}`, `${x} in row ${rowStart.length}`);
       }
       const length = end - begin;
       if (samples < 0) samples = length;

@@ -27,6 +27,14 @@ export const EXACT_SECONDS_PER_SHOT = 2e-7;
 export const EXACT_SECONDS_PER_OUTPUT = 2e-8;
 /** Conservative cost of one hidden-state jump (exponential draw, table walk), in seconds. */
 export const SECONDS_PER_JUMP = 2e-7;
+/**
+ * Fixed costs, in CPU seconds (measured on the loaded 2-core machine, rounded up): a run (the
+ * scenario, the output folder, the tables and their checksums) and each point (compiling its
+ * tables, calibrating, its analytic budget and noise prediction, finishing its summary). They
+ * dominate small runs, which are estimated honestly only with them.
+ */
+export const RUN_SECONDS = 0.05;
+export const POINT_SECONDS = 0.006;
 /** Memory of the process itself (Node, modules, tables of the engine), bytes. */
 export const BASE_PROCESS_BYTES = 160 * 2 ** 20;
 /** Extra memory of each worker thread (its own heap and modules), bytes. */
@@ -40,6 +48,12 @@ export const SHOT_ROW_BYTES = 48.25;
 export const ARROW_BATCH_OVERHEAD_BYTES = 1024;
 /** Size allowance of summary.arrow + budget.arrow + run.json per sweep point, bytes. */
 export const SMALL_TABLES_BYTES_PER_POINT = 64 * 1024;
+/**
+ * Size allowance of report.html: its plots (SVG) and tables, a few hundred kilobytes for the
+ * demo sweep, plus its table of every point. Counted so that a full disk is found before the run.
+ */
+export const REPORT_BYTES = 4 * 2 ** 20;
+export const REPORT_BYTES_PER_POINT = 4 * 1024;
 
 /** Kept raw or processed records (traces.arrow), when asked for. */
 export interface TraceEstimate {
@@ -60,8 +74,10 @@ export function keptTracesEstimate(s: Scenario, kind: 'raw' | 'baseband'): Trace
 export interface EstimateOptions {
   /** Whether shots.arrow is written (default true). */
   shotsTable?: boolean;
-  /** Worker threads running batches at once (default 1: in-process). */
+  /** Threads running batches at once (default 1: in-process). */
   workers?: number;
+  /** Whether those threads are worker threads even when there is one (default: only when more than one). */
+  pool?: boolean;
   /** Only part K of N of every point's scored shots. */
   shard?: { index: number; count: number };
   /** Kept traces, if any. */
@@ -70,6 +86,8 @@ export interface EstimateOptions {
   samplesPerSecond?: number;
   /** The engine that will run (default 'traces'): the exact engine costs per shot, not per sample. */
   engine?: 'exact' | 'traces';
+  /** Whether report.html is written (default false). */
+  report?: boolean;
 }
 
 /** The estimate, with the parts that make it up (for the message). */
@@ -79,6 +97,8 @@ export interface RunEstimate {
   seconds: number;
   /** Samples synthesised in total (calibration + scored, every point). */
   samples: number;
+  /** The part of `seconds` that does not grow with the shots (RUN_SECONDS, POINT_SECONDS per point). */
+  fixedSeconds: number;
   /** Named parts of the memory estimate, bytes. */
   memory: Record<string, number>;
   /** Named parts of the disk estimate, bytes. */
@@ -112,7 +132,7 @@ function jumpsPerRecord(s: Scenario): number {
 export function estimateRun(scenarios: readonly Scenario[], o: EstimateOptions = {}): RunEstimate {
   const workers = Math.max(1, o.workers ?? 1);
   const rate = o.samplesPerSecond ?? CONSERVATIVE_SAMPLES_PER_SECOND;
-  const memory: Record<string, number> = { process: BASE_PROCESS_BYTES, workers: workers > 1 ? workers * WORKER_BYTES : 0 };
+  const memory: Record<string, number> = { process: BASE_PROCESS_BYTES, workers: workers > 1 || o.pool ? workers * WORKER_BYTES : 0 };
   const disk: Record<string, number> = {};
   let compiled = 0, calibration = 0, batches = 0, rows = 0, arrowBatches = 0, samples = 0, seconds = 0;
   for (const s of scenarios) {
@@ -151,8 +171,10 @@ export function estimateRun(scenarios: readonly Scenario[], o: EstimateOptions =
   if (o.shotsTable ?? true) disk.shots = rows * SHOT_ROW_BYTES + arrowBatches * ARROW_BATCH_OVERHEAD_BYTES;
   if (o.traces) disk.traces = scenarios.length * o.traces.shots * o.traces.valuesPerShot * o.traces.bytesPerValue;
   disk.tables = scenarios.length * SMALL_TABLES_BYTES_PER_POINT;
+  if (o.report) disk.report = REPORT_BYTES + scenarios.length * REPORT_BYTES_PER_POINT;
   const sum = (r: Record<string, number>) => Object.values(r).reduce((a, b) => a + b, 0);
-  return { memoryBytes: sum(memory), diskBytes: sum(disk), seconds: seconds / workers, samples, memory, disk };
+  const fixedSeconds = RUN_SECONDS + scenarios.length * POINT_SECONDS;
+  return { memoryBytes: sum(memory), diskBytes: sum(disk), seconds: seconds / workers + fixedSeconds, fixedSeconds, samples, memory, disk };
 }
 
 /** "1.5 GiB", "820 MiB", "12 kiB", "300 B". */

@@ -19,6 +19,7 @@ import { compilePoint, withWeights, type CompiledPoint } from '../engine/compile
 import type { ScoredPipeline } from '../classify/score.ts';
 import { SEED_BLOCK } from '../random/streams.ts';
 import type { SweepPoint } from './sweep-point.ts';
+import { ScenarioProblem } from '../errors.ts';
 
 export interface PointResult {
   index: number;
@@ -128,6 +129,15 @@ export function addTalliedBatch(r: PointResult, b: TalliedBatch): void {
 export function finishPoint(r: PointResult): void {
   const sc = r.scenario;
   r.tallies = r.tallyStacks.map((stack) => foldStack(stack, sc.states.length, sc.outcomes.length));
+  // the measured values' moments are finite whenever the scenario is inside its bounds: anything
+  // else stops the point here, naming the pipeline, rather than leaving NaN in its tables
+  r.tallies.forEach((t, p) => t.clean.forEach((m, s) => {
+    if (m.n > 0 && !(Number.isFinite(m.mean) && Number.isFinite(m.m2))) {
+      const problem = new ScenarioProblem(['pipelines', p], 'finite integrated values (a value of the scenario is beyond what the arithmetic holds)', `a mean ${m.mean} and spread ${m.m2} for state "${sc.states[s]!.name}"`);
+      problem.point = r.index;
+      throw problem;
+    }
+  }));
   r.summaries = r.compiled.pipelines.map((p, i) => summarise(
     p.spec.name, sc.states.map((s) => s.name), sc.states.map((s) => s.outcome), sc.prepare,
     r.tallies[i]!, r.budgets[i]!, r.calibrations[i]!.rule.threshold, r.calibrations[i]!.rule.highIsOne,

@@ -3,12 +3,13 @@
  * the engine it names and posts the ShotBatch back with its typed arrays transferred.
  */
 import { parentPort } from 'node:worker_threads';
-import { InputError } from '../errors.ts';
+import { InputError, ScenarioProblem } from '../errors.ts';
 import { transferables, type FromWorker, type ToWorker, type WireError } from './pool.ts';
 import { TaskRunner } from './task-runner.ts';
 
 function wire(e: unknown): WireError {
   if (e instanceof InputError) return { name: 'InputError', message: e.message, stack: e.stack, file: e.file, path: e.path };
+  if (e instanceof ScenarioProblem) return { name: 'ScenarioProblem', message: e.message, problem: { path: [...e.path], expected: e.expected, found: e.found, point: e.point } };
   if (e instanceof Error) return { name: e.name, message: e.message, stack: e.stack };
   return { name: 'Error', message: String(e) };
 }

@@ -12,7 +12,7 @@ import { availableParallelism } from 'node:os';
 import { createRequire } from 'node:module';
 import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
-import { InputError } from '../errors.ts';
+import { InputError, ScenarioProblem } from '../errors.ts';
 import type { ShotBatch } from '../engine/trace/batch.ts';
 import type { BatchTask, TaskList } from './batches.ts';
 import type { TalliedBatch } from '../engine/exact/fused.ts';
@@ -36,6 +36,8 @@ export interface WireError {
   stack?: string;
   file?: string;
   path?: string;
+  /** A ScenarioProblem's fields. */
+  problem?: { path: (string | number)[]; expected: string; found?: string; point: number | null };
 }
 
 /** Messages from a worker to the main thread. */
@@ -73,6 +75,11 @@ function workerModule(): { module: string; tsx: string | null } {
 
 /** Rebuilds an error that crossed from a worker (an InputError stays one, for the CLI's exit code 2). */
 export function reviveError(w: WireError): Error {
+  if (w.name === 'ScenarioProblem' && w.problem) {
+    const p = new ScenarioProblem(w.problem.path, w.problem.expected, w.problem.found);
+    p.point = w.problem.point;
+    return p;
+  }
   const e = w.name === 'InputError' ? new InputError(w.file ?? '', w.path ?? '', 'x') : new Error(w.message);
   e.message = w.message;
   if (w.name !== 'InputError') e.name = w.name;

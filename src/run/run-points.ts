@@ -15,6 +15,7 @@ import type { PointPlan } from '../engine/point-plan.ts';
 import { inProcessExecutor, type BatchExecutor } from './executor.ts';
 import { addTalliedBatch, finishPoint, setUpPoint, tallyBatch, type PointResult } from './point-result.ts';
 import type { SweepPoint } from './sweep-point.ts';
+import { ScenarioProblem } from '../errors.ts';
 
 export interface RunOptions {
   executor?: BatchExecutor;
@@ -71,8 +72,13 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
   const calibratePending = () => {
     if (pending.length === 0) return;
     const i = pending[0]!.point;
-    const uncalibrated = compilePoint(points[i]!.scenario);
-    results.push(setUpPoint(i, points[i]!, calibrate(uncalibrated, pending, uncalibrated), uncalibrated));
+    try {
+      const uncalibrated = compilePoint(points[i]!.scenario);
+      results.push(setUpPoint(i, points[i]!, calibrate(uncalibrated, pending, uncalibrated), uncalibrated));
+    } catch (e) {
+      if (e instanceof ScenarioProblem && e.point === null) e.point = i;
+      throw e;
+    }
     pending = [];
   };
   for await (const b of executor.run(calibrationPlans, calibrationTasks)) {

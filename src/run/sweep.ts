@@ -68,10 +68,11 @@ export function sweepPointAt(
     scenario = resolveScenario(d, file).scenario;
   } catch (e) {
     if (!(e instanceof InputError)) throw e;
+    // the file and key path first, like every message; the point it happened at after the rest
     const where = spec.axes.map((a, i) => `${a.key} = ${describeValue(written[i]!)}`).join(', ');
-    const prefix = e.path ? `${e.file}: ${e.path}: ` : `${e.file}: `;
-    const rest = e.message.startsWith(prefix) ? e.message.slice(prefix.length) : e.message;
-    throw new InputError(`${file} (${label}: ${where})`, e.path, rest);
+    const atPoint = new InputError(e.file, e.path, 'x');
+    atPoint.message = `${e.message} (at ${label}: ${where})`;
+    throw atPoint;
   }
   const parameters: Record<string, number> = {};
   const units: Record<string, string> = {};

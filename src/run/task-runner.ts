@@ -2,6 +2,7 @@
  * Running one batch task with the engine it names, with per-point compiled tables and scratch
  * kept across tasks (shared by the in-process executor and the worker threads).
  */
+import { ScenarioProblem } from '../errors.ts';
 import { makeScratch, simulateBatch, type BatchScratch, type ShotBatch } from '../engine/trace/batch.ts';
 import type { BatchTask } from './batches.ts';
 import { compilePoint, type CompiledPoint } from '../engine/compile-point.ts';
@@ -47,6 +48,16 @@ export class TaskRunner {
   }
 
   run(t: BatchTask): ShotBatch | TalliedBatch {
+    try {
+      return this.runTask(t);
+    } catch (e) {
+      // a problem of the scenario says at which point it showed
+      if (e instanceof ScenarioProblem && e.point === null) e.point = t.point;
+      throw e;
+    }
+  }
+
+  private runTask(t: BatchTask): ShotBatch | TalliedBatch {
     const e = this.entry(t.point);
     if (t.engine === 'exact') {
       e.exact ??= makeExactScratch(e.compiled);

@@ -5,7 +5,8 @@
  */
 import { z } from 'zod';
 import { describeFound } from '../errors.ts';
-import { DIMENSIONS, parseQuantity, quantityAs, unitProblem, UnitSyntaxError, type DimensionName } from './units.ts';
+import { DIMENSIONS, parseQuantity, quantityAs, unitProblem, UnitSyntaxError, type Dimension, type DimensionName } from './units.ts';
+import { magnitudeOf, magnitudeText, PLAIN_MAX, withinMagnitude } from './bounds.ts';
 import { suggestKey } from './suggest.ts';
 
 /** Bounds on a number; exclusive bounds are strict. */
@@ -74,6 +75,12 @@ function readQuantity(
     report(ctx, `${DIMENSIONS[kind].label}${rangeText(range)}`, describeFound(input));
     return undefined;
   }
+  // every quantity reaches arithmetic: its magnitude is bounded by its dimension (bounds.ts)
+  const magnitude = magnitudeOf(kind, DIMENSIONS[kind].dims[read.index]! as Dimension);
+  if (magnitude !== null && !withinMagnitude(read.value, magnitude)) {
+    report(ctx, `${DIMENSIONS[kind].label} ${magnitudeText(magnitude)}`, describeFound(input));
+    return undefined;
+  }
   return read;
 }
 
@@ -135,14 +142,14 @@ export function integer(min: number, max: number = Number.MAX_SAFE_INTEGER, expe
   return z.number({ error }).int({ error }).min(min, { error }).max(max, { error });
 }
 
-/** A plain number within `range`. */
+/** A plain number within `range`, and of magnitude at most PLAIN_MAX (bounds.ts). */
 export function number(range: Range = {}) {
   const expected = `a number${rangeText(range)}`;
   const error = () => expected;
   let schema = z.number({ error });
   if (range.min !== undefined) schema = range.minExclusive ? schema.gt(range.min, { error }) : schema.min(range.min, { error });
   if (range.max !== undefined) schema = range.maxExclusive ? schema.lt(range.max, { error }) : schema.max(range.max, { error });
-  return schema;
+  return schema.refine((x) => Math.abs(x) <= PLAIN_MAX, { error: () => `${expected} of magnitude at most ${PLAIN_MAX}` });
 }
 
 /** A probability, a plain number in [0, 1]. */

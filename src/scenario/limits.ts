@@ -9,6 +9,7 @@ import type { ResolveContext } from './context.ts';
 import type { KeyPath } from './issues.ts';
 import { valueAt } from './issues.ts';
 import { makeGrid } from '../signal/grid.ts';
+import { classifierOf } from '../classify/registry.ts';
 
 /** Most samples in one record (one Float64Array of them is 1 GiB). */
 export const MAX_RECORD_SAMPLES = 2 ** 27;
@@ -25,6 +26,12 @@ export const MAX_JUMPS_PER_RECORD = 1e6;
  */
 export const MAX_SIGNAL = 1e100;
 export const MIN_SIGNAL = 1e-100;
+/**
+ * Smallest white noise per sample, relative to the largest level, that a pipeline dividing by the
+ * noise (optimal weights, the likelihood classifier) can estimate: a noise a billion times below
+ * the levels still stands well above their rounding (1e-16 of them).
+ */
+export const MIN_NOISE_TO_LEVEL = 1e-9;
 
 function signalInRange(x: number): boolean {
   const a = Math.abs(x);
@@ -76,6 +83,21 @@ export function checkLimits(s: Scenario, ctx: ResolveContext): void {
   if (s.signal.white && !signalInRange(s.signal.white.density * gain * Math.sqrt(s.timing.sampleRate / 2))) {
     ctx.fail(writtenKey(ctx, ['signal', 'noise', 'white'], ['density', 'perSample']), `white noise whose σ per sample is ${range}`);
   }
+  // optimal weights and the likelihood classifier divide by the noise: a record without any cannot be calibrated
+  const largest = Math.max(...s.states.map((st) => Math.hypot(st.level.re, st.level.im)));
+  const noisy = (s.signal.white !== null && s.signal.white.density > 0) || s.signal.components || (s.signal.sources?.length ?? 0) > 0 || s.sensor !== undefined;
+  s.pipelines.forEach((p, i) => {
+    const classifier = classifierOf(p).needsNoise;
+    const divides = p.weights === 'optimal' ? 'optimal weights divide by the noise covariance' : classifier;
+    if (!divides) return;
+    const at: KeyPath = [...(valueAt(ctx.raw, ['pipelines']) === undefined ? ['processing'] : ['pipelines', i]), p.weights === 'optimal' ? 'weights' : 'classifier'];
+    if (!noisy) ctx.fail(at, `a record with noise (${divides}; set signal.noise)`, 'a scenario without noise');
+    // white noise alone, far below the levels, is lost in their rounding: the estimate is singular
+    const sigma = (s.signal.white?.density ?? 0) * Math.sqrt(s.timing.sampleRate / 2);
+    if (sigma < MIN_NOISE_TO_LEVEL * largest && !s.signal.components && (s.signal.sources?.length ?? 0) === 0 && s.sensor === undefined) {
+      ctx.fail(at, `white noise of at least ${MIN_NOISE_TO_LEVEL} of the largest level per sample (${divides}, which a noise lost in the levels' rounding makes singular)`, `σ = ${sigma.toPrecision(3)} per sample for levels up to ${largest.toPrecision(3)}`);
+    }
+  });
   s.pipelines.forEach((p, i) => {
     if (p.threshold.method === 'fixed' && !signalInRange(p.threshold.value)) {
       const at: KeyPath = valueAt(ctx.raw, ['pipelines']) === undefined ? ['processing', 'threshold', 'fixed'] : ['pipelines', i, 'threshold', 'fixed'];

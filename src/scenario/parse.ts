@@ -3,6 +3,7 @@
  */
 import { parseAllDocuments } from 'yaml';
 import { InputError } from '../errors.ts';
+import { duplicateJsonKey } from './json-keys.ts';
 
 /** Most YAML alias expansions allowed in one file (refuses "billion laughs" files quickly). */
 export const MAX_ALIAS_COUNT = 100;
@@ -108,11 +109,19 @@ export function parseScenarioText(text: string, file: string): unknown {
 
 function parseBody(body: string, file: string): unknown {
   if (/^\s*[{[]/.test(body)) {
+    let parsed: unknown;
     try {
-      return JSON.parse(body);
+      parsed = JSON.parse(body);
     } catch (e) {
       if (e instanceof RangeError) throw e;
       // Not JSON after all: YAML flow style reads the same start; fall through.
+      parsed = undefined;
+    }
+    if (parsed !== undefined) {
+      // JSON.parse keeps the last of two equal keys; YAML refuses them, and so does this tool
+      const twice = duplicateJsonKey(body);
+      if (twice) throw new InputError(file, twice.path, 'each key once in a mapping', `"${twice.key.slice(0, 40)}" twice`);
+      return parsed;
     }
   }
   const docs = parseAllDocuments(body, { prettyErrors: true, uniqueKeys: true, strict: true, schema: 'core', logLevel: 'error' });

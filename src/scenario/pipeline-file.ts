@@ -23,6 +23,7 @@ import { parseScenarioText } from './parse.ts';
 import { zodErrorToInputError, fallbackMessage } from './issues.ts';
 import { ResolveContext } from './context.ts';
 import { label, name, number, quantity, section, text } from './fields.ts';
+import { DIMENSION_RANGES, withinMagnitude } from './bounds.ts';
 import { chainToPipeline, checkPipelines, MAIN_PIPELINE, pipelineChainShape } from './sections/processing.ts';
 import type { PipelineSpec, TimingSpec } from './types.ts';
 import { canonicalJson } from './canonical.ts';
@@ -94,18 +95,28 @@ export interface ResolvedAnalysis {
 export function resolveAnalysis(a: AnalyzeFile, facts: TableFacts, source: string): ResolvedAnalysis {
   const d = a.doc;
   const ctx = new ResolveContext(a.file, a.raw);
+  // a value the records' file (its attributes or metadata) or an option gave is refused naming the records and the value
+  const fromTable = (key: string, expected: string, value: number): never => {
+    throw new InputError(source, key, `${expected} (or set it with an option or in a pipeline file)`, String(value));
+  };
   const sampleRate = d.sampleRate ?? facts.sampleRate;
   if (sampleRate === null) {
     throw new InputError(source, 'sample rate', 'a sample rate: --sample-rate, sampleRate in a pipeline file, or the file\'s own (a sample_rate attribute in HDF5, singleshot.sample_rate in Arrow or Parquet metadata)', 'none of them');
   }
+  const frequency = DIMENSION_RANGES.frequency, angle = DIMENSION_RANGES.angle;
+  if (d.sampleRate === undefined && !(sampleRate > 0 && withinMagnitude(sampleRate, frequency))) fromTable('sample_rate', `a sample rate between ${frequency.min} and ${frequency.max} Hz`, sampleRate);
   const carrierFrequency = d.carrier === undefined ? facts.carrierFrequency ?? 0 : d.carrier === 'none' ? 0 : d.carrier.frequency;
   const carrierPhase = d.carrier === undefined ? facts.carrierPhase ?? 0 : d.carrier === 'none' ? 0 : d.carrier.phase ?? 0;
+  if (d.carrier === undefined && !(carrierFrequency >= 0 && carrierFrequency < sampleRate / 2)) fromTable('carrier_frequency', `a carrier frequency from 0 to half the sample rate (${sampleRate / 2} Hz)`, carrierFrequency);
+  if (d.carrier === undefined && !withinMagnitude(carrierPhase, angle)) fromTable('carrier_phase', `an angle of magnitude at most ${angle.max} rad`, carrierPhase);
   if (!(carrierFrequency < sampleRate / 2)) ctx.fail(['carrier', 'frequency'], `a frequency below half the sample rate (${sampleRate / 2} Hz)`);
   const recordLength = facts.samples / sampleRate;
   const windowStart = d.recordWindow?.start ?? facts.windowStart ?? 0;
   const windowLength = d.recordWindow?.length ?? (d.recordWindow?.start !== undefined ? recordLength - windowStart : facts.windowLength ?? recordLength - windowStart);
   if (!(windowStart >= 0 && windowLength > 0 && windowStart + windowLength <= recordLength * (1 + 1e-9))) {
-    ctx.fail(['recordWindow'], `a window inside the ${facts.samples}-sample record (${recordLength} s)`, `start ${windowStart} s, length ${windowLength} s`);
+    const inside = `a window inside the ${facts.samples}-sample record (${recordLength} s)`;
+    if (d.recordWindow === undefined) fromTable(facts.windowStart !== null && !(windowStart >= 0 && windowStart < recordLength) ? 'window_start' : 'window_length', inside, facts.windowStart !== null && !(windowStart >= 0 && windowStart < recordLength) ? windowStart : windowLength);
+    ctx.fail(['recordWindow'], inside, `start ${windowStart} s, length ${windowLength} s`);
   }
   const timing: TimingSpec = { sampleRate, recordLength, windowStart, windowLength, shotPeriod: recordLength };
   const pipeline = chainToPipeline(d.name ?? MAIN_PIPELINE, d, [], [], ctx);

@@ -73,6 +73,16 @@ describe('analyze refuses malformed tables with exit 2 and a message naming the 
       expect: /no-rate\.arrow: sample rate: expected a sample rate: --sample-rate, sampleRate in a pipeline file, or the file's own .*, found none of them/,
     },
     {
+      what: 'a NaN sample',
+      file: () => table('nan', { record: fixedList(rows(4, 8).map((r, i) => (i === 2 ? r.map((x, k) => (k === 5 ? NaN : x)) : r))) }),
+      expect: /column "record": expected finite samples of magnitude at most 1e\+100, found NaN in row 2/,
+    },
+    {
+      what: 'an infinite sample',
+      file: () => table('inf', { record: fixedList(rows(4, 8).map((r, i) => (i === 1 ? r.map((x, k) => (k === 0 ? -Infinity : x)) : r))) }),
+      expect: /column "record": expected finite samples of magnitude at most 1e\+100, found -Infinity in row 1/,
+    },
+    {
       what: 'not an Arrow file',
       file: () => { const p = join(dir, 'text.arrow'); writeFileSync(p, 'hello'); return p; },
       expect: /text\.arrow: expected an Arrow IPC file/,

@@ -48,7 +48,7 @@ describe('merge refuses what cannot make the unsharded run', () => {
     ['a shard from another scenario', ['part1', 'scenario2', 'part3'], /scenario2\/run\.json: scenario: expected the scenario of .*part1, found a different scenario: a shard of another run/],
     ['a shard of another split', ['part1', 'half2', 'part3'], /half2\/run\.json: shard: expected a part of 3 like .*part1 \(shard 1\/3\), found shard 2\/2/],
     ['an unfinished shard', ['part1', 'unfinished', 'part3'], /unfinished\/run\.json: complete: expected a finished run, found complete: false/],
-    ['a shard without tallies', ['part1', 'untallied', 'part3'], /untallied\/tallies\.json: not found/],
+    ['a shard without tallies', ['part1', 'untallied', 'part3'], /untallied\/tallies\.json: expected a file run\.json lists, found no such file/],
   ])('%s → exit 2 with one line naming it', async (_what, parts, message) => {
     const r = await runCli(['merge', ...parts.map(dir), '--out', dir(`out-${parts.join('-')}`), '--no-report']);
     expect(r.code, r.stderr).toBe(2);

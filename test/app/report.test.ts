@@ -107,7 +107,11 @@ describe('report of a swept run', () => {
   it('draws the histogram from re-simulated shots when the run kept no shots table', async () => {
     const bare = join(dir, 'bare');
     mkdirSync(bare, { recursive: true });
-    for (const f of ['run.json', 'summary.arrow', 'budget.arrow']) copyFileSync(join(runDir, f), join(bare, f));
+    for (const f of ['summary.arrow', 'budget.arrow']) copyFileSync(join(runDir, f), join(bare, f));
+    // run.json of a run without shots.arrow (--no-shots-table): it neither lists nor checks one
+    const manifest = JSON.parse(readFileSync(join(runDir, 'run.json'), 'utf8'));
+    delete manifest.sha256['shots.arrow'];
+    writeFileSync(join(bare, 'run.json'), JSON.stringify({ ...manifest, files: manifest.files.filter((f: string) => f !== 'shots.arrow') }));
     const built = await buildReport(bare);
     expect(built.plots).toBe(6);
     expect(built.html).toContain('re-simulated on the point&#39;s auxiliary stream');

@@ -1,7 +1,8 @@
 /**
  * Shards: `run --shard K/N` for every K, merged, gives the same bytes as the unsharded run —
  * for both engines, a three-point sweep with two pipelines (comparisons.arrow), and shard counts
- * that do not divide the batches evenly (some shards get no batch of a point).
+ * that do not divide the batches evenly. A part that would score no shot at all (more parts than
+ * batches) is refused.
  */
 import { mkdtempSync, readFileSync, readdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -38,10 +39,15 @@ async function shardedAndWhole(engine: EngineRequest, shards: number, report = f
 }
 
 describe('shards merged equal the unsharded run', () => {
+  it('refuses a part that would score no shot (7 parts of 5 batches)', async () => {
+    await expect(runToDirectory({ scenarioPath: SWEEP, outDir: fresh('empty'), force: true, report: false, shard: { index: 0, count: 7 } }))
+      .rejects.toThrow(/--shard: expected a part that scores shots .* found part 1 of 7, which would score none/);
+  });
+
   it.each([
     ['exact', 3, true],
     ['traces', 4, false],
-    ['exact', 7, false],
+    ['exact', 5, false],
   ] as const)('engine %s, %d shards: every table byte-identical', async (engine, shards, report) => {
     const { whole, merged } = await shardedAndWhole(engine, shards, report);
     const files = tablesOf(whole);

@@ -5,6 +5,7 @@
  * cannot. (Worker counts and shard splits are tested by the scale tests.)
  */
 import { spawnSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -114,20 +115,31 @@ describe('singleshot rerun', () => {
     expect(r.provenance).toMatchObject({ seed: '11', shard: '2/3', engine: 'traces' });
   });
 
-  it('CLI: exit 0 and a verdict on a match; exit 1 naming the file and byte on a mismatch', async () => {
+  it('CLI: exit 0 and a verdict on a match; exit 2 for a damaged file; exit 1 naming the file and byte on a mismatch', async () => {
     const dir = await run(TINY);
     const ok = await runMain(['rerun', dir]);
     expect(ok.code, ok.err).toBe(0);
     expect(ok.out).toMatch(/shots\.arrow: identical/);
     expect(ok.out).toMatch(/reproduced — every table is byte-identical \(seed 11, shard 1\/1, engine traces\)/);
-    // damage one value in the middle of shots.arrow (still a readable Arrow file)
+    // damage one integrated value of shots.arrow (its lowest mantissa bit: still a readable Arrow file)
     const path = join(dir, 'shots.arrow');
     const bytes = readFileSync(path);
-    const at = Math.floor(bytes.length / 2);
+    const value = tableFromIPC(bytes).getChild('value')!.get(100) as number;
+    const at = bytes.indexOf(Buffer.from(new Float64Array([value]).buffer));
+    expect(at).toBeGreaterThan(0);
     bytes[at] = bytes[at]! ^ 0x01;
     writeFileSync(path, bytes);
+    const damaged = await runMain(['rerun', dir]);
+    expect(damaged.code).toBe(2);
+    expect(damaged.err).toMatch(/shots\.arrow: expected the bytes .*run\.json records .*one of the two was changed or damaged/);
+    // the same change with its checksum recorded (a folder whose files are as run.json says, but
+    // not what the scenario and seed make): the rerun finds the difference
+    const manifestPath = join(dir, 'run.json');
+    const m = JSON.parse(readFileSync(manifestPath, 'utf8'));
+    m.sha256['shots.arrow'] = createHash('sha256').update(bytes).digest('hex');
+    writeFileSync(manifestPath, JSON.stringify(m, null, 2));
     const bad = await runMain(['rerun', dir]);
-    expect(bad.code).toBe(1);
+    expect(bad.code, bad.err).toBe(1);
     expect(bad.out).toContain(`shots.arrow: DIFFERENT (${bytes.length} vs ${bytes.length} bytes, first difference at byte ${at})`);
     expect(bad.out).toMatch(/NOT reproduced — 1 of \d+ files differ/);
   });

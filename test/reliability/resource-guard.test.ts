@@ -7,7 +7,7 @@ import { mkdtempSync, existsSync, rmSync, statSync, writeFileSync } from 'node:f
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it, vi } from 'vitest';
-import { estimateRun, formatBytes, formatDuration, SHOT_ROW_BYTES } from '../../src/run/estimate.ts';
+import { estimateRun, formatBytes, formatDuration, REPORT_BYTES, SHOT_ROW_BYTES, WORKER_BYTES, type RunEstimate } from '../../src/run/estimate.ts';
 import { freeDiskBytes, guardResources, ResourceError } from '../../src/app/resource-guard.ts';
 import { runToDirectory } from '../../src/app/run-to-directory.ts';
 import { loadScenarioFile, loadScenarioText } from '../../src/scenario/load.ts';
@@ -41,11 +41,26 @@ describe('estimateRun', () => {
     const e2 = estimateRun([{ ...scenario, shots: scenario.shots * 10 }]);
     const e3 = estimateRun([{ ...scenario, calibrationShots: scenario.calibrationShots * 100 }]);
     expect(e2.diskBytes).toBeGreaterThan(5 * e1.diskBytes);
-    expect(e2.seconds).toBeGreaterThan(5 * e1.seconds);
+    expect(e2.seconds - e2.fixedSeconds).toBeGreaterThan(5 * (e1.seconds - e1.fixedSeconds));
     expect(e3.memoryBytes).toBeGreaterThan(e1.memoryBytes);
     expect(estimateRun([scenario], { shotsTable: false }).disk.shots).toBeUndefined();
     expect(estimateRun([scenario], { workers: 4 }).memoryBytes).toBeGreaterThan(e1.memoryBytes);
   });
+
+  it('counts report.html on disk when the run writes one, so a full disk is found before the run', async () => {
+    const { scenario } = await loadScenarioFile(TINY);
+    expect(estimateRun([scenario], { report: true }).disk.report).toBeGreaterThanOrEqual(REPORT_BYTES);
+    expect(estimateRun([scenario]).disk.report).toBeUndefined();
+  });
+
+  it('counts only the worker threads that will start (never more than there are scored batches)', async () => {
+    const seen: RunEstimate[] = [];
+    const outDir = mkdtempSync(join(tmpdir(), 'singleshot-threads-'));
+    // tiny has 2 scored batches: 64 workers asked for, 2 start
+    await runToDirectory({ scenarioPath: TINY, outDir: join(outDir, 'out'), report: false, workers: 64, engine: 'traces', onEstimate: (e) => seen.push(e), free: { memoryBytes: 2 ** 40, diskBytes: 2 ** 40 } });
+    expect(seen[0]!.memory.workers).toBe(2 * WORKER_BYTES);
+    rmSync(outDir, { recursive: true, force: true });
+  }, 60_000);
 
   it('predicts the size of shots.arrow within 25 % (rows × bytes per row + batch overhead)', async () => {
     const dir = join(base, 'size');
@@ -74,7 +89,7 @@ describe('estimateRun', () => {
 });
 
 describe('guardResources', () => {
-  const estimate = { memoryBytes: 8 * 2 ** 30, diskBytes: 3 * 2 ** 30, seconds: 600, samples: 1e10, memory: { calibration: 7 * 2 ** 30, process: 2 ** 30 }, disk: { shots: 3 * 2 ** 30 } };
+  const estimate = { memoryBytes: 8 * 2 ** 30, diskBytes: 3 * 2 ** 30, seconds: 600, fixedSeconds: 0.1, samples: 1e10, memory: { calibration: 7 * 2 ** 30, process: 2 ** 30 }, disk: { shots: 3 * 2 ** 30 } };
 
   it('refuses more memory than is free, showing the estimate and its biggest parts', () => {
     expect(() => guardResources('s.yaml', estimate, { memoryBytes: 2 ** 30, diskBytes: 2 ** 40 }, false))
@@ -126,7 +141,7 @@ describe('runs that do not fit are refused before anything is written', () => {
     ['a 10^12-sample record', 'timing: { sampleRate: 1 THz, recordLength: 1 s }', /timing\.recordLength: expected a record of at most/],
     ['2^33 shots', 'shots: 8589934592', /shots: expected at most 4294967296 shots per point/],
     ['a lifetime of 1 fs', 'transitions: [{from: b, to: a, lifetime: 1 fs}]', /transitions\[0\]\.lifetime: expected rates out of "b" giving at most 1000000 expected jumps per record/],
-    ['a level of 1e200', 'states: [{name: a, level: 0, outcome: 0}, {name: b, level: 1e200, outcome: 1}]', /states\[1\]\.level: expected a level between 1e-100 and 1e\+100/],
+    ['a level of 1e200', 'states: [{name: a, level: 0, outcome: 0}, {name: b, level: 1e200, outcome: 1}]', /states\[1\]\.level: expected a (signal )?level (of magnitude )?between 1e-100 and 1e\+?100/],
     ['70 states', `states: [${Array.from({ length: 70 }, (_, i) => `{name: s${i}, level: ${i % 2}, outcome: ${i % 2}}`).join(', ')}]`, /states: expected a list of at most 64 states/],
   ])('hard limits are validation errors: %s', (_what, line, message) => {
     expect(() => loadScenarioText(tinyText(line), 'limits.yaml')).toThrow(message);

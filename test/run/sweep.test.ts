@@ -108,7 +108,7 @@ describe('expansion', () => {
   });
 
   it('says which point failed', () => {
-    expect(errorOf(smallScenario(GRID_3x4.replace('"4 us"', '"40 us"')))).toMatch(/^test\.yaml \(sweep point 8 of 12: timing\.window\.length = "40 us", transitions\[0\]\.lifetime = "0\.00005 s"\): /);
+    expect(errorOf(smallScenario(GRID_3x4.replace('"4 us"', '"40 us"')))).toMatch(/^test\.yaml: timing\.window\.length: .* \(at sweep point 8 of 12: timing\.window\.length = "40 us", transitions\[0\]\.lifetime = "0\.00005 s"\)$/);
   });
 });
 

@@ -1,6 +1,7 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { checkScenarioFile } from '../../src/app/check.ts';
 import { loadScenarioFile } from '../../src/scenario/load.ts';
 import { InputError } from '../../src/errors.ts';
 
@@ -26,7 +27,8 @@ describe('malformed scenarios are refused with a one-line message naming the key
 
   it.each(cases)('$file → $path', async ({ file, path }) => {
     const full = join(DIR, file);
-    const error = await loadScenarioFile(full).then(
+    // what `check` validates: the document and every point of its sweep
+    const error = await checkScenarioFile(full).then(
       () => undefined,
       (e: unknown) => e,
     );

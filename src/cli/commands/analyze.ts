@@ -7,6 +7,7 @@ import { formatProbability, rows } from '../format.ts';
 import { carrierOption, frequency, scaleOption, unitOption, windowOption } from '../quantity-option.ts';
 
 const interval = (x: { rate: number; low: number; high: number }) => `[${formatProbability(x.low)}, ${formatProbability(x.high)}]`;
+import { withInterruptSignals } from '../signals.ts';
 
 /** The readable summary of an analysis. */
 export function formatAnalysis(r: AnalyzeResult, out: string, classifier: string): string {
@@ -80,11 +81,11 @@ export function makeAnalyzeCommand(): Command {
       out: string; pipeline?: string; labels?: string; sampleRate?: number; carrier?: number | 'none'; window?: { start: number; length: number };
       scale?: number; unit?: string; parquet?: boolean; json?: boolean; force?: boolean;
     }) => {
-      const r = await analyzeToDirectory({
+      const r = await withInterruptSignals((signal) => analyzeToDirectory({
         records, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force,
         sampleRate: opts.sampleRate, carrierFrequency: opts.carrier === 'none' ? 0 : opts.carrier, window: opts.window, scale: opts.scale,
-        unit: opts.unit === undefined ? undefined : opts.unit === 'none' ? '' : opts.unit, parquet: opts.parquet,
-      });
+        unit: opts.unit === undefined ? undefined : opts.unit === 'none' ? '' : opts.unit, parquet: opts.parquet, signal,
+      }));
       for (const n of r.notes) process.stderr.write(`note: ${n}\n`);
       if (opts.json) {
         process.stdout.write(JSON.stringify(analysisJson(r, opts.out), (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');

@@ -3,6 +3,7 @@ import { Command } from 'commander';
 import { mergeRuns } from '../../app/merge.ts';
 import { resultToJson } from '../../app/result-json.ts';
 import { formatResult } from '../format.ts';
+import { withInterruptSignals } from '../signals.ts';
 
 export function makeMergeCommand(): Command {
   return new Command('merge')
@@ -14,7 +15,7 @@ export function makeMergeCommand(): Command {
     .option('--verbose', 'print every point of a sweep in full (default: one line per point)')
     .option('--no-report', 'do not write report.html')
     .action(async (dirs: string[], opts: { out: string; force?: boolean; json?: boolean; verbose?: boolean; report: boolean }) => {
-      const { result, files, shards, sweep } = await mergeRuns({ dirs, outDir: opts.out, force: opts.force, report: opts.report });
+      const { result, files, shards, sweep } = await withInterruptSignals((signal) => mergeRuns({ dirs, outDir: opts.out, force: opts.force, report: opts.report, signal }));
       if (opts.json) process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, mergedFrom: shards }, sweep)) + '\n');
       else process.stdout.write(formatResult(result, { sweep, verbose: opts.verbose }) + `\nmerged ${shards.length} shard${shards.length === 1 ? '' : 's'} into ${opts.out}: ${files.join(', ')}\n`);
     });

@@ -1,6 +1,7 @@
 /** `singleshot report DIR`: rebuild report.html of a finished run from its tables alone. */
 import { Command } from 'commander';
-import { writeReport } from '../../app/report.ts';
+import { reportFolder } from '../../app/report.ts';
+import { withInterruptSignals } from '../signals.ts';
 
 /** Makes the `report` command: writes DIR/report.html (or --out FILE) and prints its path. */
 export function makeReportCommand(): Command {
@@ -8,8 +9,9 @@ export function makeReportCommand(): Command {
     .description('rebuild report.html of a finished run from its tables (refuses an unfinished run)')
     .argument('<dir>', 'run folder (with run.json, summary.arrow, budget.arrow)')
     .option('--out <file>', 'where to write the page (default DIR/report.html)')
-    .action(async (dir: string, opts: { out?: string }) => {
-      const { path } = await writeReport(dir, opts.out);
+    .option('--force', 'replace the page if a file is there already (never one of the run\'s tables)')
+    .action(async (dir: string, opts: { out?: string; force?: boolean }) => {
+      const { path } = await withInterruptSignals((signal) => reportFolder({ dir, out: opts.out, force: opts.force, signal }));
       process.stdout.write(`${path}\n`);
     });
 }

@@ -10,6 +10,7 @@ import { withInterruptSignals } from '../signals.ts';
 import { describeEstimate } from '../../app/resource-guard.ts';
 import { defaultWorkers } from '../../run/pool.ts';
 import type { EngineRequest } from '../../engine/choose.ts';
+import { MAX_SHARDS, parseShardText } from '../../io/manifest.ts';
 
 /** Runs longer than this (estimated, seconds) get a note with the estimate on stderr. */
 const ESTIMATE_NOTE_SECONDS = 60;
@@ -42,12 +43,11 @@ export function engineOption(v: string): EngineRequest {
   return v;
 }
 
-/** Parses "K/N" (1 ≤ K ≤ N) into a 0-based shard. */
+/** Parses "K/N" (1 ≤ K ≤ N ≤ MAX_SHARDS) into a 0-based shard. */
 export function shardOption(v: string): { index: number; count: number } {
-  const m = /^(\d+)\/(\d+)$/.exec(v);
-  const k = m ? Number(m[1]) : NaN, n = m ? Number(m[2]) : NaN;
-  if (!m || n < 1 || k < 1 || k > n) throw new InvalidArgumentError(`--shard takes K/N with 1 ≤ K ≤ N, found "${v}"`);
-  return { index: k - 1, count: n };
+  const s = parseShardText(v);
+  if (!s) throw new InvalidArgumentError(`--shard takes K/N with 1 ≤ K ≤ N ≤ ${MAX_SHARDS}, found "${v.slice(0, 40)}"`);
+  return { index: s.k - 1, count: s.n };
 }
 
 export function makeRunCommand(): Command {

@@ -13,12 +13,12 @@ import type { PlotSpec } from './svg.ts';
 /** File name of the noise table the report looks for. */
 export const NOISE_TABLE = 'noise.arrow';
 
-/** The spectrum plot and its caption, or a note saying why there is none. */
+/** The spectrum plot and its caption, or a note saying why there is none; only a table run.json lists (`listed`) is read. */
 export function noiseSpectrumView(
-  dir: string, caption = 'One-sided power spectral density of each noise component as the scenario describes it, and their sum.',
+  dir: string, listed: boolean, caption = 'One-sided power spectral density of each noise component as the scenario describes it, and their sum.',
 ): { spec: PlotSpec; caption: string } | { note: string } {
   const path = join(dir, NOISE_TABLE);
-  if (!existsSync(path)) {
+  if (!listed || !existsSync(path)) {
     return { note: 'This run has no noise table: its noise is white only (flat spectrum), and the budget uses that white level. A run whose scenario describes 1/f, telegraph or component noise gets the spectrum of each component here.' };
   }
   const t = readArrowFile(path, '', ['component', 'frequency', 'psd']);

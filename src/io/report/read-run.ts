@@ -3,12 +3,14 @@
  * budget tables, the scenario from their schema metadata, and — streamed batch by batch, only
  * the rows of one point — the integrated values in shots.arrow.
  */
-import { createReadStream, existsSync } from 'node:fs';
+import { createReadStream } from 'node:fs';
 import { join } from 'node:path';
 import { RecordBatchReader, type Table } from 'apache-arrow';
 import { readArrowFile } from '../arrow-read.ts';
 import { InputError } from '../../errors.ts';
 import { readManifest } from '../manifest.ts';
+import { checkValues } from '../table-checks.ts';
+import { checkBudgetTable, checkSummaryTable } from './check-run-tables.ts';
 import { META_PREFIX } from '../metadata.ts';
 import type { PointRow } from '../../analysis/operating-point.ts';
 import type { RateInterval } from '../../analysis/intervals.ts';
@@ -65,16 +67,23 @@ function readTable(dir: string, name: string, table: string, columns: readonly s
 }
 
 /** Column values as plain numbers (null → NaN). */
-function numbers(t: Table, name: string): number[] {
+function numbers(path: string, t: Table, name: string): number[] {
   const c = t.getChild(name);
-  if (!c) throw new InputError(String(t.schema.metadata.get(`${META_PREFIX}table`) ?? 'table'), name, 'a column of the run tables', 'none');
+  if (!c) throw new InputError(path, name, `a column "${name}"`, 'no such column');
   return Array.from(c, (v) => (v === null ? NaN : Number(v)));
 }
 
-function strings(t: Table, name: string): string[] {
+function strings(path: string, t: Table, name: string): string[] {
   const c = t.getChild(name);
-  if (!c) throw new InputError(String(t.schema.metadata.get(`${META_PREFIX}table`) ?? 'table'), name, 'a column of the run tables', 'none');
+  if (!c) throw new InputError(path, name, `a column "${name}"`, 'no such column');
   return Array.from(c, (v) => String(v));
+}
+
+/** Points of a scenario's sweep grid (1 without a sweep). */
+function gridPoints(s: Scenario): number {
+  const axes = s.sweep?.axes ?? [];
+  if (axes.length === 0) return 1;
+  return s.sweep!.combine === 'zip' ? axes[0]!.values.length : axes.reduce((p, a) => p * a.values.length, 1);
 }
 
 function booleans(t: Table, name: string): boolean[] {
@@ -101,11 +110,15 @@ export function readRunTables(dir: string): RunTables {
   const { scenario } = resolveScenario(doc, `${source} (embedded scenario)`);
   const axes = scenario.sweep?.axes ?? [];
   const states = scenario.states.map((s) => s.name);
+  const shape = { points: gridPoints(scenario), refined: manifest.refine?.points ?? 0, pipelines: scenario.pipelines.map((p) => p.name), states, outcomes: scenario.outcomes };
+  const points = checkSummaryTable(source, summaryTable, shape);
+  checkBudgetTable(join(dir, 'budget.arrow'), budgetTable, shape, points);
+  for (const a of axes) checkValues(source, summaryTable, a.column, {});
 
   const n = summaryTable.numRows;
-  const col = (name: string) => numbers(summaryTable, name);
+  const col = (name: string) => numbers(source, summaryTable, name);
   const point = col('point'), shots = col('shots');
-  const pipeline = strings(summaryTable, 'pipeline');
+  const pipeline = strings(source, summaryTable, 'pipeline');
   const swept = axes.map((a) => col(a.column));
   const [me, meLow, meHigh, am] = ['mean_error', 'mean_error_low', 'mean_error_high', 'analytic_mean_error'].map(col);
   const [snr, asnr, sigma, asigma, threshold, angle] = ['snr', 'analytic_snr', 'sigma', 'analytic_sigma', 'threshold', 'axis_angle'].map(col);
@@ -126,10 +139,11 @@ export function readRunTables(dir: string): RunTables {
     });
   }
 
-  const bcol = (name: string) => numbers(budgetTable, name);
+  const budgetPath = join(dir, 'budget.arrow');
+  const bcol = (name: string) => numbers(budgetPath, budgetTable, name);
   const bPoint = bcol('point'), bAnalytic = bcol('analytic'), bSim = bcol('simulated'), bLow = bcol('low'), bHigh = bcol('high');
   const bErrors = bcol('errors'), bShots = bcol('shots');
-  const bPipeline = strings(budgetTable, 'pipeline'), bState = strings(budgetTable, 'state'), bCause = strings(budgetTable, 'cause');
+  const bPipeline = strings(budgetPath, budgetTable, 'pipeline'), bState = strings(budgetPath, budgetTable, 'state'), bCause = strings(budgetPath, budgetTable, 'cause');
   const bAgrees = booleans(budgetTable, 'agrees');
   const budget: BudgetRow[] = [];
   for (let i = 0; i < budgetTable.numRows; i++) {
@@ -142,26 +156,47 @@ export function readRunTables(dir: string): RunTables {
     dir,
     provenance: { scenario: canonical, seed: get('seed'), version: get('version'), engine: get('engine'), shard: get('shard') },
     doc, scenario, summary, budget,
-    hasShots: existsSync(join(dir, 'shots.arrow')),
-    hasTraces: existsSync(join(dir, 'traces.arrow')),
+    // only what run.json lists (and the checksums cover) is read
+    hasShots: manifest.files.includes('shots.arrow'),
+    hasTraces: manifest.files.includes('traces.arrow'),
     summaryColumns: summaryTable.schema.fields.map((f) => f.name),
     files: manifest.files,
   };
 }
 
-/** Integrated values of one point and pipeline from shots.arrow, grouped by intended state. */
-export async function readPointValues(dir: string, point: number, pipeline: string, stateNames: readonly string[]): Promise<Float64Array[]> {
+/**
+ * Integrated values of one point and pipeline from shots.arrow, grouped by intended state;
+ * `between` runs after every record batch (the caller's chance to stop).
+ */
+export async function readPointValues(
+  dir: string, point: number, pipeline: string, stateNames: readonly string[], between?: () => Promise<void>,
+): Promise<Float64Array[]> {
+  const path = join(dir, 'shots.arrow');
+  try {
+    return await pointValues(path, point, pipeline, stateNames, between);
+  } catch (e) {
+    if (e instanceof InputError || (e instanceof Error && e.name === 'RunInterrupted')) throw e;
+    // the file was checked against run.json; a reader failure means bytes made to pass that check
+    throw new InputError(path, '', 'a readable Arrow table file', `a damaged file (${String((e as Error).message).split('\n')[0]!.slice(0, 100)})`);
+  }
+}
+
+async function pointValues(
+  path: string, point: number, pipeline: string, stateNames: readonly string[], between?: () => Promise<void>,
+): Promise<Float64Array[]> {
   const parts: number[][] = stateNames.map(() => []);
-  const reader = await RecordBatchReader.from(createReadStream(join(dir, 'shots.arrow')));
+  const reader = await RecordBatchReader.from(createReadStream(path));
   for await (const batch of reader) {
+    await between?.();
     const pointCol = batch.getChild('point');
     const pipeCol = batch.getChild('pipeline');
     const stateCol = batch.getChild('prepared');
     const valueCol = batch.getChild('value');
-    if (!pointCol || !pipeCol || !stateCol || !valueCol) throw new InputError(join(dir, 'shots.arrow'), '', 'the columns point, pipeline, prepared and value');
+    if (!pointCol || !pipeCol || !stateCol || !valueCol) throw new InputError(path, '', 'the columns point, pipeline, prepared and value');
     const points = pointCol.toArray() as Uint32Array;
     const pipeData = pipeCol.data[0]!;
-    const pipeNames = (pipeData.dictionary!.toArray() as string[]);
+    if (!pipeData.dictionary || !stateCol.data[0]?.dictionary) throw new InputError(path, '', 'dictionary-encoded pipeline and prepared columns');
+    const pipeNames = (pipeData.dictionary.toArray() as string[]);
     const wanted = pipeNames.indexOf(pipeline);
     const pipeIdx = pipeData.values as Uint8Array;
     const stateData = stateCol.data[0]!;
@@ -171,8 +206,9 @@ export async function readPointValues(dir: string, point: number, pipeline: stri
     const values = valueCol.toArray() as Float64Array;
     for (let i = 0; i < points.length; i++) {
       if (points[i] !== point || pipeIdx[i] !== wanted) continue;
-      const s = toState[stateIdx[i]!]!;
-      if (s >= 0) parts[s]!.push(values[i]!);
+      const s = toState[stateIdx[i]!];
+      if (!Number.isFinite(values[i]!)) throw new InputError(path, `value[${i}]`, 'a finite integrated value', String(values[i]));
+      if (s !== undefined && s >= 0) parts[s]!.push(values[i]!);
     }
   }
   return parts.map((p) => Float64Array.from(p));

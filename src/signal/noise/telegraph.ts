@@ -19,7 +19,7 @@ import { stationaryOccupation } from '../telegraph.ts';
 import { makeTelegraphRecord, makeTelegraphTimeline, type Fluctuator } from '../telegraph-timeline.ts';
 import type { CompiledNoiseKind, KindedValue, NoiseSourceKind } from './contract.ts';
 import type { Realisation } from '../injection.ts';
-import { telegraphStreamIndex } from './stream-layout.ts';
+import { TELEGRAPH_BLOCKS, telegraphStreamIndex } from './stream-layout.ts';
 
 /** A fluctuator as the scenario holds it. */
 export interface TelegraphSourceSpec extends NoiseSourceSpec {
@@ -33,6 +33,12 @@ export interface TelegraphSourceSpec extends NoiseSourceSpec {
 
 /** Most fluctuators per point. */
 export const MAX_FLUCTUATORS = 16;
+/**
+ * Most expected switches of one fluctuator in one record: each is simulated (an exponential
+ * wait), like a transition of the hidden state, so this caps the work per record as the
+ * transitions' limit does (scenario/limits.ts).
+ */
+export const MAX_SWITCHES_PER_RECORD = 1e6;
 
 const positive = { min: 0, minExclusive: true } as const;
 
@@ -66,10 +72,20 @@ export const telegraphKind: NoiseSourceKind<TelegraphSourceSpec> = {
       if ((r === undefined) === (dwell === undefined)) c.fail(p, `either ${rk} or ${dk}`, r === undefined ? 'neither' : 'both');
       return r ?? 1 / dwell!;
     };
+    const rateUp = rate(t.rateUp, t.dwellLow, 'rateUp', 'dwellLow'), rateDown = rate(t.rateDown, t.dwellHigh, 'rateDown', 'dwellHigh');
+    // every switch inside a record is simulated: cap them like the transitions' jumps
+    const switches = (rateUp + rateDown) * c.timing.recordLength;
+    if (!(switches <= MAX_SWITCHES_PER_RECORD)) {
+      const key = rateUp >= rateDown ? (t.rateUp === undefined ? 'dwellLow' : 'rateUp') : (t.rateDown === undefined ? 'dwellHigh' : 'rateDown');
+      c.fail([...p, key], `rates giving at most ${MAX_SWITCHES_PER_RECORD} expected switches per record (${c.format(c.timing.recordLength, 's')})`);
+    }
+    // the timeline reaches TELEGRAPH_BLOCKS seeding blocks of shots
+    if (c.shots > TELEGRAPH_BLOCKS * SEED_BLOCK - 2 * SEED_BLOCK) {
+      c.fail(['shots'], `at most ${TELEGRAPH_BLOCKS * SEED_BLOCK - 2 * SEED_BLOCK} shots (and calibration shots) per point with telegraph noise`, String(c.shots));
+    }
     return {
       kind: 'telegraph', name: c.uniqueName(t.name, 'telegraph', i, [...p, 'name']), amplitude: t.amplitude.value,
-      rateUp: rate(t.rateUp, t.dwellLow, 'rateUp', 'dwellLow'), rateDown: rate(t.rateDown, t.dwellHigh, 'rateDown', 'dwellHigh'),
-      injection: t.injection, inDetuning,
+      rateUp, rateDown, injection: t.injection, inDetuning,
     };
   },
 
