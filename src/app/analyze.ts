@@ -20,7 +20,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { tableToIPC } from 'apache-arrow';
-import { InputError } from '../errors.ts';
+import { InputError, ScenarioProblem } from '../errors.ts';
 import { makeGrid } from '../signal/grid.ts';
 import { compileChain } from '../dsp/pipeline-chain.ts';
 import { fitCarrier } from '../fit/carrier.ts';
@@ -107,6 +107,19 @@ function readText(path: string): string {
     const code = (e as NodeJS.ErrnoException).code;
     throw new InputError(path, '', 'a pipeline file', code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'a directory' : 'an unreadable file');
   }
+}
+
+/**
+ * A problem calibration found (classify/, in a scenario's words) in the words of an analysis: too
+ * few calibration rows of an outcome names the labels and calibration.fraction; a pipeline key
+ * names the pipeline file.
+ */
+function analysisProblem(e: ScenarioProblem, file: AnalyzeFile, calibratedBy: string | null): InputError {
+  if (e.path[0] === 'calibrationShots') {
+    return new InputError(file.file, 'calibration', `calibration rows of both outcomes, and enough of them (raise calibration.fraction, or check the labels${calibratedBy ? `: calibrated by ${calibratedBy}` : ''})`, e.found ?? 'too few');
+  }
+  const path = e.path[0] === 'pipelines' ? e.path.slice(2) : e.path;
+  return new InputError(file.file, path.join('.'), e.expected, e.found);
 }
 
 /** Records read to look for an unannounced carrier. */
@@ -232,9 +245,14 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
     calibratedBy = 'nothing (a fixed threshold on I of a fixed reference phase)';
   }
 
-  const analysis = await analyzeRecords({
-    source: records, labels: score?.values ?? null, outcomes, spec: resolved.pipeline, grid, carrier, plan, signal: o.signal,
-  });
+  let analysis: RecordAnalysis;
+  try {
+    analysis = await analyzeRecords({
+      source: records, labels: score?.values ?? null, outcomes, spec: resolved.pipeline, grid, carrier, plan, signal: o.signal,
+    });
+  } catch (e) {
+    throw e instanceof ScenarioProblem ? analysisProblem(e, file, plan.kind === 'rows' ? calibratedBy : null) : e;
+  }
   const unit = o.unit ?? at.unit ?? '';
   const files = await writeFolder(o, file, records, score, outcomes, unit, analysis, resolved);
   const scoredRows = analysis.summary?.shots ?? 0;
