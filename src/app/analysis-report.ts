@@ -7,7 +7,8 @@
  */
 import { extent, envelope, histogramCounts } from '../analysis/plot-data.ts';
 import { classifierNamed, DEFAULT_CLASSIFIER } from '../classify/registry.ts';
-import { verifyFile, type AnalysisManifest } from '../io/manifest.ts';
+import type { AnalysisManifest } from '../io/manifest.ts';
+import { openAnalysisFolder } from './run-folder.ts';
 import { displayUnit, probability, short, showValue, withUnit } from '../io/report/display.ts';
 import { noiseSpectrumView } from '../io/report/noise-view.ts';
 import { renderPage, type BuiltReport, type Card, type Figure, type SectionView } from '../io/report/page.ts';
@@ -43,8 +44,8 @@ function gaussianCounts(n: number, mu: number, sigma: number, width: number, xs:
 
 /** Builds the report page of an analysis folder. */
 export async function buildAnalysisReport(dir: string, manifest: AnalysisManifest, verify = true): Promise<BuiltReport> {
-  // every table read is checked against run.json's checksum first (a damaged or edited folder is one line)
-  if (verify) for (const name of manifest.files) verifyFile(dir, manifest, name);
+  // every table is checked against run.json first (a damaged or edited folder is one line)
+  if (verify) await openAnalysisFolder(dir, manifest);
   const pipelineDoc = JSON.parse(manifest.analysis.pipeline) as Record<string, unknown>;
   const summary = readAnalysisSummary(dir);
   const outcomes = outcomesOf(pipelineDoc, summary);

@@ -19,6 +19,7 @@
  * its size, which flips only a shot lying that close to the threshold).
  */
 import { readFileSync } from 'node:fs';
+import { basename } from 'node:path';
 import { tableToIPC } from 'apache-arrow';
 import { InputError, ScenarioProblem } from '../errors.ts';
 import { makeGrid } from '../signal/grid.ts';
@@ -122,6 +123,16 @@ function analysisProblem(e: ScenarioProblem, file: AnalyzeFile, calibratedBy: st
   return new InputError(file.file, path.join('.'), e.expected, e.found);
 }
 
+/** `dir/file.h5:/a/b` → `file.h5:/a/b`: a source named by its file (and the dataset, array or column in it). */
+function fileName(source: string): string {
+  try {
+    const at = locateRecords(source);
+    return `${basename(at.path)}${at.inner === undefined ? '' : `:${at.inner}`}`;
+  } catch {
+    return basename(source);
+  }
+}
+
 /** Records read to look for an unannounced carrier. */
 const CARRIER_PROBE_ROWS = 256;
 
@@ -150,6 +161,19 @@ function assumptions(o: AnalyzeOptions, file: AnalyzeFile, records: RecordSet, r
       : 'carrier: not given (no --carrier, no carrier in a pipeline file or the file): the records are taken as baseband');
   }
   return notes;
+}
+
+/**
+ * Runs `read`; a column, dataset or array it does not find, named by key `key` of the pipeline
+ * file, is refused naming that file and key too (either may be the one to change).
+ */
+async function fromPipelineFile<T>(file: AnalyzeFile, key: string | null, read: () => Promise<T>): Promise<T> {
+  try {
+    return await read();
+  } catch (e) {
+    if (key === null || !(e instanceof InputError) || !/found no such (column|dataset|array)$/.test(e.message)) throw e;
+    throw new InputError(file.file, key, `a name the records' file has (${e.message})`, 'a name it does not have');
+  }
 }
 
 /** Whether the pipeline decides with anything a calibration must supply. */
@@ -186,7 +210,7 @@ export async function analyzeToDirectory(o: AnalyzeOptions): Promise<AnalyzeResu
   const file: AnalyzeFile = o.pipelinePath === undefined ? defaultPipelineFile() : readPipelineFile(readText(o.pipelinePath), o.pipelinePath);
   // a pipeline file's column names the records in a table that the argument does not name
   const spec = file.doc.column !== undefined && locateRecords(o.records).inner === undefined ? `${o.records}:${file.doc.column}` : o.records;
-  const records = await openRecords(spec, o.scale ?? 1);
+  const records = await fromPipelineFile(file, spec === o.records ? null : 'column', () => openRecords(spec, o.scale ?? 1));
   try {
     return await analyzeOpen(o, file, records);
   } finally {
@@ -208,7 +232,9 @@ async function analyzeOpen(o: AnalyzeOptions, file: AnalyzeFile, records: Record
   const givenOutcomes = file.doc.outcomes?.map(String) ?? null;
   const score = o.labels === undefined ? null : checkedLabels(await openLabels(o.labels, records.source, givenOutcomes), records);
   const cal = file.doc.calibration;
-  const calibrationLabels = cal !== undefined && cal !== 'stored' ? checkedLabels(await openLabels(cal.labels, records.source, givenOutcomes), records) : null;
+  const calibrationLabels = cal !== undefined && cal !== 'stored'
+    ? checkedLabels(await fromPipelineFile(file, 'calibration.labels', () => openLabels(cal.labels, records.source, givenOutcomes)), records)
+    : null;
   const named = score ?? calibrationLabels;
   const outcomes = (givenOutcomes ?? named?.names ?? ['0', '1']) as [string, string];
   const grid = { ...makeGrid(resolved.timing), samples: records.samples };
@@ -273,7 +299,8 @@ async function writeFolder(
   const inputs: CommandInput[] = [{ path: locateRecords(o.records).path, kind: 'file' }];
   if (o.pipelinePath !== undefined) inputs.push({ path: o.pipelinePath, kind: 'file' });
   const out = OutputFolder.open(o.outDir, { force: o.force ?? false, command: 'analyze', inputs });
-  const provenance = { pipeline: file.canonical, records: records.source, labels: score?.source ?? null };
+  // the file names, not the folders: the same records analysed anywhere give the same bytes
+  const provenance = { pipeline: file.canonical, records: fileName(records.source), labels: score ? fileName(score.source) : null };
   const files: string[] = [];
   const d = a.decisions;
   try {

@@ -9,7 +9,7 @@ import { statSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../errors.ts';
 import { checkArrowFile } from '../io/arrow-read.ts';
-import { readManifest, verifyFile, type Manifest } from '../io/manifest.ts';
+import { readManifest, verifyFile, type AnalysisManifest, type Manifest } from '../io/manifest.ts';
 import { checkMetadata } from '../io/table-checks.ts';
 import { TALLIES } from './tallies.ts';
 
@@ -50,6 +50,27 @@ export async function openRunFolder(dir: string, reads: readonly string[] | 'all
   }
   if (reads === 'all' && !manifest.files.includes(TALLIES) && manifest.engine !== 'analyze') {
     throw new InputError(join(dir, 'run.json'), 'files', `a list that holds ${TALLIES}`, JSON.stringify(manifest.files).slice(0, 80));
+  }
+  return { dir, manifest };
+}
+
+/** A checked analysis folder (`analyze`'s output, which `report` reads). */
+export interface AnalysisFolder {
+  dir: string;
+  manifest: AnalysisManifest;
+}
+
+/** Opens an analysis folder for reading: run.json checked whole, every listed file against its checksum, every Arrow table's structure and metadata against run.json. */
+export async function openAnalysisFolder(dir: string, manifest: AnalysisManifest): Promise<AnalysisFolder> {
+  const a = manifest.analysis;
+  for (const f of manifest.files) verifyFile(dir, manifest, f);
+  for (const f of manifest.files.filter((x) => x.endsWith('.arrow'))) {
+    const path = join(dir, f);
+    const table = f.replace(/\.arrow$/, '');
+    const schema = await checkArrowFile(path, table);
+    checkMetadata(path, schema, {
+      table, version: manifest.version, engine: 'analyze', shard: '1/1', pipeline_file: a.pipeline, records: a.records, labels: a.labels ?? undefined,
+    }, join(dir, 'run.json'));
   }
   return { dir, manifest };
 }

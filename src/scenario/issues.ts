@@ -116,9 +116,10 @@ export function zodErrorToInputErrors(file: string, error: z.ZodError): InputErr
   const found = (error.issues as Issue[]).map((iss) => deepest(iss, []));
   const withUnknown = new Set(found.filter((f) => f.issue.code === 'unrecognized_keys').map((f) => formatPath(f.path)));
   const kept = found.filter((f) => !(f.issue.code !== 'unrecognized_keys' && f.issue.input === undefined && f.path.length > 0 && withUnknown.has(formatPath(f.path.slice(0, -1)))));
-  // one problem can fail several checks with the same message (an integer's range and kind)
+  // one value can fail several checks (an integer's range and kind, a range and the magnitude
+  // bound): the first says what to change, so one problem per key
   const seen = new Set<string>();
-  return kept.flatMap((f) => issueErrors(file, f.issue, f.path)).filter((e) => !seen.has(e.message) && seen.add(e.message));
+  return kept.flatMap((f) => issueErrors(file, f.issue, f.path)).filter((e) => !seen.has(e.path) && seen.add(e.path));
 }
 
 /** The first key of a formatted key path (`states[1].level` → `states`, `["a b"].c` → `a b`). */

@@ -18,9 +18,9 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { runMain } from '../support/cli.ts';
-import { openRunFolder } from '../../src/app/run-folder.ts';
+import { openAnalysisFolder, openRunFolder } from '../../src/app/run-folder.ts';
 import { readRunTables } from '../../src/io/report/read-run.ts';
-import { readManifest } from '../../src/io/manifest.ts';
+import { readAnyManifest } from '../../src/io/manifest.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const TINY = join(ROOT, 'test', 'fixtures', 'reliability', 'tiny.yaml');
@@ -83,8 +83,13 @@ interface WritingCommand {
 }
 
 const folderWhole = async (dir: string) => {
+  const m = readAnyManifest(dir);
+  if ('kind' in m && m.kind === 'analysis') {
+    await openAnalysisFolder(dir, m);
+    return;
+  }
   await openRunFolder(dir);
-  if (readManifest(dir).engine !== 'analyze') readRunTables(dir);
+  readRunTables(dir);
 };
 
 const COMMANDS: WritingCommand[] = [
