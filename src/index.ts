@@ -6,7 +6,7 @@ export { checkScenarioFile, checkScenarioDocument, type CheckedScenario } from '
 export { reportFolder, type ReportOptions } from './app/report.ts';
 export { mergeRuns, type MergeOptions } from './app/merge.ts';
 export { rerunDirectory, type RerunOptions } from './app/rerun.ts';
-export { analyzeToDirectory, type AnalyzeOptions } from './app/analyze.ts';
+export { analyzeToDirectory, type AnalyzeOptions } from './app/recorded/analyze.ts';
 export { runPoints, type RunResult } from './run/run-points.ts';
 export { inProcessExecutor, type BatchExecutor } from './run/executor.ts';
 export type { PointResult } from './run/point-result.ts';
@@ -25,6 +25,6 @@ export { barthelErrors } from './analysis/barthel.ts';
 export { gaussianTail } from './analysis/special.ts';
 export { wilsonInterval, clopperPearsonInterval } from './analysis/intervals.ts';
 export { resultToJson } from './app/result-json.ts';
-export { fitToScenario, type FitOptions, type FitResult } from './app/fit.ts';
+export { fitToScenario, type FitOptions, type FitResult } from './app/recorded/fit.ts';
 export { InputError, ScenarioProblem } from './errors.ts';
 export { main } from './cli/main.ts';

@@ -31,23 +31,13 @@ import { squaredSum } from '../signal/filter-function.ts';
 import { quantisationStep } from '../signal/digitizer.ts';
 import type { NoiseInjection } from '../scenario/types.ts';
 import type { NoisePlan } from '../signal/noise-plan.ts';
+import type { NoiseSourceInfo } from '../signal/noise/contract.ts';
 import { seenThrough } from '../signal/injection.ts';
 
-/** One source's entry in the noise budget. */
-export interface NoiseSourceBudget {
-  name: string;
+/** One source's entry in the noise budget: its line (signal/noise/contract.ts; white and quantisation alike) and what it adds to the integrated value. */
+export interface NoiseSourceBudget extends NoiseSourceInfo {
   /** 'white', 'quantisation', or the kind of a noise source (signal/noise/). */
   kind: string;
-  injection: NoiseInjection;
-  /**
-   * white: one-sided density (signal unit/√Hz, before the gain); flicker: √A, its density at
-   * 1 Hz; telegraph: the amplitude; quantisation: the white density with the same variance.
-   */
-  density: number;
-  /** Its unit, with {unit} for the signal unit. */
-  densityUnit: string;
-  /** How the density was obtained. */
-  origin: string;
   /** Its variance of the integrated value, its σ, and its share of the total variance. */
   variance: number;
   sigma: number;

@@ -99,7 +99,7 @@ function compare(cause: string, errors: number, shots: number, analytic: number,
  * Centre and spread of the integrated value per outcome, the separation of the centres and the
  * pooled σ, from which SNR = separation/σ. A run takes them from its clean shots (cleanSpread);
  * recorded traces, whose clean shots nobody knows, from robust statistics of each labelled
- * group (app/analyze.ts).
+ * group (analysis/value-mixture-fit.ts, for app/recorded/analyze.ts).
  */
 export interface ValueSpread {
   outcomes: { mean: number; sigma: number }[];

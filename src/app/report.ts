@@ -20,7 +20,7 @@ import { NOISE_TABLE, noiseSpectrumView } from '../io/report/noise-view.ts';
 import { openRunFolder } from './run-folder.ts';
 import { renderPage, type BuiltReport, type Card, type Figure, type SectionView } from '../io/report/page.ts';
 import { readAnyManifest } from '../io/manifest.ts';
-import { buildAnalysisReport } from './analysis-report.ts';
+import { buildAnalysisReport } from './recorded/analysis-report.ts';
 import { histogramView, traceViews, type PointReading } from '../io/report/point-views.ts';
 import { exampleShots, resimulatedValues } from '../engine/trace/examples.ts';
 import { readPointValues, readRunTables, type RunTables, type SummaryRow } from '../io/report/read-run.ts';

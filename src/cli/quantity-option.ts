@@ -1,5 +1,5 @@
 /** Command-line values with units ("50 MHz", "50MHz", "2.5e6"), read as the scenario reads them; shared by analyze and fit. */
-import { InvalidArgumentError } from 'commander';
+import { InvalidArgumentError, type Command } from 'commander';
 import { matchDimension, parseQuantity, UnitSyntaxError, type DimensionName } from '../scenario/units.ts';
 
 /** A quantity option in SI ("50 MHz", "50MHz" or a plain number in SI units): above 0 (at least 0 with `zero`). */
@@ -45,4 +45,26 @@ export function scaleOption(text: string): number {
 export function unitOption(text: string): string {
   if (text !== 'A' && text !== 'V' && text !== 'none') throw new InvalidArgumentError(`--unit takes A, V or none, found "${text}"`);
   return text;
+}
+
+/** The options `analyze` and `fit` share about the records: where they are and what the file may not say. */
+export interface RecordOptions {
+  labels?: string;
+  sampleRate?: number;
+  carrier?: number | 'none';
+  window?: { start: number; length: number };
+  scale?: number;
+  unit?: string;
+}
+
+/** Adds the records argument and RecordOptions to `command` (`carrierDefault` says what happens when none is given). */
+export function withRecordOptions(command: Command, carrierDefault: string): Command {
+  return command
+    .argument('<records>', 'the records, one per row: FILE, or FILE:NAME for a dataset (file.h5:/readout/records), an array (file.npz:records) or a column (file.parquet:trace)')
+    .option('--labels <labels>', 'the prepared outcome of each record: a file (labels.npy, file.h5:/readout/labels) or a NAME in the records\' own file (a column, dataset or array)')
+    .option('--sample-rate <f>', 'the records\' sample rate, e.g. "50 MHz" (default: the file\'s own attribute)', frequency)
+    .option('--carrier <f>', `the records' carrier, e.g. "1 MHz", or "none" (default: the file's own attribute, else ${carrierDefault})`, carrierOption)
+    .option('--window <start,length>', 'the records\' window, e.g. "1us,8us" (default: the file\'s own, else the whole record)', windowOption)
+    .option('--scale <x>', 'signal units per stored unit, e.g. volts per ADC count (default 1, times the file\'s own scale attribute)', scaleOption)
+    .option('--unit <unit>', 'the unit of the records after the scale: A, V or none (default: the file\'s own, else none)', unitOption);
 }

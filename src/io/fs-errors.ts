@@ -4,6 +4,7 @@
  * an empty --out, a path under a file, a dangling or looping link, a read-only or full file
  * system end with `singleshot: PATH: …` and exit 2, never a stack trace.
  */
+import { openSync, readFileSync, statSync } from 'node:fs';
 import { InputError } from '../errors.ts';
 
 /** What each error code means, in words a user can act on. */
@@ -52,5 +53,33 @@ export function withFileErrors<T>(path: string, doing: string, f: () => T): T {
     return f();
   } catch (e) {
     throw fileSystemError(e, path, doing);
+  }
+}
+
+/** The one-line refusal of an input file that cannot be opened: what the command `expected` there, and why not. */
+function inputFileError(e: unknown, path: string, expected: string): unknown {
+  if (e instanceof InputError || !isSystemError(e)) return e;
+  const found = e.code === 'ENOENT' ? 'no such file' : e.code === 'EISDIR' ? 'a folder' : e.code === 'EACCES' || e.code === 'EPERM' ? 'no permission to read it'
+    : `${MEANINGS[e.code] ?? 'a file that cannot be read'} (${e.code})`;
+  return new InputError(path, '', expected, found);
+}
+
+/** Opens input file `path` for reading (a file descriptor); a missing, unreadable file or a folder is one line saying what was `expected`. */
+export function openInputFile(path: string, expected: string): number {
+  try {
+    if (statSync(path).isDirectory()) throw new InputError(path, '', expected, 'a folder');
+    return openSync(path, 'r');
+  } catch (e) {
+    throw inputFileError(e, path, expected);
+  }
+}
+
+/** The bytes of input file `path`, refused as openInputFile refuses. */
+export function readInputFile(path: string, expected: string): Buffer {
+  try {
+    if (statSync(path).isDirectory()) throw new InputError(path, '', expected, 'a folder');
+    return readFileSync(path);
+  } catch (e) {
+    throw inputFileError(e, path, expected);
   }
 }

@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { tableFromIPC } from 'apache-arrow';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runToDirectory } from '../../src/app/run-to-directory.ts';
-import { analyzeToDirectory } from '../../src/app/analyze.ts';
+import { analyzeToDirectory } from '../../src/app/recorded/analyze.ts';
 import { buildReport } from '../../src/app/report.ts';
 
 const work = mkdtempSync(join(tmpdir(), 'singleshot-analyze-records-'));

@@ -18,7 +18,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { fitToScenario, type FitResult } from '../../src/app/fit.ts';
+import { fitToScenario, type FitResult } from '../../src/app/recorded/fit.ts';
 import { runToDirectory } from '../../src/app/run-to-directory.ts';
 import { wilsonInterval } from '../../src/analysis/intervals.ts';
 import { loadScenarioText } from '../../src/scenario/load.ts';

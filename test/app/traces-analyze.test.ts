@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { tableFromIPC, type Table } from 'apache-arrow';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runToDirectory, type RunToDirectoryResult } from '../../src/app/run-to-directory.ts';
-import { analyzeToDirectory } from '../../src/app/analyze.ts';
+import { analyzeToDirectory } from '../../src/app/recorded/analyze.ts';
 import { resultToJson } from '../../src/app/result-json.ts';
 import { makeReference } from '../../src/dsp/demodulate.ts';
 

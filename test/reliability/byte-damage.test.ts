@@ -23,9 +23,9 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { runMain } from '../support/cli.ts';
-import { openAnalysisFolder, openRunFolder } from '../../src/app/run-folder.ts';
+import { openRunFolder } from '../../src/app/run-folder.ts';
+import { readsBackWhole } from '../support/read-back.ts';
 import { readRunTables } from '../../src/io/report/read-run.ts';
-import { readAnyManifest } from '../../src/io/manifest.ts';
 import { readPointValues } from '../../src/io/report/read-run.ts';
 import { InputError } from '../../src/errors.ts';
 
@@ -94,17 +94,6 @@ function copyWith(from: string, w: string, name: string, file: string, bytes: Bu
   return join(w, name, file);
 }
 
-/** A folder a command wrote must read back whole: run.json, checksums, metadata, tables. */
-async function readsBack(dir: string): Promise<void> {
-  const m = readAnyManifest(dir);
-  if ('kind' in m && m.kind === 'analysis') {
-    await openAnalysisFolder(dir, m);
-    return;
-  }
-  await openRunFolder(dir);
-  readRunTables(dir);
-}
-
 beforeAll(async () => {
   const quiet = ['--quiet', '--no-report'];
   const made = [
@@ -139,7 +128,7 @@ beforeAll(async () => {
     command: 'run', file: 'tiny.yaml',
     place: (w, bytes) => (writeFileSync(join(w, 'tiny.yaml'), bytes), join(w, 'tiny.yaml')),
     args: (w) => ['run', join(w, 'tiny.yaml'), '--out', join(w, 'out'), '--shots', '1024', ...quiet],
-    correct: (w) => readsBack(join(w, 'out')),
+    correct: (w) => readsBackWhole(join(w, 'out')),
   });
   // report reads run.json and the tables it draws
   for (const file of ['run.json', 'summary.arrow', 'budget.arrow', 'shots.arrow']) {
@@ -183,13 +172,13 @@ beforeAll(async () => {
     command: 'analyze', file: 'traces.arrow',
     place: (w, bytes) => (writeFileSync(join(w, 'traces.arrow'), bytes), join(w, 'traces.arrow')),
     args: (w) => ['analyze', join(w, 'traces.arrow'), '--pipeline', at('pipeline.yaml'), '--out', join(w, 'analysis'), '--labels', 'intended_outcome'],
-    correct: (w) => readsBack(join(w, 'analysis')),
+    correct: (w) => readsBackWhole(join(w, 'analysis')),
   });
   CASES.push({
     command: 'analyze', file: 'pipeline.yaml',
     place: (w, bytes) => (writeFileSync(join(w, 'pipeline.yaml'), bytes), join(w, 'pipeline.yaml')),
     args: (w) => ['analyze', join(at('run'), 'traces.arrow'), '--pipeline', join(w, 'pipeline.yaml'), '--out', join(w, 'analysis'), '--labels', 'intended_outcome'],
-    correct: (w) => readsBack(join(w, 'analysis')),
+    correct: (w) => readsBackWhole(join(w, 'analysis')),
   });
 }, 120_000);
 

@@ -18,9 +18,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { runMain } from '../support/cli.ts';
-import { openAnalysisFolder, openRunFolder } from '../../src/app/run-folder.ts';
-import { readRunTables } from '../../src/io/report/read-run.ts';
-import { readAnyManifest } from '../../src/io/manifest.ts';
+import { readsBackWhole } from '../support/read-back.ts';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const TINY = join(ROOT, 'test', 'fixtures', 'reliability', 'tiny.yaml');
@@ -82,15 +80,6 @@ interface WritingCommand {
   whole(out: string): Promise<void>;
 }
 
-const folderWhole = async (dir: string) => {
-  const m = readAnyManifest(dir);
-  if ('kind' in m && m.kind === 'analysis') {
-    await openAnalysisFolder(dir, m);
-    return;
-  }
-  await openRunFolder(dir);
-  readRunTables(dir);
-};
 
 const COMMANDS: WritingCommand[] = [
   {
@@ -98,7 +87,7 @@ const COMMANDS: WritingCommand[] = [
     args: (out, force) => ['run', TINY, '--out', out, '--quiet', '--engine', 'traces', '--shots', '4096', ...(force ? ['--force', '--seed', '3'] : [])],
     output: (out) => out,
     whole: async (out) => {
-      await folderWhole(out);
+      await readsBackWhole(out);
       expect(readFileSync(join(out, 'report.html'), 'utf8')).toMatch(/<\/html>\s*$/);
     },
   },
@@ -106,7 +95,7 @@ const COMMANDS: WritingCommand[] = [
     name: 'merge',
     args: (out, force) => ['merge', at('s1'), at('s2'), '--out', out, '--no-report', ...(force ? ['--force'] : [])],
     output: (out) => out,
-    whole: folderWhole,
+    whole: readsBackWhole,
   },
   {
     name: 'report',
@@ -118,13 +107,13 @@ const COMMANDS: WritingCommand[] = [
     name: 'rerun',
     args: (out, force) => ['rerun', at('run'), '--out', out, ...(force ? ['--force'] : [])],
     output: (out) => out,
-    whole: folderWhole,
+    whole: readsBackWhole,
   },
   {
     name: 'analyze',
     args: (out, force) => ['analyze', at('run', 'traces.arrow'), '--pipeline', at('pipeline.yaml'), '--out', out, '--labels', 'intended_outcome', ...(force ? ['--force'] : [])],
     output: (out) => out,
-    whole: folderWhole,
+    whole: readsBackWhole,
   },
 ];
 

@@ -1,10 +1,10 @@
 /** `singleshot analyze RECORDS --out DIR [--pipeline FILE] [--labels LABELS]`: run a pipeline on a lab's records. */
 import { Command } from 'commander';
-import { analyzeToDirectory, type AnalyzeResult } from '../../app/analyze.ts';
+import { analyzeToDirectory, type AnalyzeResult } from '../../app/recorded/analyze.ts';
 import { formatQuantity } from '../../scenario/units.ts';
 import { classifierNamed } from '../../classify/registry.ts';
 import { formatProbability, rows } from '../format.ts';
-import { carrierOption, frequency, scaleOption, unitOption, windowOption } from '../quantity-option.ts';
+import { withRecordOptions, type RecordOptions } from '../quantity-option.ts';
 
 const interval = (x: { rate: number; low: number; high: number }) => `[${formatProbability(x.low)}, ${formatProbability(x.high)}]`;
 import { withInterruptSignals } from '../signals.ts';
@@ -63,24 +63,14 @@ function analysisJson(r: AnalyzeResult, out: string): Record<string, unknown> {
 }
 
 export function makeAnalyzeCommand(): Command {
-  return new Command('analyze')
-    .description('run a processing pipeline on recorded traces (Arrow, Parquet, .npy/.npz or HDF5), scored against labels when given')
-    .argument('<records>', 'the records, one per row: FILE, or FILE:NAME for a dataset (file.h5:/readout/records), an array (file.npz:records) or a column (file.parquet:trace)')
+  return withRecordOptions(new Command('analyze')
+    .description('run a processing pipeline on recorded traces (Arrow, Parquet, .npy/.npz or HDF5), scored against labels when given'), 'none (a pipeline file may say otherwise)')
     .requiredOption('--out <dir>', 'folder for the tables (must be empty unless --force)')
     .option('--pipeline <file>', 'pipeline file (YAML or JSON): the processing keys, sample rate, carrier, calibration (default: boxcar over the record, referencePhase auto, midpoint threshold)')
-    .option('--labels <labels>', 'the prepared outcome of each record: a file (labels.npy, file.h5:/readout/labels) or a NAME in the records\' own file (a column, dataset or array)')
-    .option('--sample-rate <f>', 'the records\' sample rate, e.g. "50 MHz" (default: the pipeline file, else the file\'s own attribute)', frequency)
-    .option('--carrier <f>', 'the records\' carrier, e.g. "10 MHz", or "none" (default: the pipeline file, else the file\'s own attribute, else none)', carrierOption)
-    .option('--window <start,length>', 'the records\' window, e.g. "1us,8us" (default: the pipeline file, else the file\'s own, else the whole record)', windowOption)
-    .option('--scale <x>', 'signal units per stored unit, e.g. volts per ADC count (default 1, times the file\'s own scale attribute)', scaleOption)
-    .option('--unit <unit>', 'the unit of the records after the scale: A, V or none (default: the file\'s own, else none)', unitOption)
     .option('--parquet', 'also write every table as Parquet (X.parquet beside X.arrow), for DuckDB, polars and other Parquet readers')
     .option('--json', 'print the result as one JSON object on stdout')
     .option('--force', 'replace the files of a non-empty --out folder')
-    .action(async (records: string, opts: {
-      out: string; pipeline?: string; labels?: string; sampleRate?: number; carrier?: number | 'none'; window?: { start: number; length: number };
-      scale?: number; unit?: string; parquet?: boolean; json?: boolean; force?: boolean;
-    }) => {
+    .action(async (records: string, opts: RecordOptions & { out: string; pipeline?: string; parquet?: boolean; json?: boolean; force?: boolean }) => {
       const r = await withInterruptSignals((signal) => analyzeToDirectory({
         records, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force,
         sampleRate: opts.sampleRate, carrierFrequency: opts.carrier === 'none' ? 0 : opts.carrier, window: opts.window, scale: opts.scale,

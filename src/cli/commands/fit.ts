@@ -1,8 +1,8 @@
 /** `singleshot fit RECORDS --out twin.yaml`: fit a scenario to recorded traces. */
 import { Command } from 'commander';
-import { fitToScenario, type FitResult } from '../../app/fit.ts';
+import { fitToScenario, type FitResult } from '../../app/recorded/fit.ts';
 import { formatQuantity } from '../../scenario/units.ts';
-import { carrierOption, frequency, scaleOption, unitOption, windowOption } from '../quantity-option.ts';
+import { withRecordOptions, type RecordOptions } from '../quantity-option.ts';
 import { positiveInteger, seedNumber } from './run.ts';
 
 /** The readable summary of a fit. */
@@ -27,22 +27,15 @@ export function formatFit(r: FitResult): string {
 
 /** The `fit` command. */
 export function makeFitCommand(): Command {
-  return new Command('fit')
-    .description('fit a scenario (a twin) to recorded traces: levels, carrier, noise spectrum, transition rates, preparation errors')
-    .argument('<records>', 'records: FILE or FILE:NAME (.arrow, .parquet, .npy, .npz, .h5:/dataset)')
+  return withRecordOptions(new Command('fit')
+    .description('fit a scenario (a twin) to recorded traces: levels, carrier, noise spectrum, transition rates, preparation errors'), 'found in real records')
     .requiredOption('--out <file>', 'the scenario file to write (the fit report goes beside it, as .html)')
-    .option('--labels <name>', 'the prepared outcome of each record: a column, dataset or array of the records\' file, or FILE[:NAME]')
-    .option('--sample-rate <f>', 'sample rate (e.g. "50 MHz"); default: the file\'s sample_rate', frequency)
-    .option('--carrier <f>', 'carrier frequency (e.g. "1 MHz") or "none"; default: the file\'s carrier_frequency, else found in real records', carrierOption)
-    .option('--window <start,length>', 'integration window (e.g. "1us,8us"); default: the file\'s window, else the whole record', windowOption)
-    .option('--scale <x>', 'signal units per stored unit (e.g. volts per ADC count)', scaleOption)
-    .option('--unit <u>', 'the records\' unit: A, V or none; default: the file\'s', unitOption)
     .option('--resamples <n>', 'bootstrap resamples for the uncertainties (default 30)', positiveInteger('--resamples'))
     .option('--seed <n>', 'seed of the bootstrap (default 1)', seedNumber)
     .option('--no-report', 'do not write the fit report')
     .option('--force', 'replace an existing --out file')
     .option('--json', 'print the fitted numbers as one JSON object on stdout')
-    .action(async (records: string, o: { out: string; labels?: string; sampleRate?: number; carrier?: number | 'none'; window?: { start: number; length: number }; scale?: number; unit?: string; resamples?: number; seed?: number; report: boolean; force?: boolean; json?: boolean }) => {
+    .action(async (records: string, o: RecordOptions & { out: string; resamples?: number; seed?: number; report: boolean; force?: boolean; json?: boolean }) => {
       const r = await fitToScenario({
         records, out: o.out, labels: o.labels, sampleRate: o.sampleRate, carrier: o.carrier, window: o.window, scale: o.scale,
         unit: o.unit === 'none' ? '' : o.unit, resamples: o.resamples, seed: o.seed, report: o.report, force: o.force,

@@ -7,7 +7,8 @@
  * and booleans for labels; either byte order. A C-ordered .npy streams from the file in chunks;
  * a Fortran-ordered one, or any array inside an .npz, is read whole.
  */
-import { closeSync, fstatSync, openSync, readFileSync, readSync } from 'node:fs';
+import { closeSync, fstatSync, readSync } from 'node:fs';
+import { openInputFile, readInputFile } from '../fs-errors.ts';
 import { unzipSync } from 'fflate';
 import { InputError } from '../../errors.ts';
 import { outcomeIndices, type LabelSet, type RecordSet } from './record-set.ts';
@@ -106,20 +107,14 @@ const CHUNK_BYTES = 4 * 1024 * 1024;
 
 /** The records of a C-ordered .npy file, read from disk in chunks of rows. */
 function recordsStreamed(path: string, scale: number): RecordSet {
-  let fd: number;
-  try {
-    fd = openSync(path, 'r');
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new InputError(path, '', 'a NumPy .npy array', code === 'ENOENT' ? 'no such file' : `an unreadable file (${code ?? 'error'})`);
-  }
+  const fd = openInputFile(path, 'a NumPy .npy array');
   try {
     const head = new Uint8Array(Math.min(65536 + 12, fstatSync(fd).size));
     readSync(fd, head, 0, head.length, 0);
     const h = parseNpyHeader(head, path);
     if (h.fortran) {
       closeSync(fd);
-      return recordsInMemory(readFileSync(path), path, scale);
+      return recordsInMemory(readInputFile(path, 'a NumPy .npy array'), path, scale);
     }
     if (h.element.kind === 'b') throw new InputError(path, '', 'records of numbers', 'booleans');
     const [rows, samples] = recordShape(h, path);
@@ -156,13 +151,7 @@ function recordsStreamed(path: string, scale: number): RecordSet {
 
 /** The members of an .npz file (name without .npy → its bytes); InputError when it is no zip of arrays. */
 export function npzMembers(path: string): Map<string, Uint8Array> {
-  let bytes: Uint8Array;
-  try {
-    bytes = readFileSync(path);
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new InputError(path, '', 'a NumPy .npz archive', code === 'ENOENT' ? 'no such file' : `an unreadable file (${code ?? 'error'})`);
-  }
+  const bytes = readInputFile(path, 'a NumPy .npz archive');
   let files: Record<string, Uint8Array>;
   try {
     files = unzipSync(bytes);
@@ -201,14 +190,7 @@ export function readNpyLabels(path: string, member: string | undefined): LabelSe
     const b = members.get(name);
     if (!b) throw new InputError(path, name, `an array of labels (the archive holds ${[...members.keys()].join(', ')})`, 'no such array');
     bytes = b;
-  } else {
-    try {
-      bytes = readFileSync(path);
-    } catch (e) {
-      const code = (e as NodeJS.ErrnoException).code;
-      throw new InputError(path, '', 'a NumPy .npy array of labels', code === 'ENOENT' ? 'no such file' : `an unreadable file (${code ?? 'error'})`);
-    }
-  }
+  } else bytes = readInputFile(path, 'a NumPy .npy array of labels');
   const h = parseNpyHeader(bytes, source);
   if (h.shape.length !== 1) throw new InputError(source, '', 'a 1-D array of labels', `an array of shape (${h.shape.join(', ')})`);
   if (h.element.kind === 'c') throw new InputError(source, '', 'labels of integers or booleans', 'complex numbers');

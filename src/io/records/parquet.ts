@@ -3,19 +3,13 @@
  * Arrow file (table.ts): a column of sample lists, labels in a column, attributes in the
  * key-value metadata. The whole file is read at once.
  */
-import { readFileSync } from 'node:fs';
+import { readInputFile } from '../fs-errors.ts';
 import { tableFromIPC, type Table } from 'apache-arrow';
 import { InputError } from '../../errors.ts';
 
 /** A Parquet file as an Arrow table; InputError when missing or not Parquet. */
 export async function readParquetTable(path: string): Promise<Table> {
-  let bytes: Uint8Array;
-  try {
-    bytes = readFileSync(path);
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new InputError(path, '', 'a Parquet file', code === 'ENOENT' ? 'no such file' : `an unreadable file (${code ?? 'error'})`);
-  }
+  const bytes = readInputFile(path, 'a Parquet file');
   // loaded on first use: its WebAssembly would cost every other command start-up time
   const { readParquet } = await import('parquet-wasm');
   try {

@@ -169,6 +169,24 @@ function sectionHtml(s: SectionView): SafeHtml {
     s.note ? html`<p class="note">${s.note}</p>` : ''}${figuresHtml(s.figures)}${s.tables.map((t) => tableHtml(t.caption, t.table))}</section>`;
 }
 
+/** A whole HTML document around `body`: no script, no external resource (the policy forbids any), the report's style. */
+function documentHtml(title: string, body: SafeHtml): string {
+  return `<!doctype html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<title>${html`${title}`.html}</title>
+<style>${STYLE}</style>
+</head>
+<body>
+${body.html}
+</body>
+</html>
+`;
+}
+
 /** The whole page as one HTML string. */
 export function renderPage(p: ReportPage): string {
   const t = TEXTS[p.kind ?? 'run'];
@@ -194,20 +212,7 @@ ${p.sections.map(sectionHtml)}
 <pre>${p.scenarioJson}</pre>
 </footer>
 </main>`;
-  return `<!doctype html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${html`${p.name}`.html} · singleshot report</title>
-<style>${STYLE}</style>
-</head>
-<body>
-${body.html}
-</body>
-</html>
-`;
+  return documentHtml(`${p.name} · singleshot report`, body);
 }
 
 /** A page of sections without the run's caution and answer: the fit report's layout. */
@@ -238,18 +243,5 @@ ${p.sections.map(sectionHtml)}
 <pre>${p.footerText}</pre>
 </footer>
 </main>`;
-  return `<!doctype html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<title>${html`${p.name}`.html} · singleshot</title>
-<style>${STYLE}</style>
-</head>
-<body>
-${body.html}
-</body>
-</html>
-`;
+  return documentHtml(`${p.name} · singleshot`, body);
 }

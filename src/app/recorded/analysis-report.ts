@@ -5,19 +5,19 @@
  * the records, so there is no budget and no noise-free line: the histogram's lines are Gaussians
  * of each outcome's fitted clean centre and spread (the ones its SNR uses).
  */
-import { extent, envelope, histogramCounts } from '../analysis/plot-data.ts';
-import { classifierNamed, DEFAULT_CLASSIFIER } from '../classify/registry.ts';
-import type { AnalysisManifest } from '../io/manifest.ts';
-import { openAnalysisFolder } from './run-folder.ts';
-import { displayUnit, probability, short, showValue, withUnit } from '../io/report/display.ts';
-import { noiseSpectrumView } from '../io/report/noise-view.ts';
-import { renderPage, type BuiltReport, type Card, type Figure, type SectionView } from '../io/report/page.ts';
-import { histogramSpec, rawTracesSpec, type TracePlot } from '../io/report/plots.ts';
-import { HISTOGRAM_BINS, iqView } from '../io/report/point-views.ts';
-import { readAnalysisSummary, readAnalysisValues, readExampleRecords, type AnalysisSummary } from '../io/report/read-analysis.ts';
-import { renderPlot, type PlotSpec } from '../io/report/svg.ts';
-import { assignmentTable } from '../io/report/tables.ts';
-import { stateColour } from '../io/report/theme.ts';
+import { extent, envelope, histogramCounts } from '../../analysis/plot-data.ts';
+import { classifierNamed, DEFAULT_CLASSIFIER } from '../../classify/registry.ts';
+import type { AnalysisManifest } from '../../io/manifest.ts';
+import { openAnalysisFolder } from '../run-folder.ts';
+import { displayUnit, probability, short, showValue, withUnit } from '../../io/report/display.ts';
+import { noiseSpectrumView } from '../../io/report/noise-view.ts';
+import { renderPage, type BuiltReport, type Card, type Figure, type SectionView } from '../../io/report/page.ts';
+import { histogramSpec, rawTracesSpec, type TracePlot } from '../../io/report/plots.ts';
+import { HISTOGRAM_BINS, iqView } from '../../io/report/point-views.ts';
+import { readAnalysisSummary, readAnalysisValues, readExampleRecords, type AnalysisSummary } from '../../io/report/read-analysis.ts';
+import { renderPlot, type PlotSpec } from '../../io/report/svg.ts';
+import { assignmentTable } from '../../io/report/tables.ts';
+import { stateColour } from '../../io/report/theme.ts';
 
 /** The outcome names of the analysis (from its pipeline file, else the summary's columns, else 0/1). */
 function outcomesOf(pipeline: Record<string, unknown>, summary: AnalysisSummary | null): [string, string] {

@@ -7,17 +7,17 @@
  */
 import { existsSync, statSync } from 'node:fs';
 import { dirname, extname } from 'node:path';
-import { InputError } from '../errors.ts';
-import { fitRecords, type FitSettings } from '../fit/fit-records.ts';
-import type { FittedReadout } from '../fit/fitted-readout.ts';
-import { writeFileAtomic } from '../io/atomic-file.ts';
-import { TOOL_VERSION } from '../io/metadata.ts';
-import { locateRecords, openLabels, openRecords } from '../io/records/open.ts';
-import type { RecordSet } from '../io/records/record-set.ts';
-import { fitReportHtml } from '../io/report/fit-page.ts';
-import { twinScenarioYaml, type TwinDocument } from '../io/scenario-yaml.ts';
-import { loadScenarioText } from '../scenario/load.ts';
-import { formatQuantity } from '../scenario/units.ts';
+import { InputError } from '../../errors.ts';
+import { fitRecords, type FitSettings } from '../../fit/fit-records.ts';
+import type { FittedReadout } from '../../fit/fitted-readout.ts';
+import { writeFileAtomic } from '../../io/atomic-file.ts';
+import { TOOL_VERSION } from '../../io/metadata.ts';
+import { locateRecords, openLabels, openRecords } from '../../io/records/open.ts';
+import type { RecordSet } from '../../io/records/record-set.ts';
+import { fitReportHtml } from '../../io/report/fit-page.ts';
+import { twinScenarioYaml, type TwinDocument } from '../../io/scenario-yaml.ts';
+import { loadScenarioText } from '../../scenario/load.ts';
+import { formatQuantity } from '../../scenario/units.ts';
 
 /** Fewest records the fit takes (the bootstrap needs groups of them). */
 export const MIN_RECORDS = 10;
