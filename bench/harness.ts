@@ -12,7 +12,7 @@ export interface BenchResult {
 
 export interface BenchCase {
   name: string;
-  unit: 'samples/s' | 'shots/s' | 'MB';
+  unit: 'samples/s' | 'shots/s' | 'MB' | '× a bare Node start';
   /** Name of the numpy baseline the rate is compared with (a bench/*.py script), if any. */
   baseline?: 'numpy-trace' | 'numpy-exact';
   /** Which baseline figure to compare with. */

@@ -80,7 +80,7 @@ export async function refineWithin(
     const r = await runPoints(all, {
       executor, firstPoint: index, onScoredBatch: o.onScoredBatch,
       engine: { engine: result.engine === 'exact' ? 'exact' : 'traces', reason: result.engineReason },
-      onProgress: o.onProgress ? (done) => o.onProgress!(before + done, total) : undefined,
+      onProgress: o.onProgress ? (done, _total, phase) => { if (phase === 'simulating') o.onProgress!(before + done, total, phase); } : undefined,
     });
     const p = r.points[0]!;
     result.points.push(p);

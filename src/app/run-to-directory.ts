@@ -42,7 +42,8 @@ export interface RunToDirectoryOptions extends ScenarioOverrides {
   shotsTable?: boolean;
   shard?: { index: number; count: number };
   executor?: BatchExecutor;
-  onProgress?: (done: number, total: number) => void;
+  /** Shots done of the phase's total after every batch: 'calibrating', then 'simulating'. */
+  onProgress?: RunOptions['onProgress'];
   onWarning?: (message: string) => void;
   /** Stream every scored shot's record (raw) or demodulated I/Q (baseband) to traces.arrow. */
   keepTraces?: 'raw' | 'baseband';

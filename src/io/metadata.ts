@@ -6,10 +6,11 @@ import { readFileSync } from 'node:fs';
 
 export const META_PREFIX = 'singleshot.';
 
+/** The package's package.json: two folders up from this source (src/io/), one up from the built chunks (dist/). */
+const PACKAGE_JSON = new URL(import.meta.url.endsWith('.ts') ? '../../package.json' : '../package.json', import.meta.url);
+
 /** The tool version from package.json. */
-export const TOOL_VERSION: string = (JSON.parse(
-  readFileSync(new URL('../../package.json', import.meta.url), 'utf8'),
-) as { version: string }).version;
+export const TOOL_VERSION: string = (JSON.parse(readFileSync(PACKAGE_JSON, 'utf8')) as { version: string }).version;
 
 export interface RunProvenance {
   /** Canonical JSON of the scenario document as run (overrides applied). */

@@ -4,24 +4,26 @@
  * in task order. Every batch draws only from its own seeding blocks' streams, so the results
  * are identical to one thread's, whatever N.
  *
- * Workers do not inherit the TypeScript loader of the main thread, so each one starts from a
- * small JavaScript snippet that registers tsx (`tsx/esm/api`) and then imports the worker module
- * (pool-worker.ts). Results come back with their typed arrays transferred, not copied.
+ * Each worker starts from a small JavaScript snippet that imports the worker module: the built
+ * pool-worker.js, or, when this module runs from its TypeScript source (tests, benchmarks), the
+ * source pool-worker.ts after registering tsx (`tsx/esm/api`, a development dependency), since
+ * workers do not inherit the main thread's loader. Results come back with their typed arrays
+ * transferred, not copied.
  */
-import { availableParallelism } from 'node:os';
 import { createRequire } from 'node:module';
 import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { InputError, ScenarioProblem } from '../errors.ts';
+import { usableCores } from './cores.ts';
 import type { ShotBatch } from '../engine/trace/batch.ts';
 import type { BatchTask, TaskList } from './batches.ts';
 import type { TalliedBatch } from '../engine/exact/fused.ts';
 import type { BatchExecutor } from './executor.ts';
 import type { PointPlan } from '../engine/point-plan.ts';
 
-/** The default number of workers: every core the process may use. */
+/** The default number of workers: every physical core the process may use (run/cores.ts). */
 export function defaultWorkers(): number {
-  return availableParallelism();
+  return usableCores();
 }
 
 /** Messages from the main thread to a worker. */
@@ -68,9 +70,11 @@ function tsxApi(): string {
   return pathToFileURL(createRequire(import.meta.url).resolve('tsx/esm/api').replace(/\.cjs$/, '.mjs')).href;
 }
 
+/** The worker module: dist/pool-worker.js beside the built chunks, or pool-worker.ts beside this source (tests, benchmarks). */
 function workerModule(): { module: string; tsx: string | null } {
-  const module = new URL('./pool-worker.ts', import.meta.url).href;
-  return { module, tsx: module.endsWith('.ts') ? tsxApi() : null };
+  const fromSources = import.meta.url.endsWith('.ts');
+  const module = new URL(fromSources ? './pool-worker.ts' : './pool-worker.js', import.meta.url).href;
+  return { module, tsx: fromSources ? tsxApi() : null };
 }
 
 /** Rebuilds an error that crossed from a worker (an InputError stays one, for the CLI's exit code 2). */

@@ -23,7 +23,8 @@ export interface RunOptions {
   shard?: { index: number; count: number };
   /** Called for every scored batch, in order (e.g. to stream shots to a table). */
   onScoredBatch?: (point: PointResult, batch: ShotBatch, scored: ScoredPipeline[]) => void | Promise<void>;
-  onProgress?: (doneShots: number, totalShots: number) => void;
+  /** Shots done of the phase's total, after every batch: calibration shots first, then scored shots. */
+  onProgress?: (doneShots: number, totalShots: number, phase: RunPhase) => void;
   /** Called once, after every point is calibrated and before the first scored batch. */
   onCalibrated?: (points: readonly PointResult[]) => void | Promise<void>;
   /** Engine: 'exact', 'traces', 'auto', or a choice already made (engine/choose.ts). Default 'traces'. */
@@ -34,11 +35,8 @@ export interface RunOptions {
   firstPoint?: number;
 }
 
-export interface RunResult {
-  points: PointResult[];
-  engine: string;
-  engineReason: string;
-}
+/** What a run is doing: simulating calibration shots, or the scored shots. */
+export type RunPhase = 'calibrating' | 'simulating';
 
 export interface RunResult {
   points: PointResult[];
@@ -69,6 +67,8 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
   // batches arrive in task order, i.e. point by point: calibrate each point as soon as its
   // batches are in, so only one point's calibration shots are held at a time
   let pending: ShotBatch[] = [];
+  const calibrationShots = points.reduce((a, p, i) => a + (i < first ? 0 : batchPlan(p.scenario, i, 'calibrate').shots), 0);
+  let calibrated = 0;
   const calibratePending = () => {
     if (pending.length === 0) return;
     const i = pending[0]!.point;
@@ -85,6 +85,8 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
     if ('kind' in b) throw new Error('a calibration task came back tallied');
     if (pending.length > 0 && pending[0]!.point !== b.point) calibratePending();
     pending.push(b);
+    calibrated += b.count;
+    options.onProgress?.(calibrated, calibrationShots, 'calibrating');
   }
   calibratePending();
   if (options.onCalibrated) await options.onCalibrated(results);
@@ -114,7 +116,7 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
     if ('kind' in b) {
       addTalliedBatch(r, b);
       done += b.count;
-      options.onProgress?.(done, totalShots);
+      options.onProgress?.(done, totalShots, 'simulating');
       continue;
     }
     const scored = scoreBatch(r.compiled, r.calibrations, b);
@@ -122,7 +124,7 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
     if (b.clippedSamples !== undefined) r.clippedSamples = (r.clippedSamples ?? 0) + b.clippedSamples;
     if (options.onScoredBatch) await options.onScoredBatch(r, b, scored);
     done += b.count;
-    options.onProgress?.(done, totalShots);
+    options.onProgress?.(done, totalShots, 'simulating');
   }
   for (const r of results) finishPoint(r);
   await executor.close?.();

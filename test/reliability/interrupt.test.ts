@@ -61,7 +61,7 @@ describe('a run stopped mid-way (in-process)', () => {
     const controller = new AbortController();
     const run = runToDirectory({
       scenarioPath: TINY, outDir: dir, shots: 64 * 1024, report: false, free: FREE, signal: controller.signal, engine: 'traces',
-      onProgress: (done) => { if (done >= 2048) controller.abort('SIGINT'); },
+      onProgress: (done, _total, phase) => { if (phase === 'simulating' && done >= 2048) controller.abort('SIGINT'); },
     });
     await expect(run).rejects.toBeInstanceOf(RunInterrupted);
     await expect(run).rejects.toThrow(/interrupted by SIGINT; .* was left as it was/);
@@ -87,7 +87,7 @@ describe('a run stopped mid-way (in-process)', () => {
     const controller = new AbortController();
     await expect(runToDirectory({
       scenarioPath: TINY, outDir: dir, force: true, shots: 64 * 1024, report: false, free: FREE, signal: controller.signal, engine: 'traces',
-      onProgress: () => controller.abort('SIGINT'),
+      onProgress: (_done, _total, phase) => { if (phase === 'simulating') controller.abort('SIGINT'); },
     })).rejects.toBeInstanceOf(RunInterrupted);
     expect(snapshot(dir)).toEqual(before);
     expect(folderProblems(dir)).toEqual([]);

@@ -74,7 +74,7 @@ export function makeRunCommand(): Command {
       const progress = makeProgress({ quiet: opts.quiet });
       const { result, files, refinement, report, sweep } = await withInterruptSignals((signal) => runToDirectory({
         refine: opts.refine === undefined ? undefined : { key: opts.refine, points: opts.refinePoints },
-        report: opts.report, onProgress: (done, total) => progress.update(done, total),
+        report: opts.report, onProgress: (done, total, phase) => progress.update(done, total, phase),
         scenarioPath: file, outDir: opts.out, force: opts.force, shots: opts.shots, seed: opts.seed,
         shard: opts.shard, shotsTable: opts.shotsTable, signal, keepTraces: opts.keepTraces,
         engine: opts.engine, workers: opts.workers, parquet: opts.parquet,
