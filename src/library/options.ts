@@ -54,7 +54,9 @@ function problems(fn: string, schema: z.ZodType, input: unknown, issue: z.core.$
     });
   }
   const value = valueAt(input, path);
-  const found = issue.code === 'invalid_type' || issue.code === 'invalid_union' || value === undefined ? kindOf(value) : describeFound(value);
+  // a value of the right kind but not the right sort (1.5 for a whole number) is shown itself
+  const ofKind = issue.code === 'invalid_type' && issue.expected === 'int' && typeof value === 'number';
+  const found = (issue.code === 'invalid_type' || issue.code === 'invalid_union') && !ofKind ? kindOf(value) : describeFound(value);
   return [new InputError(optionName(path), '', issue.message, found)];
 }
 
