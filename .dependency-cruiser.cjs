@@ -2,8 +2,8 @@
 //
 // Data flows one way: use cases (src/app) → runs (src/run) → engines (src/engine) →
 // stages (src/physics, signal, dsp, classify, analysis, random) → bytes (src/io).
-// src/scenario turns the user's document into the typed Scenario; src/cli is the thin
-// command layer on top. Every rule below is an error: `depcruise` exits non-zero on any.
+// src/scenario turns the user's document into the typed Scenario; src/library is the API
+// (one checked function per command, over src/app) and src/cli the thin command layer on top. Every rule below is an error: `depcruise` exits non-zero on any.
 //
 // How the TypeScript sources are read: dependency-cruiser 16 reads TypeScript through the
 // compiler API of typescript < 6, and the project's typescript (7) ships no such API, so the
@@ -58,7 +58,7 @@ module.exports = {
         'Reading and validating the document comes first; it must not depend on what ' +
         'runs it or writes its results.',
       from: { path: '^src/scenario/' },
-      to: { path: '^src/(engine|run|app|io|cli)/' },
+      to: { path: '^src/(engine|run|app|io|cli|library)/' },
     },
     {
       name: 'engine-not-downstream',
@@ -67,7 +67,7 @@ module.exports = {
         'An engine computes one batch; planning runs, use cases, bytes and the command line ' +
         'sit above it.',
       from: { path: '^src/engine/' },
-      to: { path: '^src/(run|app|io|cli)/' },
+      to: { path: '^src/(run|app|io|cli|library)/' },
     },
     {
       name: 'run-not-downstream',
@@ -76,7 +76,7 @@ module.exports = {
         'Runs hand results back to their caller; writing them (io) and the use cases (app, ' +
         'cli) sit above.',
       from: { path: '^src/run/' },
-      to: { path: '^src/(app|io|cli)/' },
+      to: { path: '^src/(app|io|cli|library)/' },
     },
     {
       name: 'io-bytes-only',
@@ -85,14 +85,24 @@ module.exports = {
         'src/io turns values into bytes and back; it may know the stages, the Scenario and ' +
         'errors, but never runs anything (engine, run) or calls use cases (app, cli).',
       from: { path: '^src/io/' },
-      to: { path: '^src/(engine|run|app|cli)/' },
+      to: { path: '^src/(engine|run|app|cli|library)/' },
     },
     {
       name: 'app-not-cli',
       severity: 'error',
       comment:
-        'The use cases are the library API; the command line is one caller of it, not a part.',
+        'The use cases sit under the library API (src/library) and the command line, which ' +
+        'call them; they call neither.',
       from: { path: '^src/app/' },
+      to: { path: '^src/(cli|library)/' },
+    },
+    {
+      name: 'library-not-cli',
+      severity: 'error',
+      comment:
+        'The library is the API the command line calls (so the two cannot drift); it never ' +
+        'calls the command line.',
+      from: { path: '^src/library/' },
       to: { path: '^src/cli/' },
     },
     {

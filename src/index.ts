@@ -1,14 +1,23 @@
 /**
- * singleshot as a library: every command of the CLI is a function here.
+ * singleshot as a library: every command of the CLI is a function here (src/library), taking
+ * one options object checked like the command's options (a wrong name or type is an
+ * InputError naming the option) and with the command's defaults (`DEFAULTS`), so the same
+ * scenario, seed and options give the same tables from code and from the command line.
  */
-export { runToDirectory, type RunToDirectoryOptions, type RunToDirectoryResult } from './app/run-to-directory.ts';
-export { checkScenarioFile, checkScenarioDocument, type CheckedScenario } from './app/check.ts';
-export { reportFolder, type ReportOptions } from './app/report.ts';
-export { mergeRuns, type MergeOptions } from './app/merge.ts';
-export { rerunDirectory, type RerunOptions } from './app/rerun.ts';
-export { analyzeToDirectory, type AnalyzeOptions } from './app/recorded/analyze.ts';
-export { runPoints, type RunResult } from './run/run-points.ts';
+export { runScenario, type RunScenarioOptions, type RunScenarioResult } from './library/run.ts';
+export { checkScenario, type CheckScenarioOptions, type CheckScenarioResult } from './library/check.ts';
+export { analyzeRecords, type AnalyzeRecordsOptions, type AnalyzeRecordsResult } from './library/analyze.ts';
+export { fitTwin, type FitTwinOptions, type FitTwinResult } from './library/fit.ts';
+export { mergeRunFolders, type MergeRunFoldersOptions, type MergeRunFoldersResult } from './library/merge.ts';
+export { rerunFolder, type RerunFolderOptions, type RerunFolderResult } from './library/rerun.ts';
+export { writeRunReport, type WriteRunReportOptions, type WriteRunReportResult } from './library/report.ts';
+export type { RecordsOptions } from './library/records-options.ts';
+export type { ScenarioDocument } from './library/scenario-input.ts';
+export { DEFAULTS, ENGINES, type EngineName } from './library/defaults.ts';
+export { runPoints, type RunResult, type RunPhase } from './run/run-points.ts';
 export { inProcessExecutor, type BatchExecutor } from './run/executor.ts';
+export { RunInterrupted } from './run/interrupt.ts';
+export type { RunEstimate } from './run/estimate.ts';
 export type { PointResult } from './run/point-result.ts';
 export type { SweepPoint } from './run/sweep-point.ts';
 export { compilePoint, type CompiledPoint } from './engine/compile-point.ts';
@@ -25,6 +34,5 @@ export { barthelErrors } from './analysis/barthel.ts';
 export { gaussianTail } from './analysis/special.ts';
 export { wilsonInterval, clopperPearsonInterval } from './analysis/intervals.ts';
 export { resultToJson } from './app/result-json.ts';
-export { fitToScenario, type FitOptions, type FitResult } from './app/recorded/fit.ts';
-export { InputError, ScenarioProblem } from './errors.ts';
+export { InputError, InputErrors, ScenarioProblem } from './errors.ts';
 export { main } from './cli/main.ts';

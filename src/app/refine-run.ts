@@ -9,12 +9,9 @@ import type { LoadedScenario } from '../scenario/load.ts';
 import { runPoints, type RunOptions, type RunResult } from '../run/run-points.ts';
 import { inProcessExecutor } from '../run/executor.ts';
 import type { SweepPoint } from '../run/sweep-point.ts';
-import { refineAxis, refineMinimum, type Refinement } from '../run/refine.ts';
+import { DEFAULT_REFINE_POINTS, refineAxis, refineMinimum, type Refinement } from '../run/refine.ts';
 import { sweepPointAt } from '../run/sweep.ts';
 import { interruptibleExecutor } from '../run/interrupt.ts';
-
-/** Default number of points a refinement adds. */
-export const DEFAULT_REFINE_POINTS = 6;
 
 /** What to refine: the swept value (key path or column; true = choose) and how many points to add. */
 export interface RefineRequest {

@@ -7,7 +7,7 @@
  */
 import { join } from 'node:path';
 import { InputError, ScenarioProblem } from '../errors.ts';
-import { loadScenarioFile, type LoadedScenario } from '../scenario/load.ts';
+import { loadScenarioDocument, loadScenarioFile, type LoadedScenario } from '../scenario/load.ts';
 import type { ScenarioOverrides } from '../scenario/overrides.ts';
 import type { SweepSpec } from '../scenario/types.ts';
 import { runPoints, type RunOptions, type RunResult } from '../run/run-points.ts';
@@ -25,7 +25,8 @@ import { freeResources, guardResources, type FreeResources } from './resource-gu
 import { abortSignalName, checkpoint, interruptibleExecutor, RunInterrupted } from '../run/interrupt.ts';
 import { inProcessExecutor } from '../run/executor.ts';
 import { expandSweep } from '../run/sweep.ts';
-import { checkRefineRequest, DEFAULT_REFINE_POINTS, refineWithin, type RefineRequest, type RefineOutcome } from './refine-run.ts';
+import { DEFAULT_REFINE_POINTS } from '../run/refine.ts';
+import { checkRefineRequest, refineWithin, type RefineRequest, type RefineOutcome } from './refine-run.ts';
 import { writeReport } from './report.ts';
 import { resolveEngine } from '../run/run-points.ts';
 import type { EngineChoice, EngineRequest } from '../engine/choose.ts';
@@ -35,7 +36,10 @@ import { writeResultTables } from './result-tables.ts';
 import { runTallies, TALLIES, writeTallies } from './tallies.ts';
 
 export interface RunToDirectoryOptions extends ScenarioOverrides {
+  /** The scenario file; with `scenarioDocument`, only the name messages give the document. */
   scenarioPath: string;
+  /** The scenario as a parsed document (what a scenario file holds): no file is read. */
+  scenarioDocument?: unknown;
   outDir: string;
   force?: boolean;
   /** Write shots.arrow (default true). */
@@ -59,7 +63,7 @@ export interface RunToDirectoryOptions extends ScenarioOverrides {
   report?: boolean;
   /** Also write every table as Parquet (X.parquet beside X.arrow). */
   parquet?: boolean;
-  /** Engine: exact, traces or auto (default traces; the CLI's default is auto). */
+  /** Engine: exact, traces or auto (default traces here; `runScenario` in src/library, which the CLI calls, passes its default, auto). */
   engine?: EngineRequest;
   /** Further files or folders the command reads, which the output folder must not be or hold (rerun's folder). */
   inputs?: readonly CommandInput[];
@@ -138,7 +142,10 @@ export function expandPoints(loaded: Awaited<ReturnType<typeof loadScenarioFile>
 }
 
 export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDirectoryResult> {
-  const loaded = await loadScenarioFile(o.scenarioPath, { shots: o.shots, seed: o.seed });
+  const overrides = { shots: o.shots, seed: o.seed };
+  const loaded = o.scenarioDocument === undefined
+    ? await loadScenarioFile(o.scenarioPath, overrides)
+    : loadScenarioDocument(o.scenarioDocument, o.scenarioPath, overrides);
   loaded.warnings.forEach((w) => o.onWarning?.(w));
   const points = expandPoints(loaded, o.scenarioPath);
   if (o.refine) checkRefineRequest(o.refine, loaded, o.scenarioPath, o.shard);
@@ -165,7 +172,8 @@ export async function runToDirectory(o: RunToDirectoryOptions): Promise<RunToDir
   guardResources(o.scenarioPath, estimate, o.free ?? freeResources(o.outDir), o.force ?? false);
   if (o.signal?.aborted) throw new RunInterrupted(abortSignalName(o.signal), `${o.outDir} was not touched`);
   const out = OutputFolder.open(o.outDir, {
-    force: o.force ?? false, command: 'run', inputs: [{ path: o.scenarioPath, kind: 'file' }, ...(o.inputs ?? [])],
+    force: o.force ?? false, command: 'run',
+    inputs: [...(o.scenarioDocument === undefined ? [{ path: o.scenarioPath, kind: 'file' as const }] : []), ...(o.inputs ?? [])],
   });
   try {
     const done = await runIntoFolder(o, out, loaded, points, choice, threads);

@@ -42,7 +42,7 @@ export function scaleOption(text: string): number {
   return x;
 }
 
-export function unitOption(text: string): string {
+export function unitOption(text: string): 'A' | 'V' | 'none' {
   if (text !== 'A' && text !== 'V' && text !== 'none') throw new InvalidArgumentError(`--unit takes A, V or none, found "${text}"`);
   return text;
 }
@@ -54,7 +54,7 @@ export interface RecordOptions {
   carrier?: number | 'none';
   window?: { start: number; length: number };
   scale?: number;
-  unit?: string;
+  unit?: 'A' | 'V' | 'none';
 }
 
 /** Adds the records argument and RecordOptions to `command` (`carrierDefault` says what happens when none is given). */

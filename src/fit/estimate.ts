@@ -7,6 +7,11 @@
  */
 import type { RandomStream } from '../random/stream.ts';
 
+/** Bootstrap resamples unless told otherwise (`fit --resamples`, the library's `resamples`). */
+export const DEFAULT_RESAMPLES = 30;
+/** Seed of the bootstrap unless told otherwise (`fit --seed`, the library's `seed`). */
+export const DEFAULT_BOOTSTRAP_SEED = 1;
+
 /** A value and its standard error (NaN when none could be computed). */
 export interface Estimate {
   value: number;

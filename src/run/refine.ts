@@ -9,6 +9,9 @@
 import type { SweepSpec } from '../scenario/types.ts';
 import type { RateInterval } from '../analysis/intervals.ts';
 
+/** Points a refinement adds unless told otherwise (the CLI's `--refine-points` and the library's `refinePoints` default). */
+export const DEFAULT_REFINE_POINTS = 6;
+
 /** 1/φ = (√5 − 1)/2. */
 const INVERSE_GOLDEN = (Math.sqrt(5) - 1) / 2;
 

@@ -62,7 +62,8 @@ const GOOD: Record<string, string> = {
   'src/app/use-case.ts':
     "import { points } from '../run/points.ts';\nimport { table } from '../io/table.ts';\n"
     + "export const useCase = async () => [points, table, await import('yaml')];\n",
-  'src/cli/main.ts': "import { useCase } from '../app/use-case.ts';\nexport const main = useCase;\n",
+  'src/library/api.ts': "import { useCase } from '../app/use-case.ts';\nexport const api = useCase;\n",
+  'src/cli/main.ts': "import { useCase } from '../app/use-case.ts';\nimport { api } from '../library/api.ts';\nexport const main = [useCase, api];\n",
   'test/support/helper.ts': 'export const helper = 1;\n',
 };
 
@@ -85,6 +86,8 @@ const BREACHES: [string, string, string, string][] = [
   ['src/io/app.ts', "export type { useCase } from '../app/use-case.ts';\n", 'io-bytes-only', 'src/app/use-case.ts'],
   ['src/io/engine.ts', "import { batch } from '../engine/batch.ts';\nexport const b = batch;\n", 'io-bytes-only', 'src/engine/batch.ts'],
   ['src/app/cli.ts', "import { main } from '../cli/main.ts';\nexport const m = main;\n", 'app-not-cli', 'src/cli/main.ts'],
+  ['src/app/library.ts', "import type { api } from '../library/api.ts';\nexport type A = typeof api;\n", 'app-not-cli', 'src/library/api.ts'],
+  ['src/library/cli.ts', "import { main } from '../cli/main.ts';\nexport const m = main;\n", 'library-not-cli', 'src/cli/main.ts'],
   ['src/dev.ts', "import { helper } from '../test/support/helper.ts';\nexport const h = helper;\n", 'src-not-dev-folders', 'test/support/helper.ts'],
   ['src/missing.ts', "import { nothing } from './nowhere.ts';\nexport const y = nothing;\n", 'no-unresolvable', './nowhere.ts'],
   ['src/classify/orphan.ts', 'export const lonely = 1;\n', 'no-orphans', ''],

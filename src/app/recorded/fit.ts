@@ -9,6 +9,7 @@ import { existsSync, statSync } from 'node:fs';
 import { dirname, extname } from 'node:path';
 import { InputError } from '../../errors.ts';
 import { fitRecords, type FitSettings } from '../../fit/fit-records.ts';
+import { DEFAULT_BOOTSTRAP_SEED, DEFAULT_RESAMPLES } from '../../fit/estimate.ts';
 import type { FittedReadout } from '../../fit/fitted-readout.ts';
 import { writeFileAtomic } from '../../io/atomic-file.ts';
 import { TOOL_VERSION } from '../../io/metadata.ts';
@@ -39,9 +40,9 @@ export interface FitOptions {
   scale?: number;
   /** The records' unit: 'A', 'V' or '' (plain numbers). */
   unit?: string;
-  /** Bootstrap resamples (default 30). */
+  /** Bootstrap resamples (default DEFAULT_RESAMPLES, 30). */
   resamples?: number;
-  /** Seed of the bootstrap (default 1). */
+  /** Seed of the bootstrap (default DEFAULT_BOOTSTRAP_SEED, 1). */
   seed?: number;
   /** Write the fit report (default true). */
   report?: boolean;
@@ -142,7 +143,7 @@ export async function fitToScenario(o: FitOptions): Promise<FitResult> {
       if (l.values.length !== set.rows) throw new InputError(l.source, '', `one label per record (${set.rows} records in ${set.source})`, `${l.values.length} labels`);
       labels = { values: l.values, names: [l.names[0] ?? '0', l.names[1] ?? '1'] };
     }
-    fitted = fitRecords(set, { ...chosen.settings, labels, seed: o.seed ?? 1, resamples: o.resamples ?? 30 });
+    fitted = fitRecords(set, { ...chosen.settings, labels, seed: o.seed ?? DEFAULT_BOOTSTRAP_SEED, resamples: o.resamples ?? DEFAULT_RESAMPLES });
   } finally {
     set.close();
   }

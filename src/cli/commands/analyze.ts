@@ -1,17 +1,14 @@
 /** `singleshot analyze RECORDS --out DIR [--pipeline FILE] [--labels LABELS]`: run a pipeline on a lab's records. */
 import { Command } from 'commander';
-import { analyzeToDirectory, type AnalyzeResult } from '../../app/recorded/analyze.ts';
+import type { AnalyzeRecordsResult } from '../../library/analyze.ts';
 import { formatQuantity } from '../../scenario/units.ts';
-import { classifierNamed } from '../../classify/registry.ts';
 import { formatProbability, rows } from '../format.ts';
 import { withRecordOptions, type RecordOptions } from '../quantity-option.ts';
 
 const interval = (x: { rate: number; low: number; high: number }) => `[${formatProbability(x.low)}, ${formatProbability(x.high)}]`;
-import { withInterruptSignals } from '../signals.ts';
 
-/** The readable summary of an analysis. */
-export function formatAnalysis(r: AnalyzeResult, out: string, classifier: string): string {
-  const signal = classifierNamed(classifier).signalUnitStatistic;
+/** The readable summary of an analysis (`signal`: the classifier's statistic is in the signal's unit). */
+export function formatAnalysis(r: AnalyzeRecordsResult, out: string, signal: boolean): string {
   const q = (x: number) => formatQuantity(x, r.unit);
   const lines = [
     `${r.rows} ${r.complex ? 'complex (I and Q) ' : ''}records from ${r.source}, pipeline "${r.pipeline}" (${r.bins} bins a record)`,
@@ -42,7 +39,7 @@ export function formatAnalysis(r: AnalyzeResult, out: string, classifier: string
 }
 
 /** The --json object of an analysis. */
-function analysisJson(r: AnalyzeResult, out: string): Record<string, unknown> {
+function analysisJson(r: AnalyzeRecordsResult, out: string): Record<string, unknown> {
   const s = r.summary;
   return {
     pipeline: r.pipeline, records: r.source, rows: r.rows, complex: r.complex, bins: r.bins,
@@ -71,14 +68,17 @@ export function makeAnalyzeCommand(): Command {
     .option('--json', 'print the result as one JSON object on stdout')
     .option('--force', 'replace the files of a non-empty --out folder')
     .action(async (records: string, opts: RecordOptions & { out: string; pipeline?: string; parquet?: boolean; json?: boolean; force?: boolean }) => {
-      const r = await withInterruptSignals((signal) => analyzeToDirectory({
-        records, pipelinePath: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force,
-        sampleRate: opts.sampleRate, carrierFrequency: opts.carrier === 'none' ? 0 : opts.carrier, window: opts.window, scale: opts.scale,
-        unit: opts.unit === undefined ? undefined : opts.unit === 'none' ? '' : opts.unit, parquet: opts.parquet, signal,
+      const [{ analyzeRecords }, { withInterruptSignals }, { classifierNamed }] = await Promise.all([
+        import('../../library/analyze.ts'), import('../signals.ts'), import('../../classify/registry.ts'),
+      ]);
+      const r = await withInterruptSignals((signal) => analyzeRecords({
+        records, pipeline: opts.pipeline, outDir: opts.out, labels: opts.labels, force: opts.force,
+        sampleRate: opts.sampleRate, carrier: opts.carrier, window: opts.window, scale: opts.scale,
+        unit: opts.unit, parquet: opts.parquet, signal,
       }));
       for (const n of r.notes) process.stderr.write(`note: ${n}\n`);
       if (opts.json) {
         process.stdout.write(JSON.stringify(analysisJson(r, opts.out), (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)) + '\n');
-      } else process.stdout.write(formatAnalysis(r, opts.out, r.classifier) + '\n');
+      } else process.stdout.write(formatAnalysis(r, opts.out, classifierNamed(r.classifier).signalUnitStatistic) + '\n');
     });
 }

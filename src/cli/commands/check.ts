@@ -2,7 +2,6 @@
  * `singleshot check FILE`: validate a scenario file and say what it describes.
  */
 import { Command } from 'commander';
-import { checkScenarioFile } from '../../app/check.ts';
 
 /**
  * Makes the `check` command: prints "FILE: ok (…)" on stdout and each warning on stderr.
@@ -13,7 +12,8 @@ export function makeCheckCommand(): Command {
     .description('check a scenario file and summarise it (problems are reported with their key path)')
     .argument('<file>', 'scenario file (YAML or JSON)')
     .action(async (file: string) => {
-      const { loaded, summary } = await checkScenarioFile(file);
+      const { checkScenario } = await import('../../library/check.ts');
+      const { loaded, summary } = await checkScenario({ scenario: file });
       process.stdout.write(`${file}: ok (${summary})\n`);
       for (const w of loaded.warnings) process.stderr.write(`warning: ${w}\n`);
     });

@@ -1,12 +1,13 @@
 /** `singleshot fit RECORDS --out twin.yaml`: fit a scenario to recorded traces. */
 import { Command } from 'commander';
-import { fitToScenario, type FitResult } from '../../app/recorded/fit.ts';
+import type { FitTwinResult } from '../../library/fit.ts';
 import { formatQuantity } from '../../scenario/units.ts';
 import { withRecordOptions, type RecordOptions } from '../quantity-option.ts';
 import { positiveInteger, seedNumber } from './run.ts';
+import { DEFAULTS } from '../../library/defaults.ts';
 
 /** The readable summary of a fit. */
-export function formatFit(r: FitResult): string {
+export function formatFit(r: FitTwinResult): string {
   const f = r.fitted;
   const q = (x: number, u: string) => formatQuantity(x, u, 4);
   const signal = r.unit;
@@ -30,15 +31,16 @@ export function makeFitCommand(): Command {
   return withRecordOptions(new Command('fit')
     .description('fit a scenario (a twin) to recorded traces: levels, carrier, noise spectrum, transition rates, preparation errors'), 'found in real records')
     .requiredOption('--out <file>', 'the scenario file to write (the fit report goes beside it, as .html)')
-    .option('--resamples <n>', 'bootstrap resamples for the uncertainties (default 30)', positiveInteger('--resamples'))
-    .option('--seed <n>', 'seed of the bootstrap (default 1)', seedNumber)
+    .option('--resamples <n>', `bootstrap resamples for the uncertainties (default ${DEFAULTS.resamples})`, positiveInteger('--resamples'))
+    .option('--seed <n>', `seed of the bootstrap (default ${DEFAULTS.bootstrapSeed})`, seedNumber)
     .option('--no-report', 'do not write the fit report')
     .option('--force', 'replace an existing --out file')
     .option('--json', 'print the fitted numbers as one JSON object on stdout')
     .action(async (records: string, o: RecordOptions & { out: string; resamples?: number; seed?: number; report: boolean; force?: boolean; json?: boolean }) => {
-      const r = await fitToScenario({
+      const { fitTwin } = await import('../../library/fit.ts');
+      const r = await fitTwin({
         records, out: o.out, labels: o.labels, sampleRate: o.sampleRate, carrier: o.carrier, window: o.window, scale: o.scale,
-        unit: o.unit === 'none' ? '' : o.unit, resamples: o.resamples, seed: o.seed, report: o.report, force: o.force,
+        unit: o.unit, resamples: o.resamples, seed: o.seed, report: o.report, force: o.force,
       });
       for (const w of r.warnings) process.stderr.write(`warning: ${w}\n`);
       if (o.json) {

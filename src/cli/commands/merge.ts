@@ -1,9 +1,5 @@
 /** `singleshot merge DIR... --out DIR`: put the folders of a sharded run back together. */
 import { Command } from 'commander';
-import { mergeRuns } from '../../app/merge.ts';
-import { resultToJson } from '../../app/result-json.ts';
-import { formatResult } from '../format.ts';
-import { withInterruptSignals } from '../signals.ts';
 
 export function makeMergeCommand(): Command {
   return new Command('merge')
@@ -15,7 +11,10 @@ export function makeMergeCommand(): Command {
     .option('--verbose', 'print every point of a sweep in full (default: one line per point)')
     .option('--no-report', 'do not write report.html')
     .action(async (dirs: string[], opts: { out: string; force?: boolean; json?: boolean; verbose?: boolean; report: boolean }) => {
-      const { result, files, shards, sweep } = await withInterruptSignals((signal) => mergeRuns({ dirs, outDir: opts.out, force: opts.force, report: opts.report, signal }));
+      const [{ mergeRunFolders }, { withInterruptSignals }, { resultToJson }, { formatResult }] = await Promise.all([
+        import('../../library/merge.ts'), import('../signals.ts'), import('../../app/result-json.ts'), import('../format.ts'),
+      ]);
+      const { result, files, shards, sweep } = await withInterruptSignals((signal) => mergeRunFolders({ folders: dirs, outDir: opts.out, force: opts.force, report: opts.report, signal }));
       if (opts.json) process.stdout.write(JSON.stringify(resultToJson(result, { out: opts.out, files, mergedFrom: shards }, sweep)) + '\n');
       else process.stdout.write(formatResult(result, { sweep, verbose: opts.verbose }) + `\nmerged ${shards.length} shard${shards.length === 1 ? '' : 's'} into ${opts.out}: ${files.join(', ')}\n`);
     });

@@ -1,7 +1,5 @@
 /** `singleshot report DIR`: rebuild report.html of a finished run from its tables alone. */
 import { Command } from 'commander';
-import { reportFolder } from '../../app/report.ts';
-import { withInterruptSignals } from '../signals.ts';
 
 /** Makes the `report` command: writes DIR/report.html (or --out FILE) and prints its path. */
 export function makeReportCommand(): Command {
@@ -11,7 +9,8 @@ export function makeReportCommand(): Command {
     .option('--out <file>', 'where to write the page (default DIR/report.html)')
     .option('--force', 'replace the page if a file is there already (never one of the run\'s tables)')
     .action(async (dir: string, opts: { out?: string; force?: boolean }) => {
-      const { path } = await withInterruptSignals((signal) => reportFolder({ dir, out: opts.out, force: opts.force, signal }));
+      const [{ writeRunReport }, { withInterruptSignals }] = await Promise.all([import('../../library/report.ts'), import('../signals.ts')]);
+      const { path } = await withInterruptSignals((signal) => writeRunReport({ folder: dir, out: opts.out, force: opts.force, signal }));
       process.stdout.write(`${path}\n`);
     });
 }

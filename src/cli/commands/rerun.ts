@@ -1,7 +1,5 @@
 /** `singleshot rerun DIR [--out DIR2]`: reproduce a finished run from its own tables and compare the bytes. */
 import { Command } from 'commander';
-import { formatRerun, rerunDirectory } from '../../app/rerun.ts';
-import { withInterruptSignals } from '../signals.ts';
 import { ExitStatus } from '../exit.ts';
 import { positiveInteger } from './run.ts';
 
@@ -19,8 +17,11 @@ export function makeRerunCommand(): Command {
     .option('--workers <n>', 'simulation threads for the rerun (results must not depend on it)', positiveInteger('--workers'))
     .option('--quiet', 'no warnings on stderr')
     .action(async (dir: string, opts: { out?: string; force?: boolean; workers?: number; quiet?: boolean }) => {
-      const r = await withInterruptSignals((signal) => rerunDirectory({
-        dir, outDir: opts.out, force: opts.force, workers: opts.workers, signal,
+      const [{ rerunFolder }, { withInterruptSignals }, { formatRerun }] = await Promise.all([
+        import('../../library/rerun.ts'), import('../signals.ts'), import('../../app/rerun.ts'),
+      ]);
+      const r = await withInterruptSignals((signal) => rerunFolder({
+        folder: dir, outDir: opts.out, force: opts.force, workers: opts.workers, signal,
         onWarning: (w) => { if (!opts.quiet) process.stderr.write(`warning: ${w}\n`); },
       }));
       process.stdout.write(`${formatRerun(dir, r)}\n`);

@@ -1,16 +1,8 @@
 /** `singleshot run FILE --out DIR`: simulate, compare with the budget, write the tables. */
 import { Command, InvalidArgumentError } from 'commander';
-import { runToDirectory } from '../../app/run-to-directory.ts';
-import { resultToJson } from '../../app/result-json.ts';
-import { formatResult } from '../format.ts';
-import { makeProgress } from '../progress.ts';
-import { formatOperatingPoints } from '../format-operating.ts';
-import { operatingPointJson, runOperatingPoints } from '../../app/operating-json.ts';
-import { withInterruptSignals } from '../signals.ts';
-import { describeEstimate } from '../../app/resource-guard.ts';
-import { defaultWorkers } from '../../run/pool.ts';
 import type { EngineRequest } from '../../engine/choose.ts';
 import { MAX_SHARDS, parseShardText } from '../../io/manifest.ts';
+import { coresForWorkers, DEFAULTS } from '../../library/defaults.ts';
 
 /** Runs longer than this (estimated, seconds) get a note with the estimate on stderr. */
 const ESTIMATE_NOTE_SECONDS = 60;
@@ -65,17 +57,21 @@ export function makeRunCommand(): Command {
     .option('--force', 'replace the files of a non-empty --out folder, and run even if the estimate exceeds free memory or disk')
     .option('--quiet', 'no progress or warnings on stderr')
     .option('--refine [key]', 'after a sweep, add golden-section points along one swept value (key path; default: the only or first range) to refine the error minimum')
-    .option('--refine-points <n>', 'points --refine adds (default 6)', positiveInteger('--refine-points'))
+    .option('--refine-points <n>', `points --refine adds (default ${DEFAULTS.refinePoints})`, positiveInteger('--refine-points'))
     .option('--no-report', 'do not write report.html')
     .option('--parquet', 'also write every table as Parquet (X.parquet beside X.arrow), for DuckDB, polars and other Parquet readers')
-    .option('--engine <kind>', 'exact (draw each integrated value from its exact distribution), traces (synthesise every sample), or auto: exact when valid', engineOption, 'auto')
-    .option('--workers <n>', `simulation threads (default: all ${defaultWorkers()} cores for a run estimated over 2 s whose batches take over 5 ms — trace engine, or exact with 1/f — else 1)`, positiveInteger('--workers'))
+    .option('--engine <kind>', 'exact (draw each integrated value from its exact distribution), traces (synthesise every sample), or auto: exact when valid', engineOption, DEFAULTS.engine)
+    .option('--workers <n>', `simulation threads (default: all ${coresForWorkers()} cores for a run estimated over 2 s whose batches take over 5 ms — trace engine, or exact with 1/f — else 1)`, positiveInteger('--workers'))
     .action(async (file: string, opts: { engine: EngineRequest; workers?: number; out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; verbose?: boolean; force?: boolean; quiet?: boolean; keepTraces?: 'raw' | 'baseband'; refine?: string | true; refinePoints?: number; report: boolean; parquet?: boolean }) => {
+      const [{ runScenario }, { makeProgress }, { withInterruptSignals }, { describeEstimate }, { resultToJson }, { formatResult }, { formatOperatingPoints }, { operatingPointJson, runOperatingPoints }] = await Promise.all([
+        import('../../library/run.ts'), import('../progress.ts'), import('../signals.ts'), import('../../app/resource-guard.ts'),
+        import('../../app/result-json.ts'), import('../format.ts'), import('../format-operating.ts'), import('../../app/operating-json.ts'),
+      ]);
       const progress = makeProgress({ quiet: opts.quiet });
-      const { result, files, refinement, report, sweep } = await withInterruptSignals((signal) => runToDirectory({
-        refine: opts.refine === undefined ? undefined : { key: opts.refine, points: opts.refinePoints },
+      const { result, files, refinement, report, sweep } = await withInterruptSignals((signal) => runScenario({
+        refine: opts.refine, refinePoints: opts.refinePoints,
         report: opts.report, onProgress: (done, total, phase) => progress.update(done, total, phase),
-        scenarioPath: file, outDir: opts.out, force: opts.force, shots: opts.shots, seed: opts.seed,
+        scenario: file, outDir: opts.out, force: opts.force, shots: opts.shots, seed: opts.seed,
         shard: opts.shard, shotsTable: opts.shotsTable, signal, keepTraces: opts.keepTraces,
         engine: opts.engine, workers: opts.workers, parquet: opts.parquet,
         onWarning: (w) => { if (!opts.quiet) process.stderr.write(`warning: ${w}\n`); },
