@@ -29,7 +29,7 @@ const CASES: [string, unknown, RegExp][] = [
   ['runScenario', { scenario: SCENARIO, outDir: OUT, shard: { index: 0 } }, /^options\.shard\.count: expected a whole number ≥ 1, found nothing$/],
   ['runScenario', { scenario: SCENARIO, outDir: OUT, shard: { index: 0, count: 2, part: 1 } }, /^options\.shard\.part: unknown option of runScenario/],
   ['runScenario', { scenario: SCENARIO, outDir: OUT, report: 'no' }, /^options\.report: expected true or false, found string$/],
-  ['runScenario', { scenario: SCENARIO, outDir: OUT, onProgress: 'x' }, /^options\.onProgress: expected a function \(\(done, total\) => void\), found "x"$/],
+  ['runScenario', { scenario: SCENARIO, outDir: OUT, onProgress: 'x' }, /^options\.onProgress: expected a function \(\(done, total, phase\) => void\), found "x"$/],
   ['runScenario', { scenario: SCENARIO, outDir: OUT, signal: {} }, /^options\.signal: expected an AbortSignal/],
   ['runScenario', { scenario: SCENARIO, outDir: OUT, keepTraces: 'all' }, /^options\.keepTraces: expected one of "raw", "baseband", found "all"$/],
   ['runScenario', { scenario: SCENARIO, outDir: OUT, workers: 0 }, /^options\.workers: expected a whole number ≥ 1, found 0$/],
