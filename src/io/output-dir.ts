@@ -16,7 +16,7 @@
  * new files and no file of the previous run; a kill during the moves leaves no run.json (the folder
  * reads as no run, and its files are whole).
  */
-import { accessSync, closeSync, constants, existsSync, fsyncSync, lstatSync, mkdirSync, openSync, readdirSync, readSync, realpathSync, renameSync, rmSync, statSync, unlinkSync } from 'node:fs';
+import { accessSync, closeSync, constants, existsSync, fstatSync, fsyncSync, lstatSync, mkdirSync, openSync, readdirSync, readSync, realpathSync, renameSync, rmSync, statSync, unlinkSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import { InputError } from '../errors.ts';
 import { fileSystemError, withFileErrors } from './fs-errors.ts';
@@ -37,7 +37,7 @@ const OWN_MARKERS: Record<string, string[]> = {
   '.html': ['singleshot report</title>'],
 };
 
-/** Bytes read from the start of a known file to recognise it as singleshot's. */
+/** Bytes read from the start (and the end) of a known file to recognise it as singleshot's. */
 const MARKER_BYTES = 1 << 20;
 
 /** Whether the file at `path` (a known name) holds singleshot's bytes. */
@@ -52,10 +52,16 @@ export function isOwnFile(path: string): boolean {
     return false;
   }
   try {
-    const buf = Buffer.alloc(MARKER_BYTES);
-    const n = readSync(fd, buf, 0, buf.length, 0);
-    const text = buf.subarray(0, n).toString('latin1');
-    return OWN_MARKERS[ext]!.some((m) => text.includes(m));
+    // the head, then the tail: an Arrow file's footer repeats its schema (with the metadata that
+    // marks it), and a streamed table's head may carry the schema without it
+    const size = fstatSync(fd).size;
+    const buf = Buffer.alloc(Math.min(MARKER_BYTES, size));
+    for (const at of size > MARKER_BYTES ? [0, size - MARKER_BYTES] : [0]) {
+      const n = readSync(fd, buf, 0, buf.length, at);
+      const text = buf.subarray(0, n).toString('latin1');
+      if (OWN_MARKERS[ext]!.some((m) => text.includes(m))) return true;
+    }
+    return false;
   } catch {
     return false;
   } finally {

@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { FolderLock, hostTag, leftoverOwner, LOCK_FILE, processStart } from '../../src/io/folder-lock.ts';
-import { KNOWN_FILES, OutputFolder, STAGING_PREFIX } from '../../src/io/output-dir.ts';
+import { isOwnFile, KNOWN_FILES, OutputFolder, STAGING_PREFIX } from '../../src/io/output-dir.ts';
 import { InputError } from '../../src/errors.ts';
 import { runToDirectory } from '../../src/app/run-to-directory.ts';
 import { runMain } from '../support/cli.ts';
@@ -144,6 +144,28 @@ describe('--force and the commands', () => {
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/summary\.arrow: expected a file singleshot wrote \(--force replaces only those\), found another file under that name/);
     expect(readdirSync(d)).toEqual(['summary.arrow']);
+  });
+
+  it('a forced run replaces a sweep\'s shots.arrow over 1 MiB, whose schema with its marks sits only in the footer', async () => {
+    const d = fresh();
+    const sweep = 'test/fixtures/scenarios/shard-sweep.yaml';
+    await runToDirectory({ scenarioPath: sweep, outDir: d, report: false, free: FREE });
+    const shots = readFileSync(join(d, 'shots.arrow'));
+    expect(shots.length).toBeGreaterThan(1 << 20);
+    // the streamed head carries the schema without the metadata; the footer carries it
+    expect(shots.subarray(0, 1 << 20).includes('singleshot.table')).toBe(false);
+    expect(isOwnFile(join(d, 'shots.arrow'))).toBe(true);
+    await runToDirectory({ scenarioPath: sweep, outDir: d, force: true, report: false, free: FREE, seed: 9 });
+    expect(JSON.parse(readFileSync(join(d, 'run.json'), 'utf8')).seed).toBe(9);
+  });
+
+  it('a file marked only beyond its first and last MiB is not taken for singleshot\'s', () => {
+    const d = fresh();
+    const file = join(d, 'shots.arrow');
+    const filler = Buffer.alloc(3 << 20);
+    Buffer.from('singleshot.table').copy(filler, 3 << 19);
+    writeFileSync(file, filler);
+    expect(isOwnFile(file)).toBe(false);
   });
 
   it('knows its own files by their bytes', () => {
