@@ -68,7 +68,7 @@ export interface RunToDirectoryOptions extends ScenarioOverrides {
   /** Further files or folders the command reads, which the output folder must not be or hold (rerun's folder). */
   inputs?: readonly CommandInput[];
   /**
-   * Simulation threads; ignored when `executor` is given. Default: every core for a trace-engine
+   * Simulation threads; ignored when `executor` is given. Default: every physical core for a trace-engine
    * run estimated to take over POOL_MIN_SECONDS, else 1 (this thread) — starting a worker costs
    * about a second, and the exact engine's time goes mostly into scoring on this thread.
    */
@@ -104,7 +104,7 @@ interface SimulationThreads {
 }
 
 /**
- * How many simulation threads will start: the given count, or every core for a long run of
+ * How many simulation threads will start: the given count, or every physical core for a long run of
  * long batches; never more than there are scored batches; none with an executor given.
  */
 function simulationThreads(o: RunToDirectoryOptions, e: RunEstimate, scoredBatches: number): SimulationThreads {

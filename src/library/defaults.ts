@@ -33,8 +33,8 @@ export const DEFAULTS = {
 } as const;
 
 /**
- * The thread count an automatic worker choice uses for a long run: every core the process may
- * use (`workers` left out: every core for a long run of long batches, else this thread).
+ * The thread count an automatic worker choice uses for a long run: every physical core the process may
+ * use (`workers` left out: every physical core for a long run of long batches, else this thread).
  */
 export function coresForWorkers(): number {
   return defaultWorkers();

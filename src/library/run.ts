@@ -49,7 +49,7 @@ export interface RunScenarioOptions {
   /** `exact` (each integrated value from its exact distribution), `traces` (every sample), or `auto` (exact when valid). Default `auto`. */
   engine?: EngineName;
   /**
-   * Simulation threads (a count ≥ 1). Default: every core for a run estimated over 2 s whose
+   * Simulation threads (a count ≥ 1). Default: every physical core for a run estimated over 2 s whose
    * batches take over 5 ms, else 1 (this thread).
    */
   workers?: number;
