@@ -1,6 +1,7 @@
 /** Command-line values with units ("50 MHz", "50MHz", "2.5e6"), read as the scenario reads them; shared by analyze and fit. */
 import { InvalidArgumentError, type Command } from 'commander';
 import { matchDimension, parseQuantity, UnitSyntaxError, type DimensionName } from '../scenario/units.ts';
+import type { RecordsOptions } from '../library/records-options.ts';
 
 /** A quantity option in SI ("50 MHz", "50MHz" or a plain number in SI units): above 0 (at least 0 with `zero`). */
 export function quantityOption(option: string, dimension: DimensionName, example: string, zero = false) {
@@ -47,15 +48,8 @@ export function unitOption(text: string): 'A' | 'V' | 'none' {
   return text;
 }
 
-/** The options `analyze` and `fit` share about the records: where they are and what the file may not say. */
-export interface RecordOptions {
-  labels?: string;
-  sampleRate?: number;
-  carrier?: number | 'none';
-  window?: { start: number; length: number };
-  scale?: number;
-  unit?: 'A' | 'V' | 'none';
-}
+/** The options `analyze` and `fit` share about the records (the library's, but for the records argument). */
+export type RecordOptions = Omit<RecordsOptions, 'records'>;
 
 /** Adds the records argument and RecordOptions to `command` (`carrierDefault` says what happens when none is given). */
 export function withRecordOptions(command: Command, carrierDefault: string): Command {
