@@ -76,7 +76,7 @@ export function makeRunCommand(): Command {
         engine: opts.engine, workers: opts.workers, parquet: opts.parquet,
         onWarning: (w) => { if (!opts.quiet) process.stderr.write(`warning: ${w}\n`); },
         onEstimate: (e) => {
-          if (!opts.quiet && e.seconds > ESTIMATE_NOTE_SECONDS) process.stderr.write(`note: this run needs ${describeEstimate(e)} (estimated)\n`);
+          if (!opts.quiet && e.seconds > ESTIMATE_NOTE_SECONDS) process.stderr.write(`note: this run needs ${describeEstimate(e)} at most (a cautious estimate: runs often take a fraction of its time)\n`);
         },
       })).finally(() => progress.stop());
       if (opts.json) {
