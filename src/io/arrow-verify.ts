@@ -181,11 +181,22 @@ function messageAt(read: ReadAt, offset: number, end: number): { meta: Uint8Arra
   return { meta: read(offset + prefix, length), prefix, length };
 }
 
+/**
+ * Where the Footer flatbuffer of an Arrow IPC file of `size` (≥ 18) bytes lies, as its trailer
+ * (the footer's int32 length before the closing "ARROW1") says; `fits` when that span lies between
+ * the opening magic and the trailer. The footer holds the file's schema with its metadata (the
+ * only copy: apache-arrow's file writer puts no schema message at the head).
+ */
+export function footerSpan(read: ReadAt, size: number): { start: number; length: number; fits: boolean } {
+  const length = int32At(read(size - 10, 4));
+  const start = size - 10 - length;
+  return { start, length, fits: length > 0 && start >= 8 };
+}
+
 /** Checks an Arrow IPC file of `size` bytes (magic already checked at both ends). */
 function checkFile(read: ReadAt, size: number): void {
-  const footerLength = int32At(read(size - 10, 4));
-  const footerStart = size - 10 - footerLength;
-  if (!(footerLength > 0 && footerStart >= 8)) throw new Damage(`a footer of ${footerLength} bytes`);
+  const { start: footerStart, length: footerLength, fits } = footerSpan(read, size);
+  if (!fits) throw new Damage(`a footer of ${footerLength} bytes`);
   const fb = new Flat(read(footerStart, footerLength));
   const footer = fb.table(fb.u32(0));
   const schema = fb.child(footer, 1);

@@ -20,6 +20,7 @@ import { accessSync, closeSync, constants, existsSync, fstatSync, fsyncSync, lst
 import { basename, dirname, join, resolve } from 'node:path';
 import { InputError } from '../errors.ts';
 import { fileSystemError, withFileErrors } from './fs-errors.ts';
+import { footerSpan, type ReadAt } from './arrow-verify.ts';
 import { FolderLock, hostTag, isDeadHere, leftoverOwner, LOCK_FILE } from './folder-lock.ts';
 
 /** The files singleshot writes into a folder; `--force` replaces these (when their bytes are singleshot's) and nothing else. */
@@ -30,20 +31,29 @@ export const KNOWN_FILES = [
 /** Prefix of the staging folder. */
 export const STAGING_PREFIX = '.singleshot-new-';
 
-/** What marks a known file as singleshot's own, by extension (searched in its first bytes). */
-const OWN_MARKERS: Record<string, string[]> = {
-  '.arrow': ['singleshot.table'],
-  '.json': ['"tool":"singleshot"', '"tool": "singleshot"'],
-  '.html': ['singleshot report</title>'],
+/**
+ * What marks a known file as singleshot's own, by extension: text searched in its first bytes, or,
+ * for an Arrow file, in its footer (where its schema and metadata are; see footerSpan).
+ */
+const OWN_MARKERS: Record<string, { marks: string[]; where: 'head' | 'footer' }> = {
+  '.arrow': { marks: ['singleshot.table'], where: 'footer' },
+  '.json': { marks: ['"tool":"singleshot"', '"tool": "singleshot"'], where: 'head' },
+  '.html': { marks: ['singleshot report</title>'], where: 'head' },
 };
 
-/** Bytes read from the start (and the end) of a known file to recognise it as singleshot's. */
+/** Bytes read from the head of a known JSON or HTML file to recognise it as singleshot's. */
 const MARKER_BYTES = 1 << 20;
+/**
+ * Largest Arrow footer read to recognise a table: the footer carries the canonical scenario (a
+ * scenario file may hold 4 MiB, MAX_SCENARIO_BYTES) and, in traces.arrow, the calibrations.
+ */
+const MAX_FOOTER_BYTES = 64 << 20;
 
 /** Whether the file at `path` (a known name) holds singleshot's bytes. */
 export function isOwnFile(path: string): boolean {
   const ext = Object.keys(OWN_MARKERS).find((e) => path.endsWith(e));
   if (!ext) return false;
+  const { marks, where } = OWN_MARKERS[ext]!;
   let fd: number;
   try {
     if (!statSync(path).isFile()) return false;
@@ -52,16 +62,20 @@ export function isOwnFile(path: string): boolean {
     return false;
   }
   try {
-    // the head, then the tail: an Arrow file's footer repeats its schema (with the metadata that
-    // marks it), and a streamed table's head may carry the schema without it
-    const size = fstatSync(fd).size;
-    const buf = Buffer.alloc(Math.min(MARKER_BYTES, size));
-    for (const at of size > MARKER_BYTES ? [0, size - MARKER_BYTES] : [0]) {
-      const n = readSync(fd, buf, 0, buf.length, at);
-      const text = buf.subarray(0, n).toString('latin1');
-      if (OWN_MARKERS[ext]!.some((m) => text.includes(m))) return true;
+    const read: ReadAt = (offset, length) => {
+      const buf = Buffer.alloc(length);
+      return buf.subarray(0, readSync(fd, buf, 0, length, offset));
+    };
+    let span = { start: 0, length: MARKER_BYTES };
+    if (where === 'footer') {
+      const size = fstatSync(fd).size;
+      if (size < 18) return false;
+      const footer = footerSpan(read, size);
+      if (!footer.fits || footer.length > MAX_FOOTER_BYTES) return false;
+      span = footer;
     }
-    return false;
+    const text = Buffer.from(read(span.start, span.length)).toString('latin1');
+    return marks.some((m) => text.includes(m));
   } catch {
     return false;
   } finally {
