@@ -5,7 +5,6 @@
  */
 import { DEFAULT_REFINE_POINTS } from '../run/refine.ts';
 import { DEFAULT_BOOTSTRAP_SEED, DEFAULT_RESAMPLES } from '../fit/estimate.ts';
-import { defaultWorkers } from '../run/pool.ts';
 
 /** The engine choices: exact, traces, or auto (exact when the scenario allows it). */
 export const ENGINES = ['exact', 'traces', 'auto'] as const;
@@ -31,11 +30,3 @@ export const DEFAULTS = {
   /** `fit`: seed of the bootstrap (`--seed`). */
   bootstrapSeed: DEFAULT_BOOTSTRAP_SEED,
 } as const;
-
-/**
- * The thread count an automatic worker choice uses for a long run: every physical core the process may
- * use (`workers` left out: every physical core for a long run of long batches, else this thread).
- */
-export function coresForWorkers(): number {
-  return defaultWorkers();
-}

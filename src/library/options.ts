@@ -7,6 +7,7 @@
 import { z } from 'zod';
 import { InputError, describeFound, inputErrorOf } from '../errors.ts';
 import { closest } from '../scenario/suggest.ts';
+import { formatPath, valueAt, type KeyPath } from '../scenario/issues.ts';
 
 /** The words for what a value is, as a message's "found …". */
 function kindOf(v: unknown): string {
@@ -18,18 +19,9 @@ function kindOf(v: unknown): string {
   return typeof v;
 }
 
-/** `options.a.b[2]`. */
-function optionName(path: readonly PropertyKey[]): string {
-  return path.reduce<string>((s, k) => (typeof k === 'number' ? `${s}[${k}]` : `${s}.${String(k)}`), 'options');
-}
-
-function valueAt(input: unknown, path: readonly PropertyKey[]): unknown {
-  let v = input;
-  for (const k of path) {
-    if (v === null || typeof v !== 'object') return undefined;
-    v = (v as Record<PropertyKey, unknown>)[k];
-  }
-  return v;
+/** `options.a.b[2]`: an option's key path as the scenario's messages write key paths. */
+function optionName(path: KeyPath): string {
+  return formatPath(['options', ...path]);
 }
 
 /** The keys the schema knows at `path` (for a suggestion). */

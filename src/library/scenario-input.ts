@@ -7,6 +7,7 @@
 import { z } from 'zod';
 import { InputError } from '../errors.ts';
 import { MAX_NESTING } from '../scenario/parse.ts';
+import { formatPath } from '../scenario/issues.ts';
 
 /** The name messages give a scenario passed as an object. */
 export const SCENARIO_OBJECT = '(scenario object)';
@@ -26,13 +27,9 @@ export const scenarioOption = z.union([
   z.custom<ScenarioDocument>(isMapping),
 ], { error: 'a scenario file path (string) or a scenario document (a plain object)' });
 
-function keyText(path: readonly (string | number)[]): string {
-  return path.map((k, i) => (typeof k === 'number' ? `[${k}]` : i === 0 ? k : `.${k}`)).join('');
-}
-
 /** Refuses what is not plain data in a document, naming the key. */
 function checkPlain(v: unknown, path: (string | number)[], open: Set<object>): void {
-  const fail = (found: string) => { throw new InputError(SCENARIO_OBJECT, keyText(path), 'plain data (a mapping, list, string, finite number, boolean or null)', found); };
+  const fail = (found: string) => { throw new InputError(SCENARIO_OBJECT, formatPath(path), 'plain data (a mapping, list, string, finite number, boolean or null)', found); };
   if (v === null || typeof v === 'string' || typeof v === 'boolean') return;
   if (typeof v === 'number') {
     if (!Number.isFinite(v)) fail(String(v));

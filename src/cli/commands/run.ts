@@ -2,7 +2,8 @@
 import { Command, InvalidArgumentError } from 'commander';
 import type { EngineRequest } from '../../engine/choose.ts';
 import { MAX_SHARDS, parseShardText } from '../../io/manifest.ts';
-import { coresForWorkers, DEFAULTS } from '../../library/defaults.ts';
+import { DEFAULTS } from '../../library/defaults.ts';
+import { defaultWorkers } from '../../run/pool.ts';
 
 /** Runs longer than this (estimated, seconds) get a note with the estimate on stderr. */
 const ESTIMATE_NOTE_SECONDS = 60;
@@ -61,7 +62,7 @@ export function makeRunCommand(): Command {
     .option('--no-report', 'do not write report.html')
     .option('--parquet', 'also write every table as Parquet (X.parquet beside X.arrow), for DuckDB, polars and other Parquet readers')
     .option('--engine <kind>', 'exact (draw each integrated value from its exact distribution), traces (synthesise every sample), or auto: exact when valid', engineOption, DEFAULTS.engine)
-    .option('--workers <n>', `simulation threads (default: all ${coresForWorkers()} physical cores for a run estimated over 2 s whose batches take over 5 ms — trace engine, or exact with 1/f — else 1)`, positiveInteger('--workers'))
+    .option('--workers <n>', `simulation threads (default: all ${defaultWorkers()} physical cores for a run estimated over 2 s whose batches take over 5 ms — trace engine, or exact with 1/f — else 1)`, positiveInteger('--workers'))
     .action(async (file: string, opts: { engine: EngineRequest; workers?: number; out: string; shots?: number; seed?: number; shard?: { index: number; count: number }; shotsTable: boolean; json?: boolean; verbose?: boolean; force?: boolean; quiet?: boolean; keepTraces?: 'raw' | 'baseband'; refine?: string | true; refinePoints?: number; report: boolean; parquet?: boolean }) => {
       const [{ runScenario }, { makeProgress }, { withInterruptSignals }, { describeEstimate }, { resultToJson }, { formatResult }, { formatOperatingPoints }, { operatingPointJson, runOperatingPoints }] = await Promise.all([
         import('../../library/run.ts'), import('../progress.ts'), import('../signals.ts'), import('../../app/resource-guard.ts'),
