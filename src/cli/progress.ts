@@ -53,8 +53,12 @@ export function formatRate(perSecond: number): string {
   return perSecond.toFixed(0);
 }
 
-/** "45 s", "3 min 20 s", "2 h 05 min". */
-export function formatDuration(seconds: number): string {
+/**
+ * A clock reading for the line, redrawn several times a second: "45 s", "3 min 20 s",
+ * "2 h 05 min". Not run/estimate.ts formatDuration, whose two significant figures ("3.3 min")
+ * suit a one-off estimate but would make a countdown stand still or jump.
+ */
+export function formatClock(seconds: number): string {
   const s = Math.max(0, Math.round(seconds));
   if (s < 60) return `${s} s`;
   if (s < 3600) return `${Math.floor(s / 60)} min ${String(s % 60).padStart(2, '0')} s`;
@@ -87,13 +91,13 @@ export function makeProgress(o: ProgressOptions = {}): Progress {
   const line = (): string => {
     const t = now();
     const seconds = (t - started) / 1000;
-    if (phase === null) return `setting up (compiling the points, starting threads) ${formatDuration(seconds)}`;
+    if (phase === null) return `setting up (compiling the points, starting threads) ${formatClock(seconds)}`;
     const fraction = total > 0 ? Math.min(1, done / total) : 0;
     const filled = Math.round(fraction * BAR_WIDTH);
     const bar = '█'.repeat(filled) + '░'.repeat(BAR_WIDTH - filled);
     const inPhase = (t - phaseStart) / 1000;
     const rate = inPhase > 0 ? (done - phaseStartDone) / inPhase : NaN;
-    const left = inPhase * 1000 >= RATE_AFTER && rate > 0 ? `${formatDuration((total - done) / rate)} left` : 'time left: measuring';
+    const left = inPhase * 1000 >= RATE_AFTER && rate > 0 ? `${formatClock((total - done) / rate)} left` : 'time left: measuring';
     return `${phase} ${bar} ${Math.floor(100 * fraction)}% | ${done}/${total} shots | ${formatRate(rate)} shots/s | ${left}`;
   };
 

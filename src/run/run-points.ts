@@ -52,6 +52,11 @@ export function resolveEngine(
   return chooseEngine(points.map((p) => p.scenario), engine ?? 'traces', { keepTraces });
 }
 
+/** The shots of one purpose the run simulates, over its points from `first` on (the progress totals). */
+function shotsToRun(points: readonly SweepPoint[], first: number, purpose: 'calibrate' | 'score', shard?: RunOptions['shard']): number {
+  return points.reduce((a, p, i) => a + (i < first ? 0 : batchPlan(p.scenario, i, purpose, shard).shots), 0);
+}
+
 /** Batches per task on the fused exact path (a batch there takes well under a millisecond). */
 const FUSED_BATCHES_PER_TASK = 16;
 
@@ -67,7 +72,7 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
   // batches arrive in task order, i.e. point by point: calibrate each point as soon as its
   // batches are in, so only one point's calibration shots are held at a time
   let pending: ShotBatch[] = [];
-  const calibrationShots = points.reduce((a, p, i) => a + (i < first ? 0 : batchPlan(p.scenario, i, 'calibrate').shots), 0);
+  const calibrationShots = shotsToRun(points, first, 'calibrate');
   let calibrated = 0;
   const calibratePending = () => {
     if (pending.length === 0) return;
@@ -109,7 +114,7 @@ export async function runPoints(points: readonly SweepPoint[], options: RunOptio
     const plan = batchPlan(p.scenario, i, 'score', options.shard);
     return [scoring ? plan.with({ engine, scoring }).grouped(FUSED_BATCHES_PER_TASK) : plan.with({ engine })];
   }));
-  const totalShots = points.reduce((a, p, i) => a + (i < first ? 0 : batchPlan(p.scenario, i, 'score', options.shard).shots), 0);
+  const totalShots = shotsToRun(points, first, 'score', options.shard);
   let done = 0;
   for await (const b of executor.run(scorePlans, scoreTasks)) {
     const r = results[b.point - first]!;

@@ -1,6 +1,6 @@
 import { Writable } from 'node:stream';
 import { describe, expect, it } from 'vitest';
-import { formatDuration, formatRate, makeProgress, type ProgressStream } from '../../src/cli/progress.ts';
+import { formatClock, formatRate, makeProgress, type ProgressStream } from '../../src/cli/progress.ts';
 
 /** A stand-in for stderr that records what is written; `tty` sets isTTY as a terminal would. */
 function fakeStream(tty: boolean): { stream: ProgressStream; text: () => string; last: () => string } {
@@ -103,6 +103,6 @@ describe('progress line', () => {
   });
 
   it.each([[0.4, '0 s'], [59.4, '59 s'], [200, '3 min 20 s'], [7500, '2 h 05 min']])('formats %d s as %s', (x, s) => {
-    expect(formatDuration(x)).toBe(s);
+    expect(formatClock(x)).toBe(s);
   });
 });
