@@ -3,8 +3,8 @@
 // The JavaScript is bundled (esbuild): three entry files — dist/cli.js (the command line),
 // dist/index.js (the library), dist/pool-worker.js (a simulation thread) — and the chunks they
 // share, all in dist/ itself so that each finds the others beside it. A command loads only the
-// chunks it uses: one bundle starts several times faster than Node resolving some three hundred
-// small files. The packages that load files of their own (WebAssembly readers) or are large and
+// chunks it uses, and a bundle starts faster than Node resolving every compiled module and its
+// packages' files one by one (`check`: 0.13 s against 0.24 s, measured side by side). The packages that load files of their own (WebAssembly readers) or are large and
 // needed only by some commands (plots, Arrow) stay outside, loaded from node_modules when used.
 // Type declarations come from the TypeScript compiler (dist/types/).
 //

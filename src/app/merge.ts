@@ -199,8 +199,17 @@ function checkPointTallies(file: string, k: number, part: PointTallies, sc: Scen
   });
 }
 
-/** A record batch whose dictionary columns use the given dictionaries (so a writer writes them once). */
-function withDictionaries(batch: RecordBatch, schema: Schema, dictionaries: Map<number, Vector>): RecordBatch {
+/** A dictionary's first words, as a message shows them. */
+function dictionaryWords(d: Vector): string {
+  const words = Array.from(d.toArray() as ArrayLike<unknown>, (w) => JSON.stringify(String(w).slice(0, 20)));
+  return words.length > 6 ? `${words.slice(0, 6).join(', ')}, …` : words.join(', ');
+}
+
+/**
+ * A record batch whose dictionary columns use the given dictionaries (so a writer writes them
+ * once); a shard whose dictionary differs from the first one's is refused, naming its `path`.
+ */
+function withDictionaries(path: string, batch: RecordBatch, schema: Schema, dictionaries: Map<number, Vector>): RecordBatch {
   const children = batch.data.children.map((child: Data, i: number) => {
     const f = schema.fields[i]!;
     const id = (f.type as { id?: number }).id;
@@ -212,7 +221,7 @@ function withDictionaries(batch: RecordBatch, schema: Schema, dictionaries: Map<
     }
     if (known === child.dictionary) return child;
     if (JSON.stringify(known.toArray()) !== JSON.stringify(child.dictionary.toArray())) {
-      throw new Error(`merge: column ${f.name} has different dictionaries in the shards`);
+      throw new InputError(path, f.name, `the words the first shard's column has (${dictionaryWords(known)})`, dictionaryWords(child.dictionary));
     }
     return makeData({ type: child.type, offset: child.offset, length: child.length, nullCount: child.nullCount, data: child.values, nullBitmap: child.nullBitmap, dictionary: known } as never);
   });
@@ -294,7 +303,7 @@ async function concatenateTable(
         const next = (byPipeline ?? [null]).map(() => range.first);
         for (let b = await peek(r); b && pointOf(b) === p; b = await peek(r)) {
           checkBatchShots(path, b, byPipeline, range, next);
-          stream.write(withDictionaries(b, schema, dictionaries));
+          stream.write(withDictionaries(path, b, schema, dictionaries));
           r.peeked = null;
           await checkpoint(signal);
         }

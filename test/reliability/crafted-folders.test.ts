@@ -138,6 +138,18 @@ describe('merge refuses crafted shards', () => {
     await expectRefused(['merge', at('s1'), dir, '--out', at('m3'), '--no-report'], /s2-renumbered\/shots\.arrow: shot: expected shot \d+ of point 0 next/);
   });
 
+  it('shots whose state names differ from the first shard\'s (a dictionary changed, metadata made to agree)', async () => {
+    const dir = at('s2-dictionary');
+    cpSync(at('s2'), dir, { recursive: true });
+    const path = join(dir, 'shots.arrow');
+    const bytes = readFileSync(path);
+    // the first "high" is the state's name in a dictionary batch (the footer's scenario comes last)
+    bytes.write('hxgh', bytes.indexOf('high'), 'latin1');
+    writeFileSync(path, bytes);
+    resign(dir);
+    await expectRefused(['merge', at('s1'), dir, '--out', at('m6'), '--no-report'], /s2-dictionary\/shots\.arrow: [a-z_]+: expected the words the first shard's column has \("low", "high"\), found "low", "hxgh"/);
+  });
+
   it('shards that kept traces of different kinds', async () => {
     await expectRefused(['merge', at('t1'), at('t2'), '--out', at('m4'), '--no-report'], /t2\/traces\.arrow: expected traces kept like .*t1's \(raw/);
   });
