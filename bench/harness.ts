@@ -20,6 +20,12 @@ export interface BenchCase {
   run(): Promise<BenchResult>;
 }
 
+/** The median of `xs` (the mean of the middle two for an even count). */
+export function median(xs: readonly number[]): number {
+  const v = [...xs].sort((a, b) => a - b);
+  return v.length % 2 ? v[(v.length - 1) / 2]! : (v[v.length / 2 - 1]! + v[v.length / 2]!) / 2;
+}
+
 /** Runs `work` repeatedly for about `seconds` after a warm-up; returns items per second. */
 export async function measureRate(work: () => number | Promise<number>, seconds = 3, warmup = 1): Promise<number> {
   let t0 = performance.now();

@@ -11,7 +11,7 @@ import { execFileSync } from 'node:child_process';
 import { readdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import type { BenchCase } from './harness.ts';
+import { median, type BenchCase } from './harness.ts';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const filter = process.argv[2];
@@ -35,10 +35,6 @@ for (const f of files) {
   const mod = (await import(pathToFileURL(join(here, 'cases', f)).href)) as { cases: BenchCase[] };
   cases.push(...mod.cases);
 }
-const median = (xs: readonly number[]): number => {
-  const v = [...xs].sort((a, b) => a - b);
-  return v.length % 2 ? v[(v.length - 1) / 2]! : (v[v.length / 2 - 1]! + v[v.length / 2]!) / 2;
-};
 console.log(`singleshot benchmarks — node ${process.version}, ${cases.length} cases; cases with a numpy baseline in ${ROUNDS} paired rounds`);
 for (const c of cases) {
   if (filter && !c.name.includes(filter)) continue;

@@ -12,7 +12,7 @@
 import { execFileSync } from 'node:child_process';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { BenchCase } from '../harness.ts';
+import { median, type BenchCase } from '../harness.ts';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const ROUNDS = 15;
@@ -24,10 +24,6 @@ function wall(args: readonly string[], cwd: string): number {
   return (performance.now() - t0) / 1000;
 }
 
-const median = (xs: readonly number[]): number => {
-  const v = [...xs].sort((a, b) => a - b);
-  return v.length % 2 ? v[(v.length - 1) / 2]! : (v[v.length / 2 - 1]! + v[v.length / 2]!) / 2;
-};
 
 function startupCase(name: string, tree: string, command: readonly string[]): BenchCase {
   return {
